@@ -1,0 +1,154 @@
+"""The ``shaftsys`` command line.
+
+Every command exits 0 when all checks pass, 1 when a target or limit is missed (results
+are still written), 2 for bad input, 3 for a numerical failure. Errors shaftsys raises on
+purpose are printed as one clear message; anything else is a bug and shows a traceback.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import logging
+import sys
+from collections.abc import Sequence
+from pathlib import Path
+
+from shaftsys import __version__
+from shaftsys.errors import EXIT_OK, EXIT_TARGET_MISSED, ShaftsysError
+
+EXIT_CODES_TEXT = """exit codes:
+  0  every check passes
+  1  a target or limit is missed (results are still written)
+  2  bad input (the message names file, line and field)
+  3  numerical failure (singular or ill-posed system, residual above tolerance)"""
+
+CHECK_EXAMPLE = """example:
+  shaftsys check models/fan_drive.yaml
+  shaftsys check models/fan_drive.yaml --json results.json
+  shaftsys check models/fan_drive.yaml --json - --quiet | jq .system"""
+
+VALIDATE_EXAMPLE = """example:
+  shaftsys validate models/fan_drive.yaml"""
+
+SCHEMA_EXAMPLE = """example:
+  shaftsys schema -o model.schema.json"""
+
+
+def _parser() -> argparse.ArgumentParser:
+    p = argparse.ArgumentParser(
+        prog="shaftsys",
+        description="Bearing reactions, ISO 281 bearing life and shaft checks for every "
+        "support of a machine over its duty cycle.",
+        epilog=EXIT_CODES_TEXT + "\n\nexample:\n  shaftsys check models/fan_drive.yaml",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    p.add_argument("--version", action="version", version=f"shaftsys {__version__}")
+    sub = p.add_subparsers(dest="command", metavar="COMMAND")
+
+    c = sub.add_parser(
+        "check", help="solve a model and check every bearing against its targets",
+        description="Solve every shaft in every operating case, print the reactions of "
+        "every bearing and the life verdict table.",
+        epilog=CHECK_EXAMPLE + "\n\n" + EXIT_CODES_TEXT,
+        formatter_class=argparse.RawDescriptionHelpFormatter)
+    c.add_argument("model", help="model file (YAML)")
+    c.add_argument("--json", metavar="PATH", help="write the results as JSON ('-' = stdout)")
+    c.add_argument("--quiet", "-q", action="store_true", help="print nothing but errors")
+    c.add_argument("--loads-only", action="store_true",
+                   help="print only the reaction table")
+
+    v = sub.add_parser(
+        "validate", help="read and check a model file without solving it",
+        description="Read a model file and report the first problem found, with its file, "
+        "line and field.", epilog=VALIDATE_EXAMPLE + "\n\n" + EXIT_CODES_TEXT,
+        formatter_class=argparse.RawDescriptionHelpFormatter)
+    v.add_argument("model", help="model file (YAML)")
+    v.add_argument("--quiet", "-q", action="store_true", help="print nothing but errors")
+
+    s = sub.add_parser(
+        "schema", help="print the JSON Schema of the model file",
+        description="Print the JSON Schema that editors can use to check a model file "
+        "while it is typed.", epilog=SCHEMA_EXAMPLE,
+        formatter_class=argparse.RawDescriptionHelpFormatter)
+    s.add_argument("-o", "--output", metavar="PATH", help="write to a file instead")
+    return p
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Entry point of the ``shaftsys`` console script; returns the exit code."""
+    args = _parser().parse_args(argv)
+    logging.basicConfig(level=logging.WARNING, format="warning: %(message)s")
+    if args.command is None:
+        _parser().print_help()
+        return EXIT_OK
+    try:
+        if args.command == "check":
+            return _check(args)
+        if args.command == "validate":
+            return _validate(args)
+        if args.command == "schema":
+            return _schema(args)
+    except ShaftsysError as exc:
+        print(f"shaftsys: error: {exc}", file=sys.stderr)
+        return exc.exit_code
+    except KeyboardInterrupt:
+        print("shaftsys: interrupted", file=sys.stderr)
+        return 130
+    return EXIT_OK  # pragma: no cover
+
+
+def _validate(args: argparse.Namespace) -> int:
+    from shaftsys.io.loader import load_model
+
+    model = load_model(args.model)
+    if not args.quiet:
+        nb = sum(len(s.bearings) for s in model.shafts)
+        print(f"{args.model}: valid model '{model.name}': {len(model.shafts)} shaft(s), "
+              f"{nb} bearing(s), {len(model.cases)} case(s)")
+    return EXIT_OK
+
+
+def _schema(args: argparse.Namespace) -> int:
+    from shaftsys.io.output import write_text
+    from shaftsys.io.schema import model_schema
+
+    text = json.dumps(model_schema(), indent=2) + "\n"
+    if args.output:
+        write_text(args.output, text)
+    else:
+        sys.stdout.write(text)
+    return EXIT_OK
+
+
+def _check(args: argparse.Namespace) -> int:
+    from shaftsys.analysis import analyse
+    from shaftsys.io.loader import load_model
+    from shaftsys.io.output import json_ready, write_json
+    from shaftsys.report.tables import loads_table, verdict_table
+    from shaftsys.results_json import result_to_dict
+
+    model = load_model(args.model)
+    result = analyse(model)
+    data = result_to_dict(result)
+    if args.json and args.json != "-":
+        write_json(Path(args.json), data)
+    to_stdout_json = args.json == "-"
+    out = sys.stderr if to_stdout_json else sys.stdout
+    if not args.quiet:
+        print(loads_table(result), file=out)
+        if not args.loads_only:
+            print(file=out)
+            print(verdict_table(result), file=out)
+        for w in result.warnings:
+            print(f"warning: {w}", file=sys.stderr)
+        for b in result.bearings:
+            for w in b.life.warnings if b.life is not None else ():
+                print(f"warning: bearing '{b.bearing.id}': {w}", file=sys.stderr)
+    if to_stdout_json:
+        sys.stdout.write(json.dumps(json_ready(data), indent=2) + "\n")
+    return EXIT_OK if result.ok else EXIT_TARGET_MISSED
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

@@ -1,0 +1,61 @@
+"""Finite-element beam core of a straight stepped shaft (pure numpy/scipy).
+
+Units follow :mod:`shaftsys.units`: N, mm, N*mm, MPa, kg/m^3 (converted where used).
+"""
+
+from shaftsys.fe.beam import (
+    bar_stiffness,
+    bar_uniform_load,
+    beam_stiffness,
+    shear_parameter,
+    uniform_load,
+)
+from shaftsys.fe.mesh import COINCIDENT_TOL_MM, BeamMesh, Steps, build_mesh
+from shaftsys.fe.sections import (
+    Section,
+    circular_section,
+    circular_section_arrays,
+    cowper_shear_coefficient,
+)
+from shaftsys.fe.solve import (
+    DEFAULT_COND_WARN,
+    DEFAULT_PIVOT_TOL,
+    Bar,
+    BarSupport,
+    InternalForces,
+    PlanarBending,
+    Support,
+    assemble_banded,
+    bar_stiffness_banded,
+    left_right_at_nodes,
+    planar_stiffness_banded,
+    warn_if_ill_conditioned,
+)
+
+__all__ = [
+    "COINCIDENT_TOL_MM",
+    "DEFAULT_COND_WARN",
+    "DEFAULT_PIVOT_TOL",
+    "Bar",
+    "BarSupport",
+    "BeamMesh",
+    "InternalForces",
+    "PlanarBending",
+    "Section",
+    "Steps",
+    "Support",
+    "assemble_banded",
+    "bar_stiffness",
+    "bar_stiffness_banded",
+    "bar_uniform_load",
+    "beam_stiffness",
+    "build_mesh",
+    "circular_section",
+    "circular_section_arrays",
+    "cowper_shear_coefficient",
+    "left_right_at_nodes",
+    "planar_stiffness_banded",
+    "shear_parameter",
+    "uniform_load",
+    "warn_if_ill_conditioned",
+]

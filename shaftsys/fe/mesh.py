@@ -1,0 +1,385 @@
+"""Nodes and element properties of a stepped straight shaft.
+
+Units: positions and lengths [mm], moduli [MPa], areas [mm^2], second moments [mm^4],
+density [kg/m^3], shear coefficient [-].
+
+A shaft is described by contiguous steps ``[x0, x1)`` (the last one closed), each with its
+own section and material (:class:`Steps`). :func:`build_mesh` puts a node at every step
+edge and every requested station (bearing, gear, load position...), then subdivides each
+interval into equal elements no longer than ``max_element_mm``. Every element lies inside
+one step, so element properties are constant along an element.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+from shaftsys.errors import ModelError
+from shaftsys.fe.sections import Section, circular_section_arrays
+
+__all__ = ["COINCIDENT_TOL_MM", "BeamMesh", "Steps", "build_mesh"]
+
+#: Stations closer than this [mm] are the same node.
+COINCIDENT_TOL_MM = 1e-9
+
+_ELEMENT_FIELDS = ("E_MPa", "G_MPa", "A_mm2", "I_mm4", "J_mm4", "k_shear", "rho_kg_m3")
+
+
+def _frozen(a: ArrayLike, n: int, name: str) -> NDArray[np.float64]:
+    """Float copy of ``a`` broadcast to length ``n``, made read-only."""
+    arr = np.array(np.broadcast_to(np.asarray(a, dtype=float), (n,)), dtype=float)
+    if arr.shape != (n,):  # pragma: no cover - broadcast_to already enforces it
+        raise ModelError(f"{name} has shape {arr.shape}, expected ({n},)")
+    arr.setflags(write=False)
+    return arr
+
+
+def _check_properties(obj: object, n: int, owner: str) -> None:
+    """Broadcast, freeze and validate the per-element (or per-step) property arrays."""
+    for name in _ELEMENT_FIELDS:
+        try:
+            arr = _frozen(getattr(obj, name), n, name)
+        except ValueError as exc:
+            raise ModelError(
+                f"{owner}.{name} does not match {n} {owner} intervals", expected=f"{n} values"
+            ) from exc
+        positive = name != "rho_kg_m3"
+        bad = ~np.isfinite(arr) | ((arr <= 0.0) if positive else (arr < 0.0))
+        if np.any(bad):
+            i = int(np.flatnonzero(bad)[0])
+            raise ModelError(
+                f"{owner}.{name}[{i}] = {arr[i]!r} is not valid",
+                field=f"{owner}.{name}",
+                expected="a finite value > 0" if positive else "a finite value >= 0",
+            )
+        object.__setattr__(obj, name, arr)
+
+
+@dataclass(frozen=True, eq=False)
+class Steps:
+    """Contiguous shaft steps with constant section and material in each.
+
+    Step ``i`` covers ``[edges_mm[i], edges_mm[i+1])``; the last step includes its end.
+    Scalars broadcast to every step.
+
+    Attributes
+    ----------
+    edges_mm:
+        Step edges [mm], strictly increasing, ``n_steps + 1`` values.
+    E_MPa, G_MPa:
+        Young's and shear moduli [MPa] per step.
+    A_mm2, I_mm4, J_mm4:
+        Area [mm^2], diametral and polar second moments [mm^4] per step.
+    k_shear:
+        Timoshenko shear coefficient [-] per step.
+    rho_kg_m3:
+        Density [kg/m^3] per step (0 allowed for statics).
+    """
+
+    edges_mm: NDArray[np.float64]
+    E_MPa: NDArray[np.float64]
+    G_MPa: NDArray[np.float64]
+    A_mm2: NDArray[np.float64]
+    I_mm4: NDArray[np.float64]
+    J_mm4: NDArray[np.float64]
+    k_shear: NDArray[np.float64]
+    rho_kg_m3: NDArray[np.float64]
+
+    def __post_init__(self) -> None:
+        edges = np.array(self.edges_mm, dtype=float).ravel()
+        if edges.size < 2 or not np.all(np.isfinite(edges)):
+            raise ModelError("step edges must be at least two finite positions [mm]")
+        if np.any(np.diff(edges) <= COINCIDENT_TOL_MM):
+            raise ModelError(
+                "step edges must be strictly increasing", expected="each step longer than 1e-9 mm"
+            )
+        edges.setflags(write=False)
+        object.__setattr__(self, "edges_mm", edges)
+        _check_properties(self, edges.size - 1, "steps")
+
+    @property
+    def n_steps(self) -> int:
+        """Number of steps."""
+        return int(self.edges_mm.size - 1)
+
+    @classmethod
+    def from_diameters(
+        cls,
+        edges_mm: ArrayLike,
+        d_outer_mm: ArrayLike,
+        d_bore_mm: ArrayLike = 0.0,
+        *,
+        E_MPa: ArrayLike,
+        poisson: ArrayLike,
+        G_MPa: ArrayLike | None = None,
+        rho_kg_m3: ArrayLike = 0.0,
+    ) -> Steps:
+        """Build steps of round sections from diameters and material constants.
+
+        Parameters
+        ----------
+        edges_mm:
+            Step edges [mm], ``n_steps + 1`` values.
+        d_outer_mm, d_bore_mm:
+            Outer and bore diameters [mm] per step (bore 0 for solid).
+        E_MPa:
+            Young's modulus [MPa].
+        poisson:
+            Poisson's ratio [-] (enters Cowper's shear coefficient, and G when G is not
+            given).
+        G_MPa:
+            Shear modulus [MPa]; ``None`` = isotropic G = E / (2 (1 + nu)).
+        rho_kg_m3:
+            Density [kg/m^3].
+
+        Returns
+        -------
+        Steps
+        """
+        edges = np.asarray(edges_mm, dtype=float).ravel()
+        n = max(edges.size - 1, 0)
+        do = np.broadcast_to(np.asarray(d_outer_mm, dtype=float), (n,))
+        di = np.broadcast_to(np.asarray(d_bore_mm, dtype=float), (n,))
+        nu = np.broadcast_to(np.asarray(poisson, dtype=float), (n,))
+        if np.any(~np.isfinite(do) | (do <= 0.0)) or np.any(~(di >= 0.0) | ~(di < do)):
+            raise ModelError("step diameters invalid", expected="0 <= bore < outer, outer > 0 mm")
+        if np.any(~(nu > -1.0) | ~(nu < 0.5)):
+            raise ModelError("Poisson's ratio out of range", expected="-1 < nu < 0.5")
+        area, inertia, polar, k = circular_section_arrays(do, di, nu)
+        E = np.broadcast_to(np.asarray(E_MPa, dtype=float), (n,))
+        return cls(
+            edges_mm=edges,
+            E_MPa=E,
+            G_MPa=E / (2.0 * (1.0 + nu)) if G_MPa is None else np.asarray(G_MPa, dtype=float),
+            A_mm2=area,
+            I_mm4=inertia,
+            J_mm4=polar,
+            k_shear=k,
+            rho_kg_m3=np.asarray(rho_kg_m3, dtype=float),
+        )
+
+    @classmethod
+    def from_sections(
+        cls,
+        edges_mm: ArrayLike,
+        sections: list[Section] | tuple[Section, ...],
+        *,
+        E_MPa: ArrayLike,
+        G_MPa: ArrayLike,
+        rho_kg_m3: ArrayLike = 0.0,
+    ) -> Steps:
+        """Build steps from one :class:`~shaftsys.fe.sections.Section` per step.
+
+        Parameters
+        ----------
+        edges_mm:
+            Step edges [mm], ``len(sections) + 1`` values.
+        sections:
+            Section of each step.
+        E_MPa, G_MPa:
+            Young's and shear moduli [MPa] (scalar or per step).
+        rho_kg_m3:
+            Density [kg/m^3] (scalar or per step).
+
+        Returns
+        -------
+        Steps
+        """
+        return cls(
+            edges_mm=np.asarray(edges_mm, dtype=float),
+            E_MPa=np.asarray(E_MPa, dtype=float),
+            G_MPa=np.asarray(G_MPa, dtype=float),
+            A_mm2=np.array([s.A_mm2 for s in sections], dtype=float),
+            I_mm4=np.array([s.I_mm4 for s in sections], dtype=float),
+            J_mm4=np.array([s.J_mm4 for s in sections], dtype=float),
+            k_shear=np.array([s.k_shear for s in sections], dtype=float),
+            rho_kg_m3=np.asarray(rho_kg_m3, dtype=float),
+        )
+
+
+@dataclass(frozen=True, eq=False)
+class BeamMesh:
+    """Nodes along x and constant properties per element.
+
+    Attributes
+    ----------
+    x_mm:
+        Node positions [mm], strictly increasing, shape (n_nodes,).
+    E_MPa, G_MPa:
+        Young's and shear moduli [MPa] per element, shape (n_nodes - 1,).
+    A_mm2:
+        Area [mm^2] per element.
+    I_mm4:
+        Diametral second moment [mm^4] per element (bending in either plane).
+    J_mm4:
+        Polar second moment [mm^4] per element (torsion).
+    k_shear:
+        Shear coefficient [-] per element.
+    rho_kg_m3:
+        Density [kg/m^3] per element.
+    step_of_element:
+        Index of the step each element belongs to (``-1`` when built directly).
+    """
+
+    x_mm: NDArray[np.float64]
+    E_MPa: NDArray[np.float64]
+    G_MPa: NDArray[np.float64]
+    A_mm2: NDArray[np.float64]
+    I_mm4: NDArray[np.float64]
+    J_mm4: NDArray[np.float64]
+    k_shear: NDArray[np.float64]
+    rho_kg_m3: NDArray[np.float64]
+    step_of_element: NDArray[np.intp] = field(default_factory=lambda: np.empty(0, dtype=np.intp))
+
+    def __post_init__(self) -> None:
+        x = np.array(self.x_mm, dtype=float).ravel()
+        if x.size < 2 or not np.all(np.isfinite(x)):
+            raise ModelError("a beam mesh needs at least two finite node positions [mm]")
+        if np.any(np.diff(x) <= 0.0):
+            raise ModelError("mesh node positions must be strictly increasing")
+        x.setflags(write=False)
+        object.__setattr__(self, "x_mm", x)
+        n_e = x.size - 1
+        _check_properties(self, n_e, "elements")
+        steps = np.asarray(self.step_of_element, dtype=np.intp).ravel()
+        if steps.size == 0:
+            steps = np.full(n_e, -1, dtype=np.intp)
+        if steps.shape != (n_e,):
+            raise ModelError("step_of_element must have one entry per element")
+        steps.setflags(write=False)
+        object.__setattr__(self, "step_of_element", steps)
+
+    @property
+    def n_nodes(self) -> int:
+        """Number of nodes."""
+        return int(self.x_mm.size)
+
+    @property
+    def n_elements(self) -> int:
+        """Number of elements (n_nodes - 1)."""
+        return int(self.x_mm.size - 1)
+
+    @property
+    def L_mm(self) -> NDArray[np.float64]:
+        """Element lengths [mm], shape (n_elements,)."""
+        return np.diff(self.x_mm)
+
+    @property
+    def EI_Nmm2(self) -> NDArray[np.float64]:
+        """Bending rigidity E*I [N*mm^2] per element."""
+        return self.E_MPa * self.I_mm4
+
+    @property
+    def kGA_N(self) -> NDArray[np.float64]:
+        """Shear rigidity k*G*A [N] per element."""
+        return self.k_shear * self.G_MPa * self.A_mm2
+
+    @property
+    def EA_N(self) -> NDArray[np.float64]:
+        """Axial rigidity E*A [N] per element."""
+        return self.E_MPa * self.A_mm2
+
+    @property
+    def GJ_Nmm2(self) -> NDArray[np.float64]:
+        """Torsional rigidity G*J [N*mm^2] per element."""
+        return self.G_MPa * self.J_mm4
+
+
+def build_mesh(
+    steps: Steps,
+    stations_mm: ArrayLike = (),
+    max_element_mm: float = math.inf,
+) -> tuple[BeamMesh, NDArray[np.intp]]:
+    """Mesh a stepped shaft with nodes at every step edge and station.
+
+    Parameters
+    ----------
+    steps:
+        Contiguous steps of the shaft (see :class:`Steps`).
+    stations_mm:
+        Positions [mm] that must be nodes (supports, load points, output points). Must
+        lie on the shaft, ``edges[0] <= x <= edges[-1]`` (to within 1e-9 mm).
+    max_element_mm:
+        Longest allowed element [mm] (> 0; ``inf`` = only the compulsory nodes).
+
+    Returns
+    -------
+    mesh : BeamMesh
+        The mesh; element ``e`` carries the properties of step ``mesh.step_of_element[e]``.
+    station_nodes : numpy.ndarray of int
+        Node index of each requested station, in the order given. Positions closer than
+        :data:`COINCIDENT_TOL_MM` share one node (a cluster whose consecutive gaps are all
+        below the tolerance is one node; a step edge in a cluster fixes its position).
+
+    Raises
+    ------
+    ModelError
+        A station off the shaft or an invalid ``max_element_mm``.
+    """
+    if not (max_element_mm > 0.0):
+        raise ModelError(f"max_element_mm = {max_element_mm!r}", expected="> 0 mm")
+    edges = steps.edges_mm
+    stations = np.asarray(stations_mm, dtype=float).ravel()
+    if stations.size and (
+        not np.all(np.isfinite(stations))
+        or stations.min() < edges[0] - COINCIDENT_TOL_MM
+        or stations.max() > edges[-1] + COINCIDENT_TOL_MM
+    ):
+        bad = stations[
+            ~np.isfinite(stations)
+            | (stations < edges[0] - COINCIDENT_TOL_MM)
+            | (stations > edges[-1] + COINCIDENT_TOL_MM)
+        ]
+        raise ModelError(
+            f"station at x = {bad[0]!r} mm is off the shaft",
+            expected=f"{edges[0]!r} <= x <= {edges[-1]!r} mm",
+        )
+
+    # Merge edges and stations into unique compulsory nodes.
+    pts = np.concatenate([edges, stations])
+    is_edge = np.zeros(pts.size, dtype=bool)
+    is_edge[: edges.size] = True
+    order = np.argsort(pts, kind="stable")
+    sorted_pts = pts[order]
+    new_cluster = np.empty(pts.size, dtype=bool)
+    new_cluster[0] = True
+    new_cluster[1:] = np.diff(sorted_pts) > COINCIDENT_TOL_MM
+    cluster_sorted = np.cumsum(new_cluster) - 1
+    cluster = np.empty(pts.size, dtype=np.intp)
+    cluster[order] = cluster_sorted
+    nodes = sorted_pts[new_cluster].copy()
+    nodes[cluster[is_edge]] = edges  # edge positions win inside a cluster
+
+    # Subdivide every interval into equal elements no longer than max_element_mm.
+    lengths = np.diff(nodes)
+    if math.isinf(max_element_mm):
+        n_sub = np.ones(lengths.size, dtype=np.intp)
+    else:
+        n_sub = np.maximum(1, np.ceil(lengths / max_element_mm - 1e-9)).astype(np.intp)
+    first = np.concatenate([[0], np.cumsum(n_sub)])
+    total = int(first[-1])
+    interval = np.repeat(np.arange(lengths.size), n_sub)
+    j = np.arange(total) - first[interval]
+    x = np.empty(total + 1)
+    x[:-1] = nodes[interval] + lengths[interval] * (j / n_sub[interval])
+    x[-1] = nodes[-1]
+
+    mid = 0.5 * (x[:-1] + x[1:])
+    step = np.clip(np.searchsorted(edges, mid, side="right") - 1, 0, steps.n_steps - 1)
+    mesh = BeamMesh(
+        x_mm=x,
+        E_MPa=steps.E_MPa[step],
+        G_MPa=steps.G_MPa[step],
+        A_mm2=steps.A_mm2[step],
+        I_mm4=steps.I_mm4[step],
+        J_mm4=steps.J_mm4[step],
+        k_shear=steps.k_shear[step],
+        rho_kg_m3=steps.rho_kg_m3[step],
+        step_of_element=step,
+    )
+    station_nodes = first[cluster[edges.size :]].astype(np.intp)
+    return mesh, station_nodes

@@ -1,0 +1,559 @@
+"""Read a model file into a frozen :class:`~shaftsys.model.Model`.
+
+All validation that needs the file (lines, field paths) happens here; the numerical
+core receives only checked, converted, frozen values.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import math
+from pathlib import Path
+from typing import Any
+
+from shaftsys.errors import ModelError
+from shaftsys.io import spec as S
+from shaftsys.io.spec import Where, read_section, read_value, require_mapping
+from shaftsys.io.yamlsource import MAX_FILE_BYTES, LocatedDict, LocatedList, parse_yaml
+from shaftsys.model import (
+    AxialRole,
+    Bearing,
+    BearingKind,
+    BevelGear,
+    Case,
+    CaseKind,
+    Coupling,
+    Drive,
+    Element,
+    ElementLoad,
+    Gear,
+    LifeSettings,
+    Lubrication,
+    LumpedMass,
+    Material,
+    Model,
+    ProcessLoad,
+    Pulley,
+    SetArrangement,
+    Shaft,
+    SolverSettings,
+    Sprocket,
+    Step,
+    Unbalance,
+)
+
+_AXIAL_FREE_TYPES = {BearingKind.NEEDLE_ROLLER}
+_TOL_MM = 1e-9
+
+
+def load_model(path: str | Path) -> Model:
+    """Read and check a model file.
+
+    Raises
+    ------
+    ModelError: anything wrong in the file, with file, line, field and expectation.
+    """
+    p = Path(path)
+    name = str(path)
+    try:
+        size = p.stat().st_size
+    except OSError as exc:
+        raise ModelError(f"cannot read the model file: {exc.strerror}", file=name) from None
+    if size > MAX_FILE_BYTES:
+        raise ModelError(f"the model file is larger than {MAX_FILE_BYTES // 1000} kB",
+                         file=name, line=1, expected="a smaller model file")
+    try:
+        data = p.read_bytes()
+    except OSError as exc:
+        raise ModelError(f"cannot read the model file: {exc.strerror}", file=name) from None
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = data[: exc.start].count(b"\n") + 1
+        raise ModelError("the file is not UTF-8 text", file=name, line=line,
+                         expected="a UTF-8 text file") from None
+    model = load_model_text(text, file=name)
+    from dataclasses import replace
+
+    return replace(model, source=name, sha256=hashlib.sha256(data).hexdigest())
+
+
+def load_model_text(text: str, file: str | None = None) -> Model:
+    """Read a model from YAML text (``file`` names it in messages)."""
+    raw = parse_yaml(text, file)
+    return build_model(raw, file)
+
+
+def build_model(raw: Any, file: str | None = None) -> Model:
+    """Build a model from located YAML values."""
+    top = Where(file, "", raw if isinstance(raw, LocatedDict) else None)
+    if not isinstance(raw, LocatedDict):
+        raise ModelError("a model file is a mapping with 'shaftsys: 1', 'shafts' and "
+                         "'cases'", file=file, line=1, expected="a YAML mapping")
+    values = read_section(top, raw, S.MODEL)
+    materials = _read_materials(top, raw.get("materials"))
+    ids: dict[str, str] = {}
+    shafts_raw = values["shafts"]
+    shafts = []
+    for i, item in enumerate(shafts_raw):
+        shafts.append(_read_shaft(Where(file, "shafts", shafts_raw), i, item, materials, ids))
+    if not shafts:
+        raise top.error("shafts", "the model has no shaft", "at least one shaft")
+    life = _read_life(top, raw.get("life"))
+    lubrication = _read_lubrication(top, raw.get("lubrication"))
+    solver = _read_solver(top, raw.get("solver"))
+    gravity = values["gravity"] if values["gravity"] is not None else (0.0, -9.80665, 0.0)
+    cases, in_hours = _read_cases(Where(file, "cases", values["cases"]), values["cases"],
+                                  shafts)
+    model = Model(
+        name=values["name"],
+        shafts=tuple(shafts),
+        cases=tuple(cases),
+        duration_in_hours=in_hours,
+        gravity_m_s2=tuple(gravity),  # type: ignore[arg-type]
+        life=life,
+        lubrication=lubrication,
+        solver=solver,
+        source=file,
+    )
+    return model
+
+
+# ----------------------------------------------------------------------------- sections
+def _read_materials(top: Where, raw: Any) -> dict[str, Material]:
+    out: dict[str, Material] = {}
+    if raw is None:
+        return out
+    mapping = require_mapping(top, "materials", raw)
+    where = top.child("materials", mapping)
+    for name, item in mapping.items():
+        out[name] = _material(where, name, item, name)
+    return out
+
+
+def _material(where: Where, key: str | int, item: Any, name: str) -> Material:
+    v = read_section(where, item, S.MATERIAL, key)
+    E, nu = v["E"], v["nu"]
+    G = v["G"] if v["G"] is not None else E / (2.0 * (1.0 + nu))
+    return Material(name=name, E_MPa=E, G_MPa=G, poisson=nu, density_kg_m3=v["density"],
+                    Su_MPa=v["Su"], Sy_MPa=v["Sy"])
+
+
+def _claim_id(where: Where, key: str | int, ident: str, what: str, ids: dict[str, str]
+              ) -> None:
+    if ident in ids:
+        raise where.error(key, f"id '{ident}' is used twice (already a {ids[ident]})",
+                          "ids that are unique in the model")
+    ids[ident] = what
+
+
+def _read_shaft(where: Where, index: int, item: Any, materials: dict[str, Material],
+                ids: dict[str, str]) -> Shaft:
+    v = read_section(where, item, S.SHAFT, index)
+    sid = v["id"]
+    here = where.child(index, item, label=sid)
+    _claim_id(here, "id", sid, "shaft", ids)
+    # material
+    mat_raw = v["material"]
+    if isinstance(mat_raw, str):
+        if mat_raw not in materials:
+            raise here.error("material", f"material '{mat_raw}' is not defined",
+                             "a name from 'materials': " + ", ".join(materials) if materials
+                             else "a 'materials' section or a material mapping")
+        material = materials[mat_raw]
+    else:
+        material = _material(here, "material", mat_raw, f"{sid} material")
+    steps = _read_steps(here, v["steps"])
+    length = sum(s.length_mm for s in steps)
+    bearings_raw = v["bearings"]
+    bw = here.child("bearings", bearings_raw)
+    bearings = [_read_bearing(bw, i, b, length, ids) for i, b in enumerate(bearings_raw)]
+    elements: list[Element] = []
+    if v["elements"] is not None:
+        ew = here.child("elements", v["elements"])
+        elements = [_read_element(ew, i, e, length, ids) for i, e in enumerate(v["elements"])]
+    shaft = Shaft(id=sid, steps=tuple(steps), material=material, bearings=tuple(bearings),
+                  elements=tuple(elements), line=here.line_of(None))
+    _check_support(here, shaft, bearings_raw)
+    return shaft
+
+
+def _read_steps(where: Where, raw: LocatedList) -> list[Step]:
+    sw = where.child("steps", raw)
+    steps: list[Step] = []
+    x = 0.0
+    if not raw:
+        raise where.error("steps", "a shaft needs at least one step", "a list of steps")
+    for i, item in enumerate(raw):
+        v = read_section(sw, item, S.STEP, i)
+        iw = sw.child(i, item)
+        if (v["length"] is None) == (v["to"] is None):
+            raise iw.error(None, "give either 'length' or 'to' for a step",
+                           "exactly one of length, to")
+        length = v["length"] if v["length"] is not None else v["to"] - x
+        if length <= 0:
+            raise iw.error("to", f"step ends at {v['to']:g} mm, not after its start "
+                           f"{x:g} mm", f"a station beyond {x:g} mm")
+        if v["bore"] >= v["d"]:
+            raise iw.error("bore", f"bore {v['bore']:g} mm is not smaller than the "
+                           f"diameter {v['d']:g} mm", "bore < d")
+        steps.append(Step(length_mm=length, d_mm=v["d"], bore_mm=v["bore"],
+                          fillet_mm=v["fillet"], keyway=v["keyway"], groove=v["groove"],
+                          surface=v["surface"], line=sw.line_of(i)))
+        x += length
+    return steps
+
+
+def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[str, str]
+                  ) -> Bearing:
+    v = read_section(where, item, S.BEARING, index)
+    bid = v["id"]
+    here = where.child(index, item, label=bid)
+    _claim_id(here, "id", bid, "bearing", ids)
+    kind = BearingKind(v["type"])
+    if not 0.0 <= v["at"] <= length + _TOL_MM:
+        raise here.error("at", f"bearing at {v['at']:g} mm is outside the shaft "
+                         f"(0 to {length:g} mm)", f"a station between 0 and {length:g} mm")
+    if v["D"] <= v["d"]:
+        raise here.error("D", f"outside diameter {v['D']:g} mm is not larger than the bore "
+                         f"{v['d']:g} mm", "D > d")
+    rows = v["rows"]
+    C, C0 = v["C"], v["C0"]
+    if v["ratings"] == "per_row" and rows > 1:
+        # ISO 281:2007, 6.2 / 7.2: i identical bearings side by side as one unit:
+        # C = i^0.7 C_single (ball), i^(7/9) C_single (roller); C0 = i C0_single.
+        C = C * rows ** (7.0 / 9.0 if kind.is_roller else 0.7)
+        C0 = C0 * rows
+    axial = AxialRole(v["axial"])
+    no_ribs = kind in _AXIAL_FREE_TYPES or (kind is BearingKind.CYLINDRICAL_ROLLER
+                                            and not v["ribs"])
+    if axial is not AxialRole.FLOAT and no_ribs:
+        raise here.error("axial", f"a {kind.value} bearing without ribs cannot locate "
+                         "the shaft axially", "axial: float")
+    if kind in {BearingKind.ANGULAR_CONTACT_BALL, BearingKind.THRUST_BALL} and \
+            v["contact_angle"] is None:
+        raise here.error(None, f"a {kind.value} bearing needs 'contact_angle'",
+                         "a key 'contact_angle'")
+    if v["pair"] is not None and axial not in {AxialRole.PLUS_X, AxialRole.MINUS_X}:
+        raise here.error("axial", "a bearing of an adjusted pair takes thrust in one "
+                         "direction", "axial: +x or -x")
+    return Bearing(
+        id=bid, kind=kind, x_mm=v["at"], d_mm=v["d"], D_mm=v["D"], B_mm=v["B"], C_N=C,
+        C0_N=C0, Cu_N=v["Cu"], limiting_speed_rpm=v["limiting_speed"], e=v["e"], Y=v["Y"],
+        Y0=v["Y0"], Y1=v["Y1"], Y2=v["Y2"], X=v["X"], contact_angle_deg=v["contact_angle"],
+        f0=v["f0"], rows=rows, arrangement=SetArrangement(v["arrangement"]), axial=axial,
+        pair=v["pair"], pressure_centre_offset_mm=v["pressure_centre_offset"],
+        radial_stiffness_N_mm=v["radial_stiffness"],
+        tilt_stiffness_Nmm_rad=v["tilt_stiffness"], ribs=v["ribs"],
+        target_life_h=v["target_life"], target_reliability=v["reliability"],
+        s0_min=v["s0_min"], ec=v["ec"], line=here.line_of(None),
+    )
+
+
+def _read_element(where: Where, index: int, item: Any, length: float, ids: dict[str, str]
+                  ) -> Element:
+    mapping = require_mapping(where, index, item)
+    etype = mapping.get("type")
+    if not isinstance(etype, str) or etype not in S.ELEMENT_TYPES:
+        # read the common part to get a proper message on 'type'
+        read_value(where.child(index, mapping), "type", etype, S._ELEMENT_COMMON["type"])
+    fields = {**S._ELEMENT_COMMON, **S.ELEMENT_TYPES[str(etype)]}
+    v = read_section(where, mapping, fields, index)
+    eid = v["id"]
+    here = where.child(index, mapping, label=eid)
+    _claim_id(here, "id", eid, "element", ids)
+    if not 0.0 <= v["at"] <= length + _TOL_MM:
+        raise here.error("at", f"element at {v['at']:g} mm is outside the shaft "
+                         f"(0 to {length:g} mm)", f"a station between 0 and {length:g} mm")
+    common = dict(id=eid, x_mm=v["at"], mass_kg=v["mass"],
+                  polar_inertia_kgm2=v["polar_inertia"],
+                  diametral_inertia_kgm2=v["diametral_inertia"], width_mm=v["width"],
+                  line=here.line_of(None))
+    if etype == "gear":
+        helix = v["helix_angle"]
+        if helix > 0 and v["hand"] is None:
+            raise here.error("hand", "a helical gear needs its helix hand",
+                             "hand: right or left")
+        d = v["pitch_diameter"]
+        if d is None:
+            if v["module"] is None or v["teeth"] is None:
+                raise here.error(None, "give 'pitch_diameter', or 'module' and 'teeth'",
+                                 "pitch_diameter or module + teeth")
+            d = v["module"] * v["teeth"] / math.cos(math.radians(helix))
+        return Gear(**common, pitch_diameter_mm=d,  # type: ignore[arg-type]
+                    normal_pressure_angle_deg=v["pressure_angle"], helix_angle_deg=helix,
+                    hand=v["hand"] if helix > 0 else None, mesh_angle_deg=v["mesh_angle"],
+                    internal=v["internal"], normal_module_mm=v["module"], teeth=v["teeth"])
+    if etype == "bevel_gear":
+        return BevelGear(**common,  # type: ignore[arg-type]
+                         mean_pitch_diameter_mm=v["mean_pitch_diameter"],
+                         pitch_cone_angle_deg=v["pitch_cone_angle"],
+                         pressure_angle_deg=v["pressure_angle"],
+                         mesh_angle_deg=v["mesh_angle"], apex=1 if v["apex"] == "+x" else -1)
+    if etype == "pulley":
+        return Pulley(**common, diameter_mm=v["diameter"],  # type: ignore[arg-type]
+                      mesh_angle_deg=v["belt_angle"], wrap_angle_deg=v["wrap_angle"],
+                      pretension_N=v["pretension"], friction_coefficient=v["friction"],
+                      groove_angle_deg=v["groove_angle"])
+    if etype == "sprocket":
+        return Sprocket(**common, pitch_diameter_mm=v["pitch_diameter"],  # type: ignore[arg-type]
+                        mesh_angle_deg=v["chain_angle"], wrap_angle_deg=v["wrap_angle"])
+    if etype == "coupling":
+        return Coupling(**common, radial_force_N=v["radial_force"],  # type: ignore[arg-type]
+                        radial_angle_deg=v["radial_angle"])
+    if etype == "load":
+        return ProcessLoad(**common,  # type: ignore[arg-type]
+                           force_N=v["force"] or (0.0, 0.0, 0.0),
+                           moment_Nmm=v["moment"] or (0.0, 0.0, 0.0))
+    if etype == "mass":
+        return LumpedMass(**common)  # type: ignore[arg-type]
+    return Unbalance(**common, unbalance_gmm=v["unbalance"],  # type: ignore[arg-type]
+                     phase_deg=v["phase"])
+
+
+def _check_support(where: Where, shaft: Shaft, raw: LocatedList) -> None:
+    """Refuse shafts that the bearings cannot hold."""
+    bw = where.child("bearings", raw)
+    radial = [b for b in shaft.bearings if b.kind is not BearingKind.THRUST_BALL]
+    tilt = any(b.tilt_stiffness_Nmm_rad for b in radial)
+    if len(radial) == 0 or (len(radial) == 1 and not tilt):
+        raise where.error("bearings", f"shaft '{shaft.id}' has {len(radial)} radial "
+                          "support(s) and no tilting stiffness: it cannot be held",
+                          "at least two radial bearings, or one with tilt_stiffness")
+    positions = sorted(b.support_x_mm for b in radial)
+    if len(radial) >= 2 and positions[-1] - positions[0] < 1e-6 and not tilt:
+        raise where.error("bearings", f"the radial supports of shaft '{shaft.id}' all "
+                          "act at one station: the shaft can tilt",
+                          "supports at two different stations")
+    for i, b in enumerate(shaft.bearings):
+        if not -_TOL_MM <= b.support_x_mm <= shaft.length_mm + _TOL_MM:
+            raise bw.error(i, f"the pressure centre of bearing '{b.id}' "
+                           f"({b.support_x_mm:g} mm) lies outside the shaft",
+                           "a smaller pressure_centre_offset")
+    both = [b for b in shaft.bearings if b.axial is AxialRole.BOTH]
+    plus = [b for b in shaft.bearings if b.axial is AxialRole.PLUS_X]
+    minus = [b for b in shaft.bearings if b.axial is AxialRole.MINUS_X]
+    index = {b.id: i for i, b in enumerate(shaft.bearings)}
+    if len(both) > 1:
+        raise bw.error(index[both[1].id], f"bearings '{both[0].id}' and '{both[1].id}' "
+                       "both locate in both directions: the shaft would be clamped "
+                       "axially", "one locating bearing (axial: both), the others float")
+    if both and (plus or minus):
+        b = (plus or minus)[0]
+        raise bw.error(index[b.id], f"bearing '{b.id}' takes thrust in one direction "
+                       f"while '{both[0].id}' already locates in both",
+                       "either one bearing with axial: both, or one +x and one -x")
+    if not both and not (plus and minus):
+        raise where.error("bearings", f"shaft '{shaft.id}' can slide axially: no bearing "
+                          "takes axial load" + (" toward -x" if plus else
+                                                 " toward +x" if minus else ""),
+                          "one bearing with axial: both, or one with +x and one with -x")
+    if len(plus) > 1 or len(minus) > 1:
+        b = plus[1] if len(plus) > 1 else minus[1]
+        raise bw.error(index[b.id], "more than one bearing takes thrust in the same "
+                       "direction", "one +x and one -x bearing")
+    for b in plus + minus:
+        if b.pair is not None:
+            partner = (minus if b in plus else plus)[0]
+            if b.pair != partner.id or partner.pair != b.id:
+                raise bw.error(index[b.id], f"adjusted pair: '{b.id}' names '{b.pair}' "
+                               f"but its opposite bearing is '{partner.id}'",
+                               "two bearings naming each other with 'pair'")
+            if b.kind not in {BearingKind.ANGULAR_CONTACT_BALL, BearingKind.TAPERED_ROLLER}:
+                raise bw.error(index[b.id], "an adjusted pair is made of single-row "
+                               "angular-contact ball or tapered roller bearings",
+                               "type angular_contact_ball or tapered_roller")
+            if b.kind is BearingKind.TAPERED_ROLLER and b.Y is None:
+                raise bw.error(index[b.id], "the induced axial force of a tapered roller "
+                               "bearing needs the maker's Y", "a key 'Y'")
+
+
+def _read_life(top: Where, raw: Any) -> LifeSettings:
+    if raw is None:
+        return LifeSettings()
+    v = read_section(top, raw, S.LIFE, "life")
+    return LifeSettings(target_life_h=v["target"], target_reliability=v["reliability"],
+                        reliability_method=v["reliability_method"],
+                        application_factor=v["application_factor"],
+                        min_speed_rpm=v["min_speed"], s0_min=v["s0_min"],
+                        use_modified_life=v["modified_life"])
+
+
+def _read_lubrication(top: Where, raw: Any) -> Lubrication | None:
+    if raw is None:
+        return None
+    v = read_section(top, raw, S.LUBRICATION, "lubrication")
+    if v["ec"] is None and v["cleanliness"] is None:
+        raise top.child("lubrication", raw).error(
+            None, "give the contamination factor 'ec' or a 'cleanliness' code",
+            "ec or cleanliness")
+    return Lubrication(nu1_at_t1_mm2_s=v["viscosity_40C"], nu2_at_t2_mm2_s=v["viscosity_100C"],
+                       t1_C=40.0, t2_C=100.0, ec=v["ec"], cleanliness=v["cleanliness"],
+                       filtration_beta=v["filtration_beta"], method=v["method"],
+                       ep_additives=v["ep_additives"])
+
+
+def _read_solver(top: Where, raw: Any) -> SolverSettings:
+    if raw is None:
+        return SolverSettings()
+    v = read_section(top, raw, S.SOLVER, "solver")
+    return SolverSettings(shear_deformation=v["shear_deformation"],
+                          max_element_mm=v["max_element"],
+                          residual_tolerance=v["residual_tolerance"],
+                          include_shaft_weight=v["shaft_weight"])
+
+
+def _read_cases(where: Where, raw: LocatedList, shafts: list[Shaft]
+                ) -> tuple[list[Case], bool]:
+    cases: list[Case] = []
+    ids: set[str] = set()
+    uses_share: list[int] = []
+    uses_hours: list[int] = []
+    elements = {e.id: (s, e) for s in shafts for e in s.elements}
+    for i, item in enumerate(raw):
+        v = read_section(where, item, S.CASE, i)
+        cid = v["id"]
+        here = where.child(i, item, label=cid)
+        if cid in ids:
+            raise here.error("id", f"case id '{cid}' is used twice", "unique case ids")
+        ids.add(cid)
+        kind = CaseKind(v["kind"])
+        duration = 0.0
+        if kind is CaseKind.DUTY:
+            if v["share"] is None and v["hours"] is None:
+                raise here.error(None, "a duty case needs 'share' or 'hours'",
+                                 "share: 0.4 or hours: 2000 h")
+            if v["share"] is not None and v["hours"] is not None:
+                raise here.error("hours", "give 'share' or 'hours', not both",
+                                 "one of share, hours")
+            if v["share"] is not None:
+                uses_share.append(i)
+                duration = v["share"]
+            else:
+                uses_hours.append(i)
+                duration = v["hours"]
+        elif v["share"] not in (None, 0.0) or v["hours"] not in (None, 0.0):
+            raise here.error("share" if v["share"] else "hours",
+                             f"a {kind.value} case has no time share",
+                             "no share or hours on peak and static cases")
+        if uses_share and uses_hours:
+            raise here.error("hours" if uses_hours[-1] == i else "share",
+                             "time shares are mixed between fractions ('share') and "
+                             "hours ('hours')", "the same one of share or hours in every "
+                             "duty case")
+        drives = _read_drives(here, item, v, shafts)
+        loads = _read_case_loads(here, v["loads"], item, elements)
+        temperature = v["temperature"] if v["temperature"] is not None else float("nan")
+        cases.append(Case(id=cid, kind=kind, duration=duration, drives=drives,
+                          loads=tuple(loads), temperature_C=temperature,
+                          line=here.line_of(None)))
+    duty = [c for c in cases if c.kind is CaseKind.DUTY]
+    if not cases:
+        raise where.error(None, "the model has no operating case", "at least one case")
+    if duty and sum(c.duration for c in duty) <= 0:
+        raise where.error(None, "the duty cases' shares add up to zero",
+                          "positive shares or hours")
+    if uses_share:
+        total = sum(c.duration for c in duty)
+        if abs(total - 1.0) > 1e-6:
+            first = uses_share[0]
+            raise where.error(first, f"the duty cases' shares add up to {total:.6g}, "
+                              "not 1", "shares that sum to 1 (or use 'hours')")
+    return cases, bool(uses_hours)
+
+
+def _read_drives(here: Where, item: LocatedDict, v: dict[str, Any], shafts: list[Shaft]
+                 ) -> dict[str, Drive]:
+    drives: dict[str, Drive] = {}
+    if v["shafts"] is not None:
+        if v["speed"] is not None or v["input"] is not None or v["outputs"] is not None:
+            raise here.error("shafts", "give speed/input/outputs either per shaft under "
+                             "'shafts' or at the case's top level", "one of the two")
+        mapping = require_mapping(here, "shafts", v["shafts"])
+        sw = here.child("shafts", mapping)
+        known = {s.id: s for s in shafts}
+        for sid, sub in mapping.items():
+            if sid not in known:
+                raise sw.error(sid, f"no shaft '{sid}'", "one of: " + ", ".join(known))
+            dv = read_section(sw, sub, S.DRIVE, sid)
+            drives[sid] = _drive(sw.child(sid, sub), dv, known[sid])
+        for s in shafts:
+            if s.id not in drives:
+                raise here.error("shafts", f"no speed given for shaft '{s.id}'",
+                                 "an entry for every shaft")
+        return drives
+    if len(shafts) > 1:
+        raise here.error(None, "with several shafts, give each shaft's speed under "
+                         "'shafts'", "shafts: {<id>: {speed: ...}}")
+    if v["speed"] is None:
+        raise here.error(None, "the case needs the shaft's 'speed'", "speed: 1450 rpm")
+    drives[shafts[0].id] = _drive(here, v, shafts[0])
+    return drives
+
+
+def _drive(here: Where, v: dict[str, Any], shaft: Shaft) -> Drive:
+    speed = v["speed"]
+    torque_elements = {e.id: e for e in shaft.elements if e.carries_torque}
+    if v["input"] is None:
+        if v.get("outputs"):
+            raise here.error("outputs", "outputs without an input", "an 'input'")
+        return Drive(speed_rpm=speed)
+    iv = read_section(here, v["input"], S.INPUT, "input")
+    iw = here.child("input", v["input"])
+    el = iv["element"]
+    if el not in torque_elements:
+        raise iw.error("element", f"'{el}' is not a torque-carrying element of shaft "
+                       f"'{shaft.id}'", "one of: " + (", ".join(torque_elements) or "none"))
+    if (iv["power"] is None) == (iv["torque"] is None):
+        raise iw.error(None, "give the input 'power' or 'torque' (one of them)",
+                       "power: 7.5 kW or torque: 50 N*m")
+    if iv["torque"] is not None:
+        torque = iv["torque"]
+    else:
+        if speed == 0.0:
+            raise iw.error("power", "power cannot be carried at zero speed; give 'torque'",
+                           "torque: 50 N*m")
+        from shaftsys.units import torque_from_power_Nmm
+
+        torque = torque_from_power_Nmm(iv["power"], speed)
+    outputs_raw = v.get("outputs")
+    if outputs_raw is None:
+        raise here.error(None, "where does the power leave? give 'outputs'",
+                         "outputs: {<element id>: 1.0}")
+    outputs_map = require_mapping(here, "outputs", outputs_raw)
+    ow = here.child("outputs", outputs_map)
+    outputs: list[tuple[str, float]] = []
+    for key, share in outputs_map.items():
+        if key not in torque_elements:
+            raise ow.error(key, f"'{key}' is not a torque-carrying element of shaft "
+                           f"'{shaft.id}'", "one of: " + ", ".join(torque_elements))
+        if key == el:
+            raise ow.error(key, "the input element cannot also be an output",
+                           "another element")
+        value = read_value(ow, key, share, S.Field("number", "share", minimum=0.0,
+                                                  maximum=1.0))
+        outputs.append((key, value))
+    total = sum(s for _, s in outputs)
+    if abs(total - 1.0) > 1e-6:
+        raise ow.error(None, f"output shares add up to {total:.6g}, not 1",
+                       "shares that sum to 1")
+    return Drive(speed_rpm=speed, input_element=el, input_torque_Nmm=torque,
+                 outputs=tuple(outputs))
+
+
+def _read_case_loads(here: Where, raw: Any, item: LocatedDict,
+                     elements: dict[str, tuple[Shaft, Element]]) -> list[ElementLoad]:
+    if raw is None:
+        return []
+    mapping = require_mapping(here, "loads", raw)
+    lw = here.child("loads", mapping)
+    out = []
+    for key, sub in mapping.items():
+        if key not in elements or not isinstance(elements[key][1], ProcessLoad):
+            loads = [k for k, (_, e) in elements.items() if isinstance(e, ProcessLoad)]
+            raise lw.error(key, f"'{key}' is not a load element",
+                           "one of: " + (", ".join(loads) or "(no element of type load)"))
+        v = read_section(lw, sub, S.CASE_LOAD, key)
+        out.append(ElementLoad(element=key, force_N=v["force"] or (0.0, 0.0, 0.0),
+                               moment_Nmm=v["moment"] or (0.0, 0.0, 0.0)))
+    return out

@@ -1,0 +1,136 @@
+"""Turn a model-file value (``45``, ``"45 mm"``, ``"7.5 kW"``) into an internal float.
+
+Bare numbers are in the default unit of their dimension (:data:`DEFAULT_UNITS`, the
+internal units of :mod:`shaftsys.units`). Two traps of pint are handled here:
+
+* speed: pint converts ``rpm`` to ``Hz`` with a factor 2*pi (``rpm`` is revolutions,
+  ``Hz`` is 1/s). shaftsys reads any pure frequency (``Hz``, ``1/s``, ``1/min``) as
+  revolutions per unit time, so ``"24 Hz"`` is 1440 rpm, and angular units
+  (``rad/s``, ``rpm``, ``deg/s``) through pint's angle conversion.
+* temperature: offset units (``degC``, ``degF``, ``K``) are converted as absolute
+  temperatures, never as differences.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+
+from shaftsys import units as U
+
+#: dimension name -> (internal unit, pint dimensionality string or None)
+DEFAULT_UNITS: dict[str, str] = {
+    "length": U.LENGTH,
+    "force": U.FORCE,
+    "moment": U.MOMENT,
+    "stress": U.STRESS,
+    "speed": U.SPEED,
+    "power": U.POWER,
+    "time": U.TIME,
+    "viscosity": "mm**2/s",
+    "temperature": U.TEMPERATURE,
+    "angle": "degree",
+    "mass": U.MASS,
+    "density": "kg/m**3",
+    "acceleration": "m/s**2",
+    "inertia": "kg*m**2",
+    "linear_stiffness": "N/mm",
+    "angular_stiffness": "N*mm/radian",
+    "unbalance": "g*mm",
+    "dimensionless": "",
+}
+
+_NUMBER = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$")
+
+
+class QuantityProblem(Exception):
+    """Why a value could not be read as a quantity (the loader adds file and line)."""
+
+    def __init__(self, message: str, expected: str) -> None:
+        super().__init__(message)
+        self.message = message
+        self.expected = expected
+
+
+def to_internal(value: object, dimension: str) -> float:
+    """Convert ``value`` to a float in the internal unit of ``dimension``.
+
+    Parameters
+    ----------
+    value: a number (default unit) or a string ``"<number> <unit>"``.
+    dimension: a key of :data:`DEFAULT_UNITS`.
+
+    Raises
+    ------
+    QuantityProblem: the value is not a finite quantity of that dimension.
+    """
+    unit = DEFAULT_UNITS[dimension]
+    expected = f"a {dimension.replace('_', ' ')} such as '{_example(dimension)}'"
+    if isinstance(value, bool) or value is None:
+        raise QuantityProblem(f"{value!r} is not a {dimension}", expected)
+    if isinstance(value, int | float):
+        number = float(value)
+        if not math.isfinite(number):
+            raise QuantityProblem(f"{value!r} is not a finite number", expected)
+        return number
+    if not isinstance(value, str):
+        raise QuantityProblem(f"{type(value).__name__} given, not a {dimension}", expected)
+    text = value.strip()
+    if _NUMBER.match(text):
+        return to_internal(float(text), dimension)
+    if text.lower() in {"nan", "inf", "-inf", "+inf", "infinity"}:
+        raise QuantityProblem(f"{value!r} is not a finite number", expected)
+    text = text.replace("%", " percent")
+    ureg = U.registry()
+    try:
+        q = ureg.Quantity(text)
+    except Exception:  # pint raises many types for unparsable text
+        raise QuantityProblem(f"cannot read {value!r} as a quantity", expected) from None
+    if not hasattr(q, "magnitude") or not isinstance(q.magnitude, int | float):
+        raise QuantityProblem(f"cannot read {value!r} as a quantity", expected)
+    if not math.isfinite(float(q.magnitude)):
+        raise QuantityProblem(f"{value!r} is not a finite number", expected)
+    try:
+        if dimension == "speed":
+            return _speed_rpm(q)
+        if dimension == "dimensionless":
+            return float(q.to("dimensionless").magnitude)
+        return float(q.to(unit).magnitude)
+    except Exception:
+        raise QuantityProblem(
+            f"{value!r} has units of {q.units:~} which are not a {dimension}", expected
+        ) from None
+
+
+def _speed_rpm(q: object) -> float:
+    ureg = U.registry()
+    quantity = ureg.Quantity(q)
+    names = {str(u) for u in quantity.units._units}
+    angular = {"revolution", "radian", "degree", "turn", "revolutions_per_minute", "cycle"}
+    if names & angular or "rpm" in str(quantity.units):
+        return float(quantity.to("revolution/minute").magnitude)
+    # a pure frequency: revolutions per unit time
+    return float(quantity.to("1/minute").magnitude)
+
+
+def _example(dimension: str) -> str:
+    return {
+        "length": "45 mm",
+        "force": "12 kN",
+        "moment": "150 N*m",
+        "stress": "210 GPa",
+        "speed": "1450 rpm",
+        "power": "7.5 kW",
+        "time": "20000 h",
+        "viscosity": "68 mm^2/s",
+        "temperature": "70 degC",
+        "angle": "20 deg",
+        "mass": "12 kg",
+        "density": "7850 kg/m^3",
+        "acceleration": "9.81 m/s^2",
+        "inertia": "0.4 kg*m^2",
+        "linear_stiffness": "200 kN/mm",
+        "angular_stiffness": "5e6 N*mm/rad",
+        "unbalance": "500 g*mm",
+        "dimensionless": "0.3",
+    }[dimension]

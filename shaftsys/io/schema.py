@@ -1,0 +1,69 @@
+"""The JSON Schema of the model file, generated from :mod:`shaftsys.io.spec`.
+
+A copy ships as ``shaftsys/model.schema.json`` so editors can check a model while it
+is typed; a test keeps the copy equal to what this module generates.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from shaftsys.io import spec as S
+
+_QUANTITY = {"oneOf": [{"type": "number"}, {"type": "string", "pattern": r"^\s*[-+0-9.]"}]}
+
+
+def _field(f: S.Field) -> dict[str, Any]:
+    out: dict[str, Any]
+    if f.kind == "quantity":
+        out = {**_QUANTITY, "description": f"{f.doc} [{S.DEFAULT_UNIT_NOTE.get(f.dim or '', '')}]"}
+    elif f.kind == "number":
+        out = {"type": ["number", "string"], "description": f.doc}
+    elif f.kind == "int":
+        out = {"type": "integer", "description": f.doc}
+    elif f.kind in {"str", "id"}:
+        out = {"type": ["string", "integer"], "description": f.doc}
+    elif f.kind == "bool":
+        out = {"type": "boolean", "description": f.doc}
+    elif f.kind == "choice":
+        out = {"enum": list(f.choices), "description": f.doc}
+    elif f.kind == "vector":
+        out = {"type": "array", "items": _QUANTITY, "minItems": 3, "maxItems": 3,
+               "description": f.doc}
+    elif f.kind == "map":
+        out = {"$ref": f"#/$defs/{f.of}", "description": f.doc}
+    elif f.kind == "list":
+        out = {"type": "array", "items": {"$ref": f"#/$defs/{f.of}"}, "description": f.doc}
+    else:
+        out = {"description": f.doc}
+    if f.default is not None and f.kind not in {"list", "map"}:
+        out["default"] = list(f.default) if isinstance(f.default, tuple) else f.default
+    return out
+
+
+def _section(fields: dict[str, S.Field]) -> dict[str, Any]:
+    return {
+        "type": "object",
+        "additionalProperties": False,
+        "properties": {k: _field(f) for k, f in fields.items()},
+        "required": [k for k, f in fields.items() if f.required],
+    }
+
+
+def model_schema() -> dict[str, Any]:
+    """JSON Schema (draft 2020-12) of a shaftsys model file."""
+    defs = {name: _section(fields) for name, fields in S.SECTIONS.items() if name != "model"}
+    element_variants = []
+    for etype, extra in S.ELEMENT_TYPES.items():
+        fields = {**S._ELEMENT_COMMON, **extra}
+        sec = _section(fields)
+        sec["properties"]["type"] = {"const": etype}
+        element_variants.append(sec)
+    defs["element"] = {"oneOf": element_variants}
+    top = _section(S.MODEL)
+    return {
+        "$schema": "https://json-schema.org/draft/2020-12/schema",
+        "title": "shaftsys model file",
+        **top,
+        "$defs": defs,
+    }

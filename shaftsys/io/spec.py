@@ -1,0 +1,509 @@
+"""The model-file format, declared once.
+
+Each section of a model file is a table of :class:`Field` s. The loader reads and
+converts a section with :func:`read_section`; :mod:`shaftsys.io.schema` turns the same
+tables into the JSON Schema shipped with the package. Adding a field here adds it to
+both.
+"""
+
+from __future__ import annotations
+
+import difflib
+from dataclasses import dataclass
+from typing import Any
+
+from shaftsys.errors import ModelError
+from shaftsys.io.quantities import QuantityProblem, to_internal
+from shaftsys.io.yamlsource import LocatedDict, LocatedList
+
+
+@dataclass(frozen=True)
+class Field:
+    """One key of a model-file mapping.
+
+    kind: ``quantity`` (with ``dim``), ``number``, ``int``, ``str``, ``id``, ``bool``,
+    ``choice`` (with ``choices``), ``vector`` (three quantities of ``dim``), ``list``
+    (of mappings ``of``), ``map`` (mapping ``of``), ``any``.
+    """
+
+    kind: str
+    doc: str
+    dim: str | None = None
+    required: bool = False
+    default: Any = None
+    choices: tuple[str, ...] = ()
+    positive: bool = False
+    non_negative: bool = False
+    of: str | None = None  # name of a nested section in SECTIONS
+    minimum: float | None = None
+    maximum: float | None = None
+
+
+F = Field
+
+#: Default unit of a bare number, per dimension (for the schema's descriptions).
+DEFAULT_UNIT_NOTE = {
+    "length": "mm", "force": "N", "moment": "N*mm", "stress": "MPa", "speed": "rpm",
+    "power": "W", "time": "h", "viscosity": "mm^2/s", "temperature": "degC",
+    "angle": "deg", "mass": "kg", "density": "kg/m^3", "acceleration": "m/s^2",
+    "inertia": "kg*m^2", "linear_stiffness": "N/mm", "angular_stiffness": "N*mm/rad",
+    "unbalance": "g*mm", "dimensionless": "-",
+}
+
+MATERIAL = {
+    "E": F("quantity", "Young's modulus", dim="stress", required=True, positive=True),
+    "G": F("quantity", "shear modulus (default E / (2 (1 + nu)))", dim="stress", positive=True),
+    "nu": F("number", "Poisson's ratio", default=0.3, minimum=0.0, maximum=0.5),
+    "density": F("quantity", "density", dim="density", default=7850.0, positive=True),
+    "Su": F("quantity", "ultimate tensile strength", dim="stress", positive=True),
+    "Sy": F("quantity", "yield strength", dim="stress", positive=True),
+}
+
+STEP = {
+    "length": F("quantity", "axial length of the step (give length or to)", dim="length",
+                positive=True),
+    "to": F("quantity", "station where the step ends (instead of length)", dim="length",
+            positive=True),
+    "d": F("quantity", "outer diameter", dim="length", required=True, positive=True),
+    "bore": F("quantity", "bore diameter", dim="length", default=0.0, non_negative=True),
+    "fillet": F("quantity", "fillet radius at the shoulder where the step starts",
+                dim="length", positive=True),
+    "keyway": F("choice", "keyway in the step", choices=("profile", "sled_runner")),
+    "groove": F("bool", "retaining-ring groove on the step", default=False),
+    "surface": F("choice", "surface finish", default="machined",
+                 choices=("ground", "machined", "cold_drawn", "hot_rolled", "forged")),
+}
+
+BEARING = {
+    "id": F("id", "bearing id, unique in the model", required=True),
+    "type": F("choice", "bearing type", required=True, choices=(
+        "deep_groove_ball", "angular_contact_ball", "self_aligning_ball",
+        "cylindrical_roller", "tapered_roller", "spherical_roller", "needle_roller",
+        "thrust_ball")),
+    "at": F("quantity", "station of the bearing's mid-width", dim="length", required=True,
+            non_negative=True),
+    "d": F("quantity", "bore diameter", dim="length", required=True, positive=True),
+    "D": F("quantity", "outside diameter", dim="length", required=True, positive=True),
+    "B": F("quantity", "width", dim="length", positive=True),
+    "C": F("quantity", "basic dynamic load rating", dim="force", required=True,
+           positive=True),
+    "C0": F("quantity", "basic static load rating", dim="force", required=True,
+            positive=True),
+    "ratings": F("choice", "C and C0 are given for the whole set or per row/bearing",
+                 default="set", choices=("set", "per_row")),
+    "Cu": F("quantity", "fatigue load limit (estimated from C0 when missing)", dim="force",
+            positive=True),
+    "limiting_speed": F("quantity", "maker's limiting speed", dim="speed", positive=True),
+    "e": F("number", "maker's e factor", positive=True),
+    "X": F("number", "override: radial factor X above e", non_negative=True),
+    "Y": F("number", "maker's axial factor Y (single row), or override", non_negative=True),
+    "Y0": F("number", "maker's static axial factor Y0", non_negative=True),
+    "Y1": F("number", "axial factor for Fa/Fr <= e (pairs, double row, spherical)",
+            non_negative=True),
+    "Y2": F("number", "axial factor for Fa/Fr > e (pairs, double row, spherical)",
+            non_negative=True),
+    "contact_angle": F("quantity", "nominal contact angle", dim="angle", minimum=0.0,
+                       maximum=90.0),
+    "f0": F("number", "ISO 281 factor f0 of a radial ball bearing", positive=True),
+    "rows": F("int", "number of rows or bearings in the set", default=1, minimum=1),
+    "arrangement": F("choice", "arrangement of a set at one seat", default="single",
+                     choices=("single", "back_to_back", "face_to_face", "tandem",
+                              "double_row")),
+    "axial": F("choice", "which shaft thrust the bearing takes: both (locating), +x, -x "
+               "(takes thrust toward that direction), float", default="float",
+               choices=("both", "+x", "-x", "float")),
+    "pair": F("id", "id of the adjusted partner (single-row angular contact / tapered at "
+              "separate seats)"),
+    "pressure_centre_offset": F("quantity", "distance from mid-width to the pressure "
+                                "centre on the axis", dim="length", default=0.0,
+                                non_negative=True),
+    "radial_stiffness": F("quantity", "radial stiffness (rigid when missing)",
+                          dim="linear_stiffness", positive=True),
+    "tilt_stiffness": F("quantity", "tilting stiffness (free when missing)",
+                        dim="angular_stiffness", positive=True),
+    "ribs": F("bool", "cylindrical roller bearing with ribs on both rings", default=False),
+    "target_life": F("quantity", "target life (model default when missing)", dim="time",
+                     positive=True),
+    "reliability": F("quantity", "target reliability, e.g. 0.95 or '95 %'",
+                     dim="dimensionless", minimum=0.0, maximum=1.0),
+    "s0_min": F("number", "required static safety", positive=True),
+    "ec": F("number", "contamination factor for this bearing", minimum=0.0, maximum=1.0),
+}
+
+_ELEMENT_COMMON = {
+    "id": F("id", "element id, unique in the model", required=True),
+    "type": F("choice", "element type", required=True, choices=(
+        "gear", "bevel_gear", "pulley", "sprocket", "coupling", "load", "mass",
+        "unbalance")),
+    "at": F("quantity", "station of the element's centre plane", dim="length",
+            required=True, non_negative=True),
+    "mass": F("quantity", "mass", dim="mass", default=0.0, non_negative=True),
+    "polar_inertia": F("quantity", "polar mass moment of inertia", dim="inertia",
+                       default=0.0, non_negative=True),
+    "diametral_inertia": F("quantity", "diametral mass moment of inertia", dim="inertia",
+                           default=0.0, non_negative=True),
+    "width": F("quantity", "axial width", dim="length", positive=True),
+}
+
+ELEMENT_TYPES: dict[str, dict[str, Field]] = {
+    "gear": {
+        "pitch_diameter": F("quantity", "working pitch diameter (or module and teeth)",
+                            dim="length", positive=True),
+        "module": F("quantity", "normal module", dim="length", positive=True),
+        "teeth": F("int", "number of teeth", minimum=1),
+        "pressure_angle": F("quantity", "normal pressure angle", dim="angle", default=20.0,
+                            minimum=0.0, maximum=45.0),
+        "helix_angle": F("quantity", "helix angle", dim="angle", default=0.0, minimum=0.0,
+                         maximum=60.0),
+        "hand": F("choice", "helix hand", choices=("right", "left")),
+        "mesh_angle": F("quantity", "direction toward the pitch point of the mesh",
+                        dim="angle", required=True),
+        "internal": F("bool", "internal (ring) gear", default=False),
+    },
+    "bevel_gear": {
+        "mean_pitch_diameter": F("quantity", "pitch diameter at mid face width",
+                                 dim="length", required=True, positive=True),
+        "pitch_cone_angle": F("quantity", "pitch cone angle", dim="angle", required=True,
+                              positive=True, maximum=90.0),
+        "pressure_angle": F("quantity", "pressure angle", dim="angle", default=20.0,
+                            minimum=0.0, maximum=45.0),
+        "mesh_angle": F("quantity", "direction toward the pitch point", dim="angle",
+                        required=True),
+        "apex": F("choice", "side of the cone apex", required=True, choices=("+x", "-x")),
+    },
+    "pulley": {
+        "diameter": F("quantity", "pitch diameter", dim="length", required=True,
+                      positive=True),
+        "belt_angle": F("quantity", "direction toward the other pulley's axis", dim="angle",
+                        required=True),
+        "wrap_angle": F("quantity", "wrap angle on this pulley", dim="angle", default=180.0,
+                        positive=True, maximum=360.0),
+        "pretension": F("quantity", "installation tension of each strand", dim="force",
+                        required=True, positive=True),
+        "friction": F("number", "friction coefficient belt/pulley", default=0.3,
+                      positive=True),
+        "groove_angle": F("quantity", "V-groove angle (V-belt); flat belt when missing",
+                          dim="angle", positive=True, maximum=90.0),
+    },
+    "sprocket": {
+        "pitch_diameter": F("quantity", "pitch diameter", dim="length", required=True,
+                            positive=True),
+        "chain_angle": F("quantity", "direction toward the other sprocket's axis",
+                         dim="angle", required=True),
+        "wrap_angle": F("quantity", "wrap angle", dim="angle", default=180.0, positive=True,
+                        maximum=360.0),
+    },
+    "coupling": {
+        "radial_force": F("quantity", "constant radial force (misalignment)", dim="force",
+                          default=0.0, non_negative=True),
+        "radial_angle": F("quantity", "direction of the radial force", dim="angle",
+                          default=0.0),
+    },
+    "load": {
+        "force": F("vector", "force [Fx, Fy, Fz] in every case (cases may override)",
+                   dim="force"),
+        "moment": F("vector", "moment [Mx, My, Mz] in every case (cases may override)",
+                    dim="moment"),
+    },
+    "mass": {},
+    "unbalance": {
+        "unbalance": F("quantity", "unbalance U = m*e", dim="unbalance", required=True,
+                       non_negative=True),
+        "phase": F("quantity", "angle at which the rotating force is taken", dim="angle",
+                   default=0.0),
+    },
+}
+
+SHAFT = {
+    "id": F("id", "shaft id", required=True),
+    "material": F("any", "a material name from 'materials' or a material mapping",
+                  required=True),
+    "steps": F("list", "cylindrical steps from x = 0", required=True, of="step"),
+    "bearings": F("list", "bearings on the shaft", required=True, of="bearing"),
+    "elements": F("list", "gears, pulleys, loads... on the shaft", default=None,
+                  of="element"),
+}
+
+DRIVE = {
+    "speed": F("quantity", "signed shaft speed about +x", dim="speed", required=True),
+    "input": F("map", "where power enters", of="input"),
+    "outputs": F("any", "element id -> share of the power leaving there"),
+}
+
+INPUT = {
+    "element": F("id", "element through which power enters", required=True),
+    "power": F("quantity", "power entering (negative: leaving, e.g. braking)", dim="power"),
+    "torque": F("quantity", "torque the input element applies to the shaft about +x",
+                dim="moment"),
+}
+
+CASE_LOAD = {
+    "force": F("vector", "force [Fx, Fy, Fz]", dim="force"),
+    "moment": F("vector", "moment [Mx, My, Mz]", dim="moment"),
+}
+
+CASE = {
+    "id": F("id", "case id", required=True),
+    "kind": F("choice", "duty (has a time share), peak or static (static checks only)",
+              default="duty", choices=("duty", "peak", "static")),
+    "share": F("quantity", "time fraction of the duty cycle", dim="dimensionless",
+               non_negative=True),
+    "hours": F("quantity", "hours in the duty cycle", dim="time", non_negative=True),
+    "speed": F("quantity", "signed speed of the shaft (single-shaft models)", dim="speed"),
+    "input": F("map", "where power enters (single-shaft models)", of="input"),
+    "outputs": F("any", "element id -> share of the power leaving there"),
+    "shafts": F("any", "per-shaft speed/input/outputs (several unlinked shafts)"),
+    "loads": F("any", "element id -> {force, moment} of this case"),
+    "temperature": F("quantity", "operating temperature", dim="temperature"),
+}
+
+LUBRICATION = {
+    "viscosity_40C": F("quantity", "kinematic viscosity at 40 degC", dim="viscosity",
+                       required=True, positive=True),
+    "viscosity_100C": F("quantity", "kinematic viscosity at 100 degC", dim="viscosity",
+                        required=True, positive=True),
+    "ec": F("number", "contamination factor", minimum=0.0, maximum=1.0),
+    "cleanliness": F("str", "ISO 4406 code, e.g. '-/15/12'"),
+    "filtration_beta": F("number", "filter rating beta_x", positive=True),
+    "method": F("choice", "lubrication method (for ec from cleanliness)",
+                default="circulating_filtered", choices=(
+                    "circulating_filtered", "circulating_unfiltered", "oil_bath", "grease")),
+    "ep_additives": F("bool", "lubricant with effective EP additives", default=False),
+}
+
+LIFE = {
+    "target": F("quantity", "default target life", dim="time", default=20000.0,
+                positive=True),
+    "reliability": F("quantity", "default target reliability", dim="dimensionless",
+                     default=0.9, minimum=0.0, maximum=1.0),
+    "reliability_method": F("choice", "iso281 (a1) or weibull3 (three-parameter Weibull)",
+                            default="iso281", choices=("iso281", "weibull3")),
+    "application_factor": F("number", "load application factor on P", default=1.0,
+                            minimum=1.0),
+    "min_speed": F("quantity", "cases slower than this count for static checks only",
+                   dim="speed", default=10.0, non_negative=True),
+    "s0_min": F("number", "required static safety for every bearing", positive=True),
+    "modified_life": F("bool", "use Lnm when lubrication data is given", default=True),
+}
+
+SOLVER = {
+    "shear_deformation": F("bool", "Timoshenko (true) or Euler-Bernoulli (false)",
+                           default=True),
+    "max_element": F("quantity", "longest beam element", dim="length", default=10.0,
+                     positive=True),
+    "residual_tolerance": F("number", "largest equilibrium residual", default=1e-9,
+                            positive=True, maximum=1e-3),
+    "shaft_weight": F("bool", "include the shaft's own weight", default=True),
+}
+
+MODEL = {
+    "shaftsys": F("int", "model format version", required=True, minimum=1, maximum=1),
+    "name": F("str", "title of the model", default="unnamed model"),
+    "gravity": F("vector", "gravity vector in the shaft frame", dim="acceleration"),
+    "materials": F("any", "named materials"),
+    "lubrication": F("map", "lubricant and cleanliness (enables Lnm)", of="lubrication"),
+    "life": F("map", "life targets and methods", of="life"),
+    "solver": F("map", "beam solver settings", of="solver"),
+    "shafts": F("list", "the shafts", required=True, of="shaft"),
+    "cases": F("list", "the operating cases", required=True, of="case"),
+    "study": F("any", "design study (see the sweep command)"),
+}
+
+SECTIONS: dict[str, dict[str, Field]] = {
+    "model": MODEL,
+    "material": MATERIAL,
+    "step": STEP,
+    "bearing": BEARING,
+    "shaft": SHAFT,
+    "case": CASE,
+    "drive": DRIVE,
+    "input": INPUT,
+    "case_load": CASE_LOAD,
+    "lubrication": LUBRICATION,
+    "life": LIFE,
+    "solver": SOLVER,
+}
+
+
+@dataclass
+class Where:
+    """Location context for messages: file, field path and the mapping being read."""
+
+    file: str | None
+    path: str
+    node: LocatedDict | LocatedList | None = None
+
+    def line_of(self, key: str | int | None = None) -> int | None:
+        """Line of ``key`` in the current mapping/list, or of the mapping itself."""
+        node = self.node
+        if node is None:
+            return None
+        if isinstance(node, LocatedDict) and isinstance(key, str) and key in node.lines:
+            return node.lines[key]
+        if isinstance(node, LocatedList) and isinstance(key, int) and key < len(node.lines):
+            return node.lines[key]
+        return node.line
+
+    def field(self, key: str | int | None) -> str:
+        """Field path of ``key`` below this place."""
+        if key is None:
+            return self.path
+        if isinstance(key, int):
+            return f"{self.path}[{key}]"
+        return f"{self.path}.{key}" if self.path else key
+
+    def error(self, key: str | int | None, message: str, expected: str | None = None
+              ) -> ModelError:
+        """A :class:`ModelError` located at ``key``."""
+        return ModelError(message, file=self.file, line=self.line_of(key),
+                          field=self.field(key), expected=expected)
+
+    def child(self, key: str | int, node: Any, label: str | None = None) -> Where:
+        """Location of a nested mapping or list (``label`` replaces ``[i]`` by ``[id]``)."""
+        path = self.field(key) if label is None else f"{self.field(key)}"
+        if label is not None:
+            path = f"{self.path}[{label}]" if isinstance(key, int) else path
+        return Where(self.file, path, node if isinstance(node, LocatedDict | LocatedList)
+                     else None)
+
+
+def require_mapping(where: Where, key: str | int | None, value: Any) -> LocatedDict:
+    """``value`` must be a mapping."""
+    if not isinstance(value, LocatedDict):
+        raise where.error(key, f"expected a mapping, got {_describe(value)}",
+                          "a mapping of 'key: value' lines")
+    return value
+
+
+def require_list(where: Where, key: str | int | None, value: Any) -> LocatedList:
+    """``value`` must be a list."""
+    if not isinstance(value, LocatedList):
+        raise where.error(key, f"expected a list, got {_describe(value)}",
+                          "a list of '- ' items")
+    return value
+
+
+def _describe(value: Any) -> str:
+    if isinstance(value, LocatedDict):
+        return "a mapping"
+    if isinstance(value, LocatedList):
+        return "a list"
+    if value is None:
+        return "nothing"
+    return f"{type(value).__name__} {value!r}"
+
+
+def check_keys(where: Where, mapping: LocatedDict, allowed: dict[str, Field] | set[str]
+               ) -> None:
+    """Refuse unknown keys, suggesting the closest known one."""
+    names = list(allowed)
+    for key in mapping:
+        if key not in allowed:
+            close = difflib.get_close_matches(key, names, n=1, cutoff=0.6)
+            hint = f"; did you mean '{close[0]}'?" if close else ""
+            raise where.error(key, f"unknown key '{key}'{hint}",
+                              "one of: " + ", ".join(sorted(names)))
+
+
+def read_value(where: Where, key: str | int, raw: Any, spec: Field) -> Any:
+    """Convert one raw value according to its field spec (see :class:`Field`)."""
+    kind = spec.kind
+    if kind == "quantity":
+        assert spec.dim is not None
+        try:
+            value = to_internal(raw, spec.dim)
+        except QuantityProblem as exc:
+            raise where.error(key, exc.message, exc.expected) from None
+        _check_range(where, key, value, spec)
+        return value
+    if kind == "number":
+        if isinstance(raw, bool) or not isinstance(raw, int | float | str):
+            raise where.error(key, f"expected a number, got {_describe(raw)}", "a number")
+        try:
+            value = to_internal(raw, "dimensionless")
+        except QuantityProblem as exc:
+            raise where.error(key, exc.message, "a plain number") from None
+        _check_range(where, key, value, spec)
+        return value
+    if kind == "int":
+        if isinstance(raw, bool) or not isinstance(raw, int):
+            raise where.error(key, f"expected a whole number, got {_describe(raw)}",
+                              "a whole number")
+        _check_range(where, key, float(raw), spec)
+        return int(raw)
+    if kind in {"str", "id"}:
+        if isinstance(raw, bool) or not isinstance(raw, str | int) or raw == "":
+            raise where.error(key, f"expected a name, got {_describe(raw)}", "a text")
+        text = str(raw)
+        if kind == "id" and (len(text) > 64 or any(c.isspace() for c in text)):
+            raise where.error(key, f"id {text!r} must be a word of at most 64 characters",
+                              "a short id without spaces")
+        return text
+    if kind == "bool":
+        if not isinstance(raw, bool):
+            raise where.error(key, f"expected true or false, got {_describe(raw)}",
+                              "true or false")
+        return raw
+    if kind == "choice":
+        if not isinstance(raw, str) or raw not in spec.choices:
+            text = str(raw)
+            close = difflib.get_close_matches(text, list(spec.choices), n=1, cutoff=0.6)
+            hint = f"; did you mean '{close[0]}'?" if close else ""
+            raise where.error(key, f"{raw!r} is not a valid choice{hint}",
+                              "one of: " + ", ".join(spec.choices))
+        return raw
+    if kind == "vector":
+        assert spec.dim is not None
+        items = require_list(where, key, raw)
+        if len(items) != 3:
+            raise where.error(key, f"expected three components, got {len(items)}",
+                              "[x, y, z]")
+        inner = where.child(key, items)
+        out = []
+        for i, item in enumerate(items):
+            try:
+                out.append(to_internal(item, spec.dim))
+            except QuantityProblem as exc:
+                raise inner.error(i, exc.message, exc.expected) from None
+        return tuple(out)
+    if kind == "map":
+        return require_mapping(where, key, raw)
+    if kind == "list":
+        return require_list(where, key, raw)
+    if kind == "any":
+        return raw
+    raise ValueError(f"unknown field kind {kind!r}")  # pragma: no cover - spec bug
+
+
+def _check_range(where: Where, key: str | int, value: float, spec: Field) -> None:
+    if spec.positive and not value > 0:
+        raise where.error(key, f"must be positive, got {value:g}", "a value > 0")
+    if spec.non_negative and value < 0:
+        raise where.error(key, f"must not be negative, got {value:g}", "a value >= 0")
+    if spec.minimum is not None and value < spec.minimum:
+        raise where.error(key, f"{value:g} is below the smallest allowed {spec.minimum:g}",
+                          f"a value >= {spec.minimum:g}")
+    if spec.maximum is not None and value > spec.maximum:
+        raise where.error(key, f"{value:g} is above the largest allowed {spec.maximum:g}",
+                          f"a value <= {spec.maximum:g}")
+
+
+def read_section(where: Where, mapping: Any, fields: dict[str, Field],
+                 key: str | int | None = None) -> dict[str, Any]:
+    """Read a mapping against its field table: unknown keys refused, required present,
+    every value converted, defaults filled in. Returns ``{key: value}``.
+    """
+    mapping = require_mapping(where, key, mapping)
+    here = where if key is None else where.child(key, mapping)
+    here.node = mapping
+    check_keys(here, mapping, fields)
+    out: dict[str, Any] = {}
+    for name, spec in fields.items():
+        if name in mapping and mapping[name] is not None:
+            out[name] = read_value(here, name, mapping[name], spec)
+        elif spec.required:
+            raise here.error(None, f"'{name}' is missing ({spec.doc})",
+                             f"a key '{name}'")
+        else:
+            out[name] = spec.default
+    return out

@@ -1,0 +1,174 @@
+"""Safe YAML reading that remembers where every value stood in the file.
+
+The model file is composed into YAML nodes by PyYAML's safe machinery, then turned
+into plain Python values by our own walk, which
+
+* refuses every tag that is not a plain YAML scalar/sequence/mapping (no object tags),
+* bounds the expansion of aliases and merge keys (a "billion laughs" file is refused),
+* records the 1-based line of every mapping key and list item, so that later errors
+  can name the file, line and field path.
+
+Mappings become :class:`LocatedDict` (a ``dict`` with ``line`` and ``lines``), lists
+:class:`LocatedList`; scalars stay plain (``str``, ``int``, ``float``, ``bool``, ``None``).
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+import yaml
+
+from shaftsys.errors import ModelError
+
+MAX_FILE_BYTES = 2_000_000
+MAX_NODES = 200_000
+MAX_DEPTH = 64
+
+_SAFE_TAGS = {
+    "tag:yaml.org,2002:str",
+    "tag:yaml.org,2002:int",
+    "tag:yaml.org,2002:float",
+    "tag:yaml.org,2002:bool",
+    "tag:yaml.org,2002:null",
+    "tag:yaml.org,2002:map",
+    "tag:yaml.org,2002:seq",
+    "tag:yaml.org,2002:merge",
+}
+
+
+class LocatedDict(dict[str, Any]):
+    """A mapping from a model file with the line of itself and of each key."""
+
+    line: int | None
+    lines: dict[str, int]
+
+    def __init__(self, line: int | None = None) -> None:
+        super().__init__()
+        self.line = line
+        self.lines = {}
+
+
+class LocatedList(list[Any]):
+    """A sequence from a model file with the line of itself and of each item."""
+
+    line: int | None
+    lines: list[int]
+
+    def __init__(self, line: int | None = None) -> None:
+        super().__init__()
+        self.line = line
+        self.lines = []
+
+
+class _Walker:
+    def __init__(self, loader: yaml.SafeLoader, file: str | None) -> None:
+        self.loader = loader
+        self.file = file
+        self.count = 0
+
+    def error(self, node: yaml.Node, message: str, expected: str | None = None) -> ModelError:
+        return ModelError(
+            message, file=self.file, line=node.start_mark.line + 1, expected=expected
+        )
+
+    def walk(self, node: yaml.Node, depth: int = 0) -> Any:
+        self.count += 1
+        if self.count > MAX_NODES:
+            raise self.error(
+                node,
+                f"the file expands to more than {MAX_NODES} values (aliases or merge keys "
+                "repeated too often); refusing to expand it",
+                "a model without deeply nested aliases",
+            )
+        if depth > MAX_DEPTH:
+            raise self.error(node, f"nesting deeper than {MAX_DEPTH} levels")
+        if node.tag not in _SAFE_TAGS:
+            raise self.error(
+                node,
+                f"YAML tag {node.tag!r} is not allowed in a model file",
+                "plain values, lists and mappings without tags",
+            )
+        if isinstance(node, yaml.ScalarNode):
+            value = self.loader.construct_object(node, deep=False)
+            if isinstance(value, float) and not math.isfinite(value):
+                raise self.error(node, f"{node.value!r} is not a finite number")
+            return value
+        if isinstance(node, yaml.SequenceNode):
+            out = LocatedList(node.start_mark.line + 1)
+            for item in node.value:
+                out.append(self.walk(item, depth + 1))
+                out.lines.append(item.start_mark.line + 1)
+            return out
+        if isinstance(node, yaml.MappingNode):
+            return self._mapping(node, depth)
+        raise self.error(node, "unsupported YAML node")  # pragma: no cover
+
+    def _mapping(self, node: yaml.MappingNode, depth: int) -> LocatedDict:
+        out = LocatedDict(node.start_mark.line + 1)
+        merged: list[tuple[LocatedDict, yaml.Node]] = []
+        for key_node, value_node in node.value:
+            if key_node.tag == "tag:yaml.org,2002:merge":
+                sources = (
+                    value_node.value
+                    if isinstance(value_node, yaml.SequenceNode)
+                    else [value_node]
+                )
+                for src in sources:
+                    value = self.walk(src, depth + 1)
+                    if not isinstance(value, LocatedDict):
+                        raise self.error(src, "a merge key (<<) must refer to a mapping")
+                    merged.append((value, key_node))
+                continue
+            if not isinstance(key_node, yaml.ScalarNode):
+                raise self.error(key_node, "mapping keys must be plain words")
+            key = self.loader.construct_object(key_node, deep=False)
+            key = str(key)
+            if key in out:
+                raise self.error(key_node, f"key {key!r} appears twice in this mapping")
+            out[key] = self.walk(value_node, depth + 1)
+            out.lines[key] = key_node.start_mark.line + 1
+        for value, key_node in merged:  # explicit keys win over merged ones
+            for k, v in value.items():
+                if k not in out:
+                    out[k] = v
+                    out.lines[k] = value.lines.get(k, key_node.start_mark.line + 1)
+        return out
+
+
+def parse_yaml(text: str, file: str | None = None) -> Any:
+    """Parse model-file text into located plain values.
+
+    Parameters
+    ----------
+    text: the YAML text.
+    file: the file name used in error messages.
+
+    Raises
+    ------
+    ModelError: invalid YAML, a forbidden tag, too large or too deeply aliased input.
+    """
+    if len(text.encode("utf-8", errors="replace")) > MAX_FILE_BYTES:
+        raise ModelError(
+            f"the model file is larger than {MAX_FILE_BYTES // 1000} kB",
+            file=file,
+            line=1,
+            expected="a model file below the size limit",
+        )
+    loader = yaml.SafeLoader(text)
+    try:
+        node = loader.get_single_node()
+        if node is None:
+            raise ModelError("the model file is empty", file=file, line=1)
+        return _Walker(loader, file).walk(node)
+    except yaml.MarkedYAMLError as exc:
+        mark = exc.problem_mark or exc.context_mark
+        line = mark.line + 1 if mark is not None else None
+        problem = exc.problem or "invalid YAML"
+        raise ModelError(
+            f"invalid YAML: {problem}", file=file, line=line, expected="valid YAML"
+        ) from None
+    except yaml.YAMLError as exc:
+        raise ModelError(f"invalid YAML: {exc}", file=file, line=None) from None
+    finally:
+        loader.dispose()

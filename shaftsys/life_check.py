@@ -1,0 +1,102 @@
+"""Glue between the solved shafts and the ISO 281 life engine.
+
+Builds every bearing's load spectrum straight from the solver (nobody types a bearing
+load), evaluates it, and combines the bearings of each shaft and of the whole machine
+into a system life (Weibull survival, Lundberg-Palmgren slopes).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import replace
+
+import numpy as np
+
+from shaftsys.analysis import BearingResult, Result
+from shaftsys.bearings.engine import LoadSpectrum, evaluate_bearing, system_life
+from shaftsys.model import CaseKind, Model
+
+
+def spectrum_of(model: Model, result: BearingResult) -> LoadSpectrum:
+    """The load spectrum of one bearing: Fr, Fa, signed speed, duration per case.
+
+    Peak and static cases, and cases slower than ``model.life.min_speed_rpm``, are
+    static-only (the engine records why).
+    """
+    cases = {c.id: c for c in model.cases}
+    loads = result.loads
+    static_only = [cases[ld.case].kind is not CaseKind.DUTY for ld in loads]
+    return LoadSpectrum.build(
+        case_ids=[ld.case for ld in loads],
+        Fr_N=[ld.Fr_N for ld in loads],
+        Fa_N=[ld.Fa_N for ld in loads],
+        speed_rpm=[ld.speed_rpm for ld in loads],
+        duration=[cases[ld.case].duration for ld in loads],
+        duration_in_hours=model.duration_in_hours,
+        static_only=static_only,
+        temperature_C=[cases[ld.case].temperature_C for ld in loads],
+    )
+
+
+def attach_life(result: Result) -> Result:
+    """A copy of ``result`` with every bearing's life verdict and the system lives.
+
+    System life combines the bearings' lives at 90 % reliability on the verdict's basis
+    (basic L10 when the verdict uses a1*L10, aISO*L10 when it uses Lnm) and is stated
+    at the model's default target reliability.
+    """
+    model = result.model
+    bearings = []
+    for b in result.bearings:
+        life = evaluate_bearing(b.bearing, spectrum_of(model, b), model.life,
+                                model.lubrication)
+        bearings.append(replace(b, life=life))
+    shafts = []
+    all_l90: list[float] = []
+    all_kinds: list[str] = []
+    all_ids: list[str] = []
+    reliability = model.life.target_reliability
+    for s in result.shafts:
+        mine = [b for b in bearings if b.shaft_id == s.shaft.id]
+        l90 = [_life90_h(b) for b in mine]
+        kinds = [b.bearing.kind.value for b in mine]
+        life_h, idx = _system(l90, kinds, reliability)
+        shafts.append(replace(s, system_life_h=life_h,
+                              limiting_bearing=None if idx is None else mine[idx].bearing.id))
+        all_l90 += l90
+        all_kinds += kinds
+        all_ids += [b.bearing.id for b in mine]
+    life_h, idx = _system(all_l90, all_kinds, reliability)
+    return replace(result, bearings=tuple(bearings), shafts=tuple(shafts),
+                   system_life_h=life_h,
+                   limiting_bearing=None if idx is None else all_ids[idx])
+
+
+def _life90_h(b: BearingResult) -> float:
+    """Life at 90 % reliability [h] on the verdict basis (Lnm / a1)."""
+    assert b.life is not None
+    if not math.isfinite(b.life.Lnm_h):
+        return math.inf
+    return float(b.life.Lnm_h / b.life.a1)
+
+
+def _system(lives: list[float], kinds: list[str], reliability: float
+            ) -> tuple[float, int | None]:
+    finite = [i for i, v in enumerate(lives) if math.isfinite(v)]
+    if not finite:
+        return math.inf, None
+    life, idx = system_life(np.array([lives[i] for i in finite]),
+                            [kinds[i] for i in finite], reliability)
+    return float(life), (None if idx is None else finite[idx])
+
+
+def worst_case(b: BearingResult) -> str | None:
+    """The duty case that does the most damage to the bearing (largest U_i / Lnm_i)."""
+    if b.life is None:
+        return None
+    life = b.life
+    damage = np.where(life.dynamic, life.weights / np.where(life.case_Lnm_h > 0,
+                                                            life.case_Lnm_h, np.inf), -1.0)
+    if not np.any(life.dynamic):
+        return life.s0_case
+    return life.case_ids[int(np.nanargmax(damage))]

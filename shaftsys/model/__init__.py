@@ -1,0 +1,32 @@
+"""Frozen, typed input values of a machine model (no I/O, no numerics)."""
+
+from shaftsys.model.bearing import (
+    AxialRole,
+    Bearing,
+    BearingKind,
+    LifeSettings,
+    Lubrication,
+    SetArrangement,
+)
+from shaftsys.model.case import Case, CaseKind, Drive, ElementLoad
+from shaftsys.model.elements import (
+    BevelGear,
+    Coupling,
+    Element,
+    ElementBase,
+    Gear,
+    LumpedMass,
+    ProcessLoad,
+    Pulley,
+    Sprocket,
+    Unbalance,
+)
+from shaftsys.model.machine import Model, SolverSettings
+from shaftsys.model.shaft import Material, Shaft, Step
+
+__all__ = [
+    "AxialRole", "Bearing", "BearingKind", "BevelGear", "Case", "CaseKind", "Coupling",
+    "Drive", "Element", "ElementBase", "ElementLoad", "Gear", "LifeSettings",
+    "Lubrication", "LumpedMass", "Material", "Model", "ProcessLoad", "Pulley",
+    "SetArrangement", "Shaft", "SolverSettings", "Sprocket", "Step", "Unbalance",
+]

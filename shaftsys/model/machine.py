@@ -1,0 +1,85 @@
+"""The whole model: shafts, cases, lubrication, targets and solver settings."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from shaftsys.model.bearing import Bearing, LifeSettings, Lubrication
+from shaftsys.model.case import Case
+from shaftsys.model.shaft import Shaft
+
+
+@dataclass(frozen=True, slots=True)
+class SolverSettings:
+    """Beam-solver settings.
+
+    Attributes
+    ----------
+    shear_deformation: Timoshenko beam (True, default) or Euler-Bernoulli (False).
+    max_element_mm: longest beam element [mm] (nodes are also put at every station).
+    residual_tolerance: largest accepted equilibrium residual, relative to the load.
+    include_shaft_weight: the shaft's own weight loads it (with gravity).
+    """
+
+    shear_deformation: bool = True
+    max_element_mm: float = 10.0
+    residual_tolerance: float = 1e-9
+    include_shaft_weight: bool = True
+
+
+@dataclass(frozen=True, slots=True)
+class Model:
+    """A machine model, as read from a model file or built in Python.
+
+    Change it by copying (``dataclasses.replace``), never in place.
+
+    Attributes
+    ----------
+    name: title of the model.
+    shafts: the shafts.
+    cases: the operating cases (duty cycle plus peak/static cases).
+    duration_in_hours: case durations are hours (True) or fractions (False).
+    gravity_m_s2: gravity vector in the shaft frame [m/s^2].
+    life: life-engine defaults and targets.
+    lubrication: lubricant and cleanliness, or ``None`` (then the verdict uses a1*L10).
+    solver: beam-solver settings.
+    source: path of the model file, or ``None``.
+    sha256: SHA-256 of the model file's bytes, or ``None``.
+    """
+
+    name: str
+    shafts: tuple[Shaft, ...]
+    cases: tuple[Case, ...]
+    duration_in_hours: bool = False
+    gravity_m_s2: tuple[float, float, float] = (0.0, -9.80665, 0.0)
+    life: LifeSettings = field(default_factory=LifeSettings)
+    lubrication: Lubrication | None = None
+    solver: SolverSettings = field(default_factory=SolverSettings)
+    source: str | None = None
+    sha256: str | None = None
+
+    def shaft(self, shaft_id: str) -> Shaft:
+        """The shaft with this id."""
+        for s in self.shafts:
+            if s.id == shaft_id:
+                return s
+        raise KeyError(shaft_id)
+
+    def bearings(self) -> list[tuple[Shaft, Bearing]]:
+        """Every (shaft, bearing) pair in model order."""
+        return [(s, b) for s in self.shafts for b in s.bearings]
+
+    @property
+    def duty_cases(self) -> tuple[Case, ...]:
+        """Cases with a time share (not peak/static)."""
+        from shaftsys.model.case import CaseKind
+
+        return tuple(c for c in self.cases if c.kind is CaseKind.DUTY)
+
+    def shares(self) -> dict[str, float]:
+        """Normalised time fraction of each case (0 for peak and static cases)."""
+        total = sum(c.duration for c in self.duty_cases)
+        return {
+            c.id: (c.duration / total if total > 0 and c in self.duty_cases else 0.0)
+            for c in self.cases
+        }

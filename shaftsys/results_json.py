@@ -1,0 +1,73 @@
+"""The JSON results contract (see README: keys are added, never renamed or dropped)."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from shaftsys import __version__
+from shaftsys.analysis import SCHEMA_VERSION, Result
+from shaftsys.units import OUTPUT_UNITS
+
+
+def result_to_dict(result: Result) -> dict[str, Any]:
+    """The JSON-ready dictionary of a result (public contract, schema ``SCHEMA_VERSION``)."""
+    model = result.model
+    shares = model.shares()
+    data: dict[str, Any] = {
+        "schema_version": SCHEMA_VERSION,
+        "tool_version": __version__,
+        "model_sha256": model.sha256 or "",
+        "model_file": model.source,
+        "model_name": model.name,
+        "units": dict(OUTPUT_UNITS),
+        "cases": [
+            {"id": c.id, "share": shares[c.id], "kind": c.kind.value,
+             "duration": c.duration,
+             "duration_unit": "h" if model.duration_in_hours else "fraction",
+             "temperature_C": c.temperature_C}
+            for c in model.cases
+        ],
+        "shafts": [],
+        "bearings": [],
+        "ok": result.ok,
+        "warnings": list(result.warnings),
+    }
+    for s in result.shafts:
+        entry: dict[str, Any] = {
+            "id": s.shaft.id,
+            "length_mm": s.shaft.length_mm,
+            "condition_estimate": s.condition_estimate,
+            "cases": [
+                {"case": c.case, "speed_rpm": c.speed_rpm, "torque_Nmm": c.torque_Nmm,
+                 "max_deflection_mm": c.max_deflection_mm,
+                 "max_slope_rad": float(c.slope_rad.max()),
+                 "max_bending_moment_Nmm": float(c.M_Nmm.max()),
+                 "force_residual_N": c.force_residual_N,
+                 "moment_residual_Nmm": c.moment_residual_Nmm,
+                 "residual_relative": max(c.residual_relative, c.nodal_residual_relative)}
+                for c in s.cases
+            ],
+            "system": {"life_h": s.system_life_h, "limiting_bearing": s.limiting_bearing},
+        }
+        data["shafts"].append(entry)
+    for b in result.bearings:
+        br = b.bearing
+        item: dict[str, Any] = {
+            "id": br.id, "shaft": b.shaft_id, "x_mm": br.support_x_mm,
+            "mid_width_x_mm": br.x_mm, "type": br.kind.value, "axial_role": br.axial.value,
+            "C_N": br.C_N, "C0_N": br.C0_N,
+            "loads": [
+                {"case": ld.case, "Fy_N": ld.Fy_N, "Fz_N": ld.Fz_N, "Fr_N": ld.Fr_N,
+                 "Fx_N": ld.Fx_N, "Fa_N": ld.Fa_N, "speed_rpm": ld.speed_rpm,
+                 "induced_axial_N": ld.induced_N, "deflection_mm": ld.deflection_mm,
+                 "slope_rad": ld.slope_rad}
+                for ld in b.loads
+            ],
+        }
+        if b.life is not None:
+            item["life"] = b.life.to_dict()
+        item["ok"] = b.ok
+        data["bearings"].append(item)
+    data["system"] = {"life_h": result.system_life_h,
+                      "limiting_bearing": result.limiting_bearing}
+    return data
