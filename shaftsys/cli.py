@@ -79,6 +79,8 @@ def main(argv: Sequence[str] | None = None) -> int:
     """Entry point of the ``shaftsys`` console script; returns the exit code."""
     args = _parser().parse_args(argv)
     logging.basicConfig(level=logging.WARNING, format="warning: %(message)s")
+    # the life engine returns its warnings in the results; the CLI prints them once
+    logging.getLogger("shaftsys.bearings").setLevel(logging.ERROR)
     if args.command is None:
         _parser().print_help()
         return EXIT_OK
@@ -140,14 +142,22 @@ def _check(args: argparse.Namespace) -> int:
         if not args.loads_only:
             print(file=out)
             print(verdict_table(result), file=out)
-        for w in result.warnings:
+        out.flush()
+        for w in _all_warnings(result):
             print(f"warning: {w}", file=sys.stderr)
-        for b in result.bearings:
-            for w in b.life.warnings if b.life is not None else ():
-                print(f"warning: bearing '{b.bearing.id}': {w}", file=sys.stderr)
     if to_stdout_json:
         sys.stdout.write(json.dumps(json_ready(data), indent=2) + "\n")
     return EXIT_OK if result.ok else EXIT_TARGET_MISSED
+
+
+def _all_warnings(result: object) -> list[str]:
+    """Every warning of a result, once, model-level first."""
+    found: list[str] = list(getattr(result, "warnings", ()))
+    for b in getattr(result, "bearings", ()):
+        if b.life is not None:
+            found.extend(w if b.bearing.id in w else f"bearing '{b.bearing.id}': {w}"
+                         for w in b.life.warnings)
+    return list(dict.fromkeys(found))
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -85,8 +85,8 @@ def test_deep_groove_equivalent_load_switch() -> None:
     b = brg(BearingKind.DEEP_GROOVE_BALL, C0_N=13000.0, f0=13.0)
     eq = equivalent_dynamic_load(b, [1000.0, 4000.0], [1030.0, -1030.0])
     assert eq.e == pytest.approx([0.28, 0.28], rel=REL)
-    assert eq.P_N == pytest.approx([2156.5, 4000.0], rel=REL)
-    assert eq.X == pytest.approx([0.56, 1.0]) and eq.Y == pytest.approx([1.55, 0.0])
+    assert pytest.approx([2156.5, 4000.0], rel=REL) == eq.P_N
+    assert pytest.approx([0.56, 1.0]) == eq.X and pytest.approx([1.55, 0.0]) == eq.Y
     assert not eq.f0_estimated
 
 
@@ -171,9 +171,9 @@ def test_angular_fixed_rows(
     Fr = np.array([1000.0, 1000.0])
     Fa = np.array([0.5 * e * 1000.0, 2.0 * e * 1000.0])  # below and above e
     s = equivalent_dynamic_load(single, Fr, Fa)
-    assert s.P_N == pytest.approx([1000.0, xs * 1000.0 + ys * Fa[1]], rel=REL)
+    assert pytest.approx([1000.0, xs * 1000.0 + ys * Fa[1]], rel=REL) == s.P_N
     d = equivalent_dynamic_load(pair, Fr, Fa)
-    assert d.P_N == pytest.approx([1000.0 + y1 * Fa[0], x2 * 1000.0 + y2 * Fa[1]], rel=REL)
+    assert pytest.approx([1000.0 + y1 * Fa[0], x2 * 1000.0 + y2 * Fa[1]], rel=REL) == d.P_N
 
 
 def test_angular_interpolated_angle() -> None:
@@ -200,8 +200,8 @@ def test_tapered_single_maker_factors() -> None:
     """
     b = brg(BearingKind.TAPERED_ROLLER, e=0.37, Y=1.6)
     eq = equivalent_dynamic_load(b, [1000.0, 1000.0], [1000.0, 300.0])
-    assert eq.P_N == pytest.approx([2000.0, 1000.0], rel=REL)
-    assert eq.X == pytest.approx([0.4, 1.0])
+    assert pytest.approx([2000.0, 1000.0], rel=REL) == eq.P_N
+    assert pytest.approx([0.4, 1.0]) == eq.X
 
 
 def test_tapered_pair_Y1_Y2() -> None:
@@ -219,7 +219,7 @@ def test_tapered_pair_Y1_Y2() -> None:
         arrangement=SetArrangement.BACK_TO_BACK,
     )
     eq = equivalent_dynamic_load(b, [1000.0, 1000.0], [300.0, 1000.0])
-    assert eq.P_N == pytest.approx([1540.0, 3370.0], rel=REL)
+    assert pytest.approx([1540.0, 3370.0], rel=REL) == eq.P_N
 
 
 def test_tapered_factors_from_contact_angle() -> None:
@@ -249,12 +249,12 @@ def test_spherical_and_self_aligning() -> None:
     """
     sph = brg(BearingKind.SPHERICAL_ROLLER, e=0.25, Y1=2.7, Y2=4.0)
     sab = brg(BearingKind.SELF_ALIGNING_BALL, e=0.25, Y1=2.7, Y2=4.0)
-    assert equivalent_dynamic_load(sph, [1000.0, 1000.0], [200.0, 500.0]).P_N == (
-        pytest.approx([1540.0, 2670.0], rel=REL)
-    )
-    assert equivalent_dynamic_load(sab, [1000.0, 1000.0], [200.0, 500.0]).P_N == (
-        pytest.approx([1540.0, 2650.0], rel=REL)
-    )
+    assert (pytest.approx([1540.0, 2670.0], rel=REL)) == equivalent_dynamic_load(
+        sph, [1000.0, 1000.0], [200.0, 500.0]
+    ).P_N
+    assert (pytest.approx([1540.0, 2650.0], rel=REL)) == equivalent_dynamic_load(
+        sab, [1000.0, 1000.0], [200.0, 500.0]
+    ).P_N
 
 
 def test_spherical_missing_e_raises() -> None:
@@ -268,7 +268,7 @@ def test_cylindrical_P_equals_Fr() -> None:
     """ISO 281:2007 7.2: radial roller bearings with alpha = 0 under radial load: P = Fr."""
     b = brg(BearingKind.CYLINDRICAL_ROLLER)
     eq = equivalent_dynamic_load(b, [1234.5, 0.0], [0.0, 0.0])
-    assert eq.P_N == pytest.approx([1234.5, 0.0], rel=REL)
+    assert pytest.approx([1234.5, 0.0], rel=REL) == eq.P_N
 
 
 def test_needle_axial_load_raises() -> None:
@@ -285,14 +285,14 @@ def test_cylindrical_without_ribs_axial_raises_with_ribs_warns() -> None:
         equivalent_dynamic_load(plain, [1000.0], [500.0])
     ribbed = brg(BearingKind.CYLINDRICAL_ROLLER, id="C3", ribs=True)
     eq = equivalent_dynamic_load(ribbed, [1000.0, 1000.0], [500.0, 300.0])
-    assert eq.P_N == pytest.approx([1000.0, 1000.0], rel=REL)
+    assert pytest.approx([1000.0, 1000.0], rel=REL) == eq.P_N
     assert len(eq.warnings) == 1 and "0.5" in eq.warnings[0]
 
 
 def test_thrust_ball() -> None:
     """ISO 281:2007 6.3: thrust ball bearing with alpha = 90 deg: P = Fa."""
     b = brg(BearingKind.THRUST_BALL, contact_angle_deg=90.0)
-    assert equivalent_dynamic_load(b, [0.0], [-2500.0]).P_N == pytest.approx([2500.0])
+    assert pytest.approx([2500.0]) == equivalent_dynamic_load(b, [0.0], [-2500.0]).P_N
     with pytest.raises(ModelError, match=r"bearings\[B1\]\.kind"):
         equivalent_dynamic_load(b, [10.0], [2500.0])
 
@@ -301,7 +301,7 @@ def test_user_override_X_Y_e() -> None:
     """Override X = 0.5, Y = 1.2, e = 0.45: Fa/Fr = 0.4 -> P = Fr; 1.0 -> 500 + 1200."""
     b = brg(BearingKind.DEEP_GROOVE_BALL, X=0.5, Y=1.2, e=0.45)
     eq = equivalent_dynamic_load(b, [1000.0, 1000.0], [400.0, 1000.0])
-    assert eq.P_N == pytest.approx([1000.0, 1700.0], rel=REL)
+    assert pytest.approx([1000.0, 1700.0], rel=REL) == eq.P_N
 
 
 # --- ISO 76:2006 equivalent static load ----------------------------------------------
@@ -311,7 +311,7 @@ def test_static_deep_groove() -> None:
     Fr = 1000, Fa = 1000: 600 + 500 = 1100 N; Fa = 500: 850 < Fr -> 1000 N.
     """
     sl = equivalent_static_load(brg(BearingKind.DEEP_GROOVE_BALL), [1000.0, 1000.0], [1000, 500])
-    assert sl.P0_N == pytest.approx([1100.0, 1000.0], rel=REL)
+    assert pytest.approx([1100.0, 1000.0], rel=REL) == sl.P0_N
 
 
 def test_static_angular_contact() -> None:
@@ -321,14 +321,14 @@ def test_static_angular_contact() -> None:
     Single Fr = 1000, Fa = 2000: 500 + 760 = 1260 N. Pair Fr = Fa = 1000: 1520 N.
     """
     s = brg(BearingKind.ANGULAR_CONTACT_BALL, contact_angle_deg=25.0)
-    assert equivalent_static_load(s, [1000.0], [2000.0]).P0_N == pytest.approx([1260.0])
+    assert pytest.approx([1260.0]) == equivalent_static_load(s, [1000.0], [2000.0]).P0_N
     p = brg(
         BearingKind.ANGULAR_CONTACT_BALL,
         contact_angle_deg=40.0,
         arrangement=SetArrangement.BACK_TO_BACK,
         rows=2,
     )
-    assert equivalent_static_load(p, [1000.0], [1000.0]).P0_N == pytest.approx([1520.0])
+    assert pytest.approx([1520.0]) == equivalent_static_load(p, [1000.0], [1000.0]).P0_N
 
 
 def test_static_roller_types() -> None:
@@ -339,16 +339,16 @@ def test_static_roller_types() -> None:
     Spherical Fr = 1000, Fa = 100: 1000 + 280 = 1280.
     """
     t = brg(BearingKind.TAPERED_ROLLER, e=0.4, Y=1.5, Y0=0.9)
-    assert equivalent_static_load(t, [1000.0, 1000.0], [2000.0, 100.0]).P0_N == (
-        pytest.approx([2300.0, 1000.0])
-    )
+    assert (pytest.approx([2300.0, 1000.0])) == equivalent_static_load(
+        t, [1000.0, 1000.0], [2000.0, 100.0]
+    ).P0_N
     sph = brg(BearingKind.SPHERICAL_ROLLER, e=0.25, Y1=2.7, Y2=4.0, Y0=2.8)
-    assert equivalent_static_load(sph, [1000.0], [100.0]).P0_N == pytest.approx([1280.0])
-    assert equivalent_static_load(brg(BearingKind.CYLINDRICAL_ROLLER), [700.0], [0.0]).P0_N == (
-        pytest.approx([700.0])
-    )
+    assert pytest.approx([1280.0]) == equivalent_static_load(sph, [1000.0], [100.0]).P0_N
+    assert (pytest.approx([700.0])) == equivalent_static_load(
+        brg(BearingKind.CYLINDRICAL_ROLLER), [700.0], [0.0]
+    ).P0_N
     th = brg(BearingKind.THRUST_BALL)
-    assert equivalent_static_load(th, [0.0], [900.0]).P0_N == pytest.approx([900.0])
+    assert pytest.approx([900.0]) == equivalent_static_load(th, [0.0], [900.0]).P0_N
 
 
 def test_static_Y0_from_contact_angle() -> None:
@@ -357,9 +357,7 @@ def test_static_Y0_from_contact_angle() -> None:
     Fr = 1000, Fa = 1000: P0 = 500 + 821.0512 = 1321.0512 N.
     """
     t = brg(BearingKind.TAPERED_ROLLER, contact_angle_deg=15.0)
-    assert equivalent_static_load(t, [1000.0], [1000.0]).P0_N == pytest.approx(
-        [1321.0512], rel=REL
-    )
+    assert pytest.approx([1321.0512], rel=REL) == equivalent_static_load(t, [1000.0], [1000.0]).P0_N
 
 
 def test_static_check_worst_case_and_default_s0() -> None:

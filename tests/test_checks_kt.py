@@ -9,6 +9,7 @@ Sources (all recalled, not re-read: marked "from memory" where a number is recal
 
 from __future__ import annotations
 
+import itertools
 import logging
 import math
 
@@ -84,9 +85,7 @@ def test_shoulder_kt_shigley_table_7_1(
 def test_shoulder_kt_equals_fit_at_rows(
     D_over_d: float, r_over_d: float, mode: LoadMode, A: float, b: float
 ) -> None:
-    assert shoulder_fillet_kt(D_over_d, r_over_d, mode) == pytest.approx(
-        A * r_over_d**b, rel=1e-9
-    )
+    assert shoulder_fillet_kt(D_over_d, r_over_d, mode) == pytest.approx(A * r_over_d**b, rel=1e-9)
 
 
 def test_shoulder_kt_interpolates_linearly_between_rows() -> None:
@@ -105,10 +104,10 @@ def test_shoulder_kt_trends_of_peterson_charts(mode: LoadMode) -> None:
     Dds = [1.02, 1.05, 1.1, 1.2, 1.33, 1.5, 2.0]
     for Dd in Dds:
         kts = [shoulder_fillet_kt(Dd, rd, mode) for rd in rds]
-        assert all(a > b for a, b in zip(kts[:-1], kts[1:], strict=True))
+        assert all(a > b for a, b in itertools.pairwise(kts))
     for rd in rds:
         kts = [shoulder_fillet_kt(Dd, rd, mode) for Dd in Dds]
-        assert all(a <= b + 1e-12 for a, b in zip(kts[:-1], kts[1:], strict=True))
+        assert all(a <= b + 1e-12 for a, b in itertools.pairwise(kts))
 
 
 def test_shoulder_kt_range_handling(caplog: pytest.LogCaptureFixture) -> None:

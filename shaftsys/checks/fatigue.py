@@ -71,29 +71,27 @@ class SurfaceFinish(StrEnum):
 #: ``"shigley9"``: Shigley 9th ed. Table 6-2 (from memory; the kpsi column is
 #: 1.34/2.70/14.4/39.9 with the same exponents). ``"shigley10"``: the refit printed in
 #: the 10th ed. Table 6-2 (from memory; kpsi column 1.21/2.00/11.0/12.7).
-SURFACE_FACTOR_TABLES: Mapping[str, Mapping[SurfaceFinish, tuple[float, float]]] = (
-    MappingProxyType(
-        {
-            "shigley9": MappingProxyType(
-                {
-                    SurfaceFinish.GROUND: (1.58, -0.085),
-                    SurfaceFinish.MACHINED: (4.51, -0.265),
-                    SurfaceFinish.COLD_DRAWN: (4.51, -0.265),
-                    SurfaceFinish.HOT_ROLLED: (57.7, -0.718),
-                    SurfaceFinish.AS_FORGED: (272.0, -0.995),
-                }
-            ),
-            "shigley10": MappingProxyType(
-                {
-                    SurfaceFinish.GROUND: (1.38, -0.067),
-                    SurfaceFinish.MACHINED: (3.04, -0.217),
-                    SurfaceFinish.COLD_DRAWN: (3.04, -0.217),
-                    SurfaceFinish.HOT_ROLLED: (38.6, -0.650),
-                    SurfaceFinish.AS_FORGED: (54.9, -0.758),
-                }
-            ),
-        }
-    )
+SURFACE_FACTOR_TABLES: Mapping[str, Mapping[SurfaceFinish, tuple[float, float]]] = MappingProxyType(
+    {
+        "shigley9": MappingProxyType(
+            {
+                SurfaceFinish.GROUND: (1.58, -0.085),
+                SurfaceFinish.MACHINED: (4.51, -0.265),
+                SurfaceFinish.COLD_DRAWN: (4.51, -0.265),
+                SurfaceFinish.HOT_ROLLED: (57.7, -0.718),
+                SurfaceFinish.AS_FORGED: (272.0, -0.995),
+            }
+        ),
+        "shigley10": MappingProxyType(
+            {
+                SurfaceFinish.GROUND: (1.38, -0.067),
+                SurfaceFinish.MACHINED: (3.04, -0.217),
+                SurfaceFinish.COLD_DRAWN: (3.04, -0.217),
+                SurfaceFinish.HOT_ROLLED: (38.6, -0.650),
+                SurfaceFinish.AS_FORGED: (54.9, -0.758),
+            }
+        ),
+    }
 )
 
 #: Shigley 9th ed. Table 6-5 (from memory): reliability -> ke.
@@ -167,9 +165,7 @@ def endurance_limit_prime(Sut_MPa: float) -> float:
     return 0.5 * s if s <= SE_PRIME_SUT_KNEE_MPA else SE_PRIME_CAP_MPA
 
 
-def surface_factor(
-    Sut_MPa: float, finish: SurfaceFinish | str, table: str = "shigley9"
-) -> float:
+def surface_factor(Sut_MPa: float, finish: SurfaceFinish | str, table: str = "shigley9") -> float:
     """Marin surface factor ka = a Sut^b [-] (Shigley eq. 6-19, Table 6-2).
 
     Parameters
@@ -192,8 +188,7 @@ def surface_factor(
         f = SurfaceFinish(finish)
     except ValueError:
         raise ValueError(
-            f"unknown surface finish {finish!r}; expected one of "
-            f"{[x.value for x in SurfaceFinish]}"
+            f"unknown surface finish {finish!r}; expected one of {[x.value for x in SurfaceFinish]}"
         ) from None
     if table not in SURFACE_FACTOR_TABLES:
         raise ValueError(
@@ -208,8 +203,8 @@ def size_factor(d_mm: float) -> float:
     """Marin size factor kb [-] of a rotating round bar in bending or torsion (eq. 6-20).
 
     kb = 1.24 d^-0.107 for 2.79 <= d <= 51 mm, 1.51 d^-0.157 for 51 < d <= 254 mm.
-    Above 254 mm the 254 mm value (0.60) is used with a warning; Shigley quotes
-    0.60..0.75 for large sections, so this is the conservative end. For axial loading
+    Above 254 mm the 254 mm value (0.633) is used with a warning; Shigley quotes
+    0.60..0.75 for larger sections, so this is near the conservative end. For axial loading
     Shigley takes kb = 1 (the caller's choice; this function does not know the mode).
     For a non-rotating bar pass :func:`equivalent_diameter_nonrotating_round`.
 
@@ -311,9 +306,7 @@ def temperature_factor(temperature_C: float, method: str = "fit") -> float:
         raise ModelError(f"temperature {t!r}", expected="a finite temperature in degC")
     if method == "fit":
         if t > KD_FIT_MAX_C:
-            raise ModelError(
-                f"temperature {t:g} degC above the kd fit", expected="T <= 537.8 degC"
-            )
+            raise ModelError(f"temperature {t:g} degC above the kd fit", expected="T <= 537.8 degC")
         if t <= KD_FIT_MIN_C:
             return 1.0
         tf = 1.8 * t + 32.0
@@ -321,9 +314,7 @@ def temperature_factor(temperature_C: float, method: str = "fit") -> float:
     if method == "table":
         rows = TEMPERATURE_FACTOR_TABLE_C
         if t > rows[-1][0]:
-            raise ModelError(
-                f"temperature {t:g} degC above Table 6-4", expected="T <= 600 degC"
-            )
+            raise ModelError(f"temperature {t:g} degC above Table 6-4", expected="T <= 600 degC")
         if t <= rows[0][0]:
             return 1.0
         for (t0, k0), (t1, k1) in itertools.pairwise(rows):
@@ -436,8 +427,10 @@ def marin_endurance_limit(
     MarinFactors
     """
     sut = _positive(Sut_MPa, "Sut", "MPa")
-    se_p = endurance_limit_prime(sut) if Se_prime_MPa is None else _positive(
-        Se_prime_MPa, "Se'", "MPa"
+    se_p = (
+        endurance_limit_prime(sut)
+        if Se_prime_MPa is None
+        else _positive(Se_prime_MPa, "Se'", "MPa")
     )
     if not 0.0 < kc <= 1.0 or not 0.0 < kf_misc <= 1.0:
         raise ModelError(f"kc = {kc:g}, kf = {kf_misc:g}", expected="0 < kc, kf <= 1")
@@ -751,8 +744,11 @@ def fatigue_safety_factor(
         return se / sa
     if sa == 0.0:
         return sut / sm
-    return 0.5 * (sut / sm) ** 2 * (sa / se) * (
-        -1.0 + math.sqrt(1.0 + (2.0 * sm * se / (sut * sa)) ** 2)
+    return (
+        0.5
+        * (sut / sm) ** 2
+        * (sa / se)
+        * (-1.0 + math.sqrt(1.0 + (2.0 * sm * se / (sut * sa)) ** 2))
     )
 
 
@@ -846,9 +842,7 @@ def check_section(
     crit = _criterion(criterion)
     sy = _positive(Sy_MPa, "Sy", "MPa")
     if sy > marin.Sut_MPa:
-        raise ModelError(
-            f"Sy = {sy:g} MPa above Sut = {marin.Sut_MPa:g} MPa", expected="Sy <= Sut"
-        )
+        raise ModelError(f"Sy = {sy:g} MPa above Sut = {marin.Sut_MPa:g} MPa", expected="Sy <= Sut")
     st = section_stresses(
         loads, d_mm, Kf=notch.Kf, Kfs=notch.Kfs, Kf_axial=notch.Kf_axial, bore_mm=bore_mm
     )

@@ -79,9 +79,7 @@ BEARING_SLOPE_LIMITS: Mapping[BearingKind, SlopeLimit] = MappingProxyType(
         BearingKind.SELF_ALIGNING_BALL: SlopeLimit(0.026, 0.052, _T72),
         BearingKind.CYLINDRICAL_ROLLER: SlopeLimit(0.0008, 0.0012, _T72),
         BearingKind.TAPERED_ROLLER: SlopeLimit(0.0005, 0.0012, _T72),
-        BearingKind.SPHERICAL_ROLLER: SlopeLimit(
-            0.009, 0.026, f"typical 0.5..1.5 deg, {_CP}"
-        ),
+        BearingKind.SPHERICAL_ROLLER: SlopeLimit(0.009, 0.026, f"typical 0.5..1.5 deg, {_CP}"),
         BearingKind.NEEDLE_ROLLER: SlopeLimit(0.0003, 0.0005, _CP),
         BearingKind.THRUST_BALL: SlopeLimit(0.0003, 0.0005, _CP),
     }

@@ -214,9 +214,7 @@ def _feature(feature: Feature | str) -> Feature:
         ) from None
 
 
-def _shoulder_kt(
-    D_over_d: float, r_over_d: float, mode: LoadMode
-) -> tuple[float, tuple[str, ...]]:
+def _shoulder_kt(D_over_d: float, r_over_d: float, mode: LoadMode) -> tuple[float, tuple[str, ...]]:
     """Shoulder Kt [-] and the range notes (see :func:`shoulder_fillet_kt`)."""
     if not (math.isfinite(D_over_d) and D_over_d > 1.0):
         raise ModelError(
@@ -250,8 +248,7 @@ def _shoulder_kt(
         Dd = rows[0][0]
     elif Dd > rows[-1][0]:
         notes.append(
-            f"{mode.value} Kt: D/d = {Dd:.4g} above the highest row {rows[-1][0]}; "
-            "that row used"
+            f"{mode.value} Kt: D/d = {Dd:.4g} above the highest row {rows[-1][0]}; that row used"
         )
         Dd = rows[-1][0]
     kts = [A * rd**b for (_, A, b) in rows]

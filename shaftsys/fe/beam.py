@@ -19,7 +19,7 @@ M_phi = -M_y.
 The stiffness is the "interdependent interpolation" Timoshenko element
 (J. S. Przemieniecki, Theory of Matrix Structural Analysis, McGraw-Hill 1968, sec. 5.6;
 Z. Friedman and J. B. Kosmatka, "An improved two-node Timoshenko beam finite element",
-Computers & Structures 47 (1993) 473-481, eq. 16)::
+Computers & Structures 47 (1993) 473-481)::
 
               E I        [ 12     6L          -12    6L         ]
     k = --------------   [ 6L    (4+Phi)L^2   -6L   (2-Phi)L^2  ]
@@ -35,7 +35,7 @@ Consistent load of a uniform transverse load q [N/mm] over the element::
     f = (q L / 2,  q L^2 / 12,  q L / 2,  -q L^2 / 12)
 
 This is consistent for Phi = 0 (Hermite cubics) and also for the interdependent element:
-integrating its displacement shape functions (Friedman & Kosmatka eq. 13) over the
+integrating its displacement shape functions (Friedman & Kosmatka) over the
 element gives L/2, L^2/12, L/2, -L^2/12 for every Phi, because the Phi terms integrate
 to zero. ``tests/test_fe_beam.py`` re-derives both the stiffness and this vector with
 sympy from the Timoshenko equations.

@@ -88,8 +88,10 @@ __all__ = [
     "Support",
     "assemble_banded",
     "bar_stiffness_banded",
+    "bar_support_dofs",
     "left_right_at_nodes",
     "planar_stiffness_banded",
+    "planar_support_dofs",
     "warn_if_ill_conditioned",
 ]
 
@@ -153,6 +155,136 @@ def _stiffness_value(value: float | None, what: str, label: str) -> float:
     if math.isnan(v) or v < 0.0:
         raise ModelError(f"{label}: {what} = {value!r}", expected="a stiffness >= 0 or inf")
     return v
+
+
+def _dof_kind(dof: int) -> str:
+    return "deflection" if dof % 2 == 0 else "rotation"
+
+
+def planar_support_dofs(
+    supports: Sequence[Support | tuple[float, ...]], n_nodes: int, label: str = "planar bending"
+) -> tuple[tuple[Support, ...], NDArray[np.bool_], Array]:
+    """Validate planar supports and turn them into rigid DOFs and diagonal springs.
+
+    Parameters
+    ----------
+    supports:
+        :class:`Support` objects or tuples ``(node, k_t[, k_r])``.
+    n_nodes:
+        Number of nodes of the mesh.
+    label:
+        Names the system in error messages.
+
+    Returns
+    -------
+    supports : tuple of Support
+        Normalised (k_r None -> 0).
+    rigid : numpy.ndarray of bool
+        Shape (2 n_nodes,): DOFs held rigidly.
+    springs : numpy.ndarray
+        Shape (2 n_nodes,): spring stiffness on the diagonal [N/mm] (even DOFs),
+        [N*mm/rad] (odd DOFs).
+
+    Raises
+    ------
+    ModelError
+        Node out of range, negative or NaN stiffness, or two rigid supports holding the
+        same DOF (their reaction split would be undetermined).
+    """
+    out = []
+    for j, given in enumerate(supports):
+        if isinstance(given, Support):
+            s = given
+        else:
+            if not 1 <= len(given) <= 3:
+                raise ModelError(f"{label}: support {j} = {given!r}", expected="(node, k_t[, k_r])")
+            s = Support(*given)  # type: ignore[arg-type]
+        node = int(s.node)
+        if node != s.node or not 0 <= node < n_nodes:
+            raise ModelError(
+                f"{label}: support {j} at node {s.node!r}", expected=f"0 <= node < {n_nodes}"
+            )
+        out.append(
+            Support(
+                node,
+                _stiffness_value(s.k_t_N_mm, f"support {j} k_t [N/mm]", label),
+                _stiffness_value(s.k_r_Nmm_rad, f"support {j} k_r [N*mm/rad]", label),
+            )
+        )
+    rigid = np.zeros(2 * n_nodes, dtype=bool)
+    springs = np.zeros(2 * n_nodes)
+    owner: dict[int, int] = {}
+    for j, s in enumerate(out):
+        for dof, k in ((2 * s.node, s.k_t_N_mm), (2 * s.node + 1, s.k_r_Nmm_rad or 0.0)):
+            if math.isinf(k):
+                if rigid[dof]:
+                    raise ModelError(
+                        f"{label}: supports {owner[dof]} and {j} both rigidly hold the "
+                        f"{_dof_kind(dof)} of node {s.node}; their reaction split is undetermined",
+                        expected="one rigid support per node and direction",
+                    )
+                rigid[dof] = True
+                owner[dof] = j
+            else:
+                springs[dof] += k
+    return tuple(out), rigid, springs
+
+
+def bar_support_dofs(
+    supports: Sequence[BarSupport | tuple[float, ...]], n_nodes: int, label: str = "bar"
+) -> tuple[tuple[BarSupport, ...], NDArray[np.bool_], Array]:
+    """Validate bar supports and turn them into rigid DOFs and diagonal springs.
+
+    Parameters
+    ----------
+    supports:
+        :class:`BarSupport` objects or tuples ``(node, k)``.
+    n_nodes:
+        Number of nodes.
+    label:
+        Names the system in error messages.
+
+    Returns
+    -------
+    supports : tuple of BarSupport
+    rigid : numpy.ndarray of bool
+        Shape (n_nodes,).
+    springs : numpy.ndarray
+        Shape (n_nodes,), [N/mm] or [N*mm/rad].
+
+    Raises
+    ------
+    ModelError
+        Node out of range, bad stiffness, or two rigid supports at one node.
+    """
+    out = []
+    for j, given in enumerate(supports):
+        if isinstance(given, BarSupport):
+            s = given
+        else:
+            if not 1 <= len(given) <= 2:
+                raise ModelError(f"{label}: support {j} = {given!r}", expected="(node, k)")
+            s = BarSupport(*given)  # type: ignore[arg-type]
+        node = int(s.node)
+        if node != s.node or not 0 <= node < n_nodes:
+            raise ModelError(
+                f"{label}: support {j} at node {s.node!r}", expected=f"0 <= node < {n_nodes}"
+            )
+        out.append(BarSupport(node, _stiffness_value(s.k, f"support {j} k", label)))
+    rigid = np.zeros(n_nodes, dtype=bool)
+    springs = np.zeros(n_nodes)
+    for j, s in enumerate(out):
+        if math.isinf(s.k):
+            if rigid[s.node]:
+                raise ModelError(
+                    f"{label}: two rigid supports at node {s.node} (support {j}); "
+                    "their reaction split is undetermined",
+                    expected="one rigid support per node",
+                )
+            rigid[s.node] = True
+        else:
+            springs[s.node] += s.k
+    return tuple(out), rigid, springs
 
 
 # ----------------------------------------------------------------- banded assembly
@@ -496,29 +628,15 @@ class PlanarBending:
         self.ke = beam_stiffness(self.EI_Nmm2, self.L_mm, self.phi_shear)
         self.ab = assemble_banded(self.ke, 2)
         n = x.size
-        self.supports = self._normalise_supports(supports, n)
-        rigid = np.zeros(2 * n, dtype=bool)
-        springs = np.zeros(2 * n)
-        owner: dict[int, int] = {}
-        for j, s in enumerate(self.supports):
-            for dof, k in ((2 * s.node, s.k_t_N_mm), (2 * s.node + 1, s.k_r_Nmm_rad or 0.0)):
-                if math.isinf(k):
-                    if rigid[dof]:
-                        raise ModelError(
-                            f"{label}: supports {owner[dof]} and {j} both rigidly hold the "
-                            f"{self._dof_kind(dof)} of node {s.node}; their reaction split "
-                            "is undetermined",
-                            expected="one rigid support per node and direction",
-                        )
-                    rigid[dof] = True
-                    owner[dof] = j
-                else:
-                    springs[dof] += k
-        self.rigid = rigid
-        self.spring_diag = springs
+        self.supports, self.rigid, self.spring_diag = planar_support_dofs(supports, n, label)
         self._check_mechanism()
         self.system = _BandedSPD(
-            self.ab, rigid, springs, pivot_tol=pivot_tol, describe=self.describe_dof, label=label
+            self.ab,
+            self.rigid,
+            self.spring_diag,
+            pivot_tol=pivot_tol,
+            describe=self.describe_dof,
+            label=label,
         )
 
     @classmethod
@@ -559,41 +677,10 @@ class PlanarBending:
 
     # -- bookkeeping -------------------------------------------------------------
 
-    @staticmethod
-    def _dof_kind(dof: int) -> str:
-        return "deflection" if dof % 2 == 0 else "rotation"
-
     def describe_dof(self, dof: int) -> str:
         """Human name of a DOF, e.g. "deflection of node 3 (x = 120 mm)"."""
         node = dof // 2
-        return f"{self._dof_kind(dof)} of node {node} (x = {self.x_mm[node]:g} mm)"
-
-    def _normalise_supports(
-        self, supports: Sequence[Support | tuple[float, ...]], n: int
-    ) -> tuple[Support, ...]:
-        out = []
-        for j, given in enumerate(supports):
-            if isinstance(given, Support):
-                s = given
-            else:
-                if not 1 <= len(given) <= 3:
-                    raise ModelError(
-                        f"{self.label}: support {j} = {given!r}", expected="(node, k_t[, k_r])"
-                    )
-                s = Support(*given)  # type: ignore[arg-type]
-            node = int(s.node)
-            if node != s.node or not 0 <= node < n:
-                raise ModelError(
-                    f"{self.label}: support {j} at node {s.node!r}", expected=f"0 <= node < {n}"
-                )
-            out.append(
-                Support(
-                    node,
-                    _stiffness_value(s.k_t_N_mm, f"support {j} k_t [N/mm]", self.label),
-                    _stiffness_value(s.k_r_Nmm_rad, f"support {j} k_r [N*mm/rad]", self.label),
-                )
-            )
-        return tuple(out)
+        return f"{_dof_kind(dof)} of node {node} (x = {self.x_mm[node]:g} mm)"
 
     def _check_mechanism(self) -> None:
         """Raise NumericalError when the supports leave a rigid-body motion free."""
@@ -895,45 +982,16 @@ class Bar:
         self.ke = bar_stiffness(self.rigidity, self.L_mm)
         self.ab = assemble_banded(self.ke, 1)
         n = x.size
-        sup = []
-        for j, given in enumerate(supports):
-            if isinstance(given, BarSupport):
-                s = given
-            else:
-                if not 1 <= len(given) <= 2:
-                    raise ModelError(f"{self.label}: support {j} = {given!r}", expected="(node, k)")
-                s = BarSupport(*given)  # type: ignore[arg-type]
-            node = int(s.node)
-            if node != s.node or not 0 <= node < n:
-                raise ModelError(
-                    f"{self.label}: support {j} at node {s.node!r}", expected=f"0 <= node < {n}"
-                )
-            sup.append(BarSupport(node, _stiffness_value(s.k, f"support {j} k", self.label)))
-        self.supports = tuple(sup)
-        rigid = np.zeros(n, dtype=bool)
-        springs = np.zeros(n)
-        for j, s in enumerate(self.supports):
-            if math.isinf(s.k):
-                if rigid[s.node]:
-                    raise ModelError(
-                        f"{self.label}: two rigid supports at node {s.node} (support {j}); "
-                        "their reaction split is undetermined",
-                        expected="one rigid support per node",
-                    )
-                rigid[s.node] = True
-            else:
-                springs[s.node] += s.k
+        self.supports, self.rigid, self.spring_diag = bar_support_dofs(supports, n, self.label)
         if not any(s.k > 0.0 for s in self.supports):
             raise NumericalError(
                 f"{self.label}: the shaft is free to {_BAR_KINDS[kind][1]} as a rigid body: "
                 "no support restrains it"
             )
-        self.rigid = rigid
-        self.spring_diag = springs
         self.system = _BandedSPD(
             self.ab,
-            rigid,
-            springs,
+            self.rigid,
+            self.spring_diag,
             pivot_tol=pivot_tol,
             describe=self.describe_dof,
             label=self.label,

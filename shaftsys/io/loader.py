@@ -314,6 +314,10 @@ def _read_element(where: Where, index: int, item: Any, length: float, ids: dict[
 def _check_support(where: Where, shaft: Shaft, raw: LocatedList) -> None:
     """Refuse shafts that the bearings cannot hold."""
     bw = where.child("bearings", raw)
+
+    def at(i: int) -> Where:  # the i-th bearing's mapping, so errors name its keys
+        return bw.child(i, raw[i], label=shaft.bearings[i].id)
+
     radial = [b for b in shaft.bearings if b.kind is not BearingKind.THRUST_BALL]
     tilt = any(b.tilt_stiffness_Nmm_rad for b in radial)
     if len(radial) == 0 or (len(radial) == 1 and not tilt):
@@ -327,22 +331,25 @@ def _check_support(where: Where, shaft: Shaft, raw: LocatedList) -> None:
                           "supports at two different stations")
     for i, b in enumerate(shaft.bearings):
         if not -_TOL_MM <= b.support_x_mm <= shaft.length_mm + _TOL_MM:
-            raise bw.error(i, f"the pressure centre of bearing '{b.id}' "
-                           f"({b.support_x_mm:g} mm) lies outside the shaft",
-                           "a smaller pressure_centre_offset")
+            raise at(i).error("pressure_centre_offset",
+                              f"the pressure centre of bearing '{b.id}' "
+                              f"({b.support_x_mm:g} mm) lies outside the shaft",
+                              "a smaller pressure_centre_offset")
     both = [b for b in shaft.bearings if b.axial is AxialRole.BOTH]
     plus = [b for b in shaft.bearings if b.axial is AxialRole.PLUS_X]
     minus = [b for b in shaft.bearings if b.axial is AxialRole.MINUS_X]
     index = {b.id: i for i, b in enumerate(shaft.bearings)}
     if len(both) > 1:
-        raise bw.error(index[both[1].id], f"bearings '{both[0].id}' and '{both[1].id}' "
-                       "both locate in both directions: the shaft would be clamped "
-                       "axially", "one locating bearing (axial: both), the others float")
+        raise at(index[both[1].id]).error(
+            "axial", f"bearings '{both[0].id}' and '{both[1].id}' both locate in both "
+            "directions: the shaft would be clamped axially",
+            "one locating bearing (axial: both), the others float")
     if both and (plus or minus):
         b = (plus or minus)[0]
-        raise bw.error(index[b.id], f"bearing '{b.id}' takes thrust in one direction "
-                       f"while '{both[0].id}' already locates in both",
-                       "either one bearing with axial: both, or one +x and one -x")
+        raise at(index[b.id]).error(
+            "axial", f"bearing '{b.id}' takes thrust in one direction while "
+            f"'{both[0].id}' already locates in both",
+            "either one bearing with axial: both, or one +x and one -x")
     if not both and not (plus and minus):
         raise where.error("bearings", f"shaft '{shaft.id}' can slide axially: no bearing "
                           "takes axial load" + (" toward -x" if plus else
@@ -350,22 +357,26 @@ def _check_support(where: Where, shaft: Shaft, raw: LocatedList) -> None:
                           "one bearing with axial: both, or one with +x and one with -x")
     if len(plus) > 1 or len(minus) > 1:
         b = plus[1] if len(plus) > 1 else minus[1]
-        raise bw.error(index[b.id], "more than one bearing takes thrust in the same "
-                       "direction", "one +x and one -x bearing")
+        raise at(index[b.id]).error(
+            "axial", "more than one bearing takes thrust in the same direction",
+            "one +x and one -x bearing")
     for b in plus + minus:
         if b.pair is not None:
             partner = (minus if b in plus else plus)[0]
             if b.pair != partner.id or partner.pair != b.id:
-                raise bw.error(index[b.id], f"adjusted pair: '{b.id}' names '{b.pair}' "
-                               f"but its opposite bearing is '{partner.id}'",
-                               "two bearings naming each other with 'pair'")
+                raise at(index[b.id]).error(
+                    "pair", f"adjusted pair: '{b.id}' names '{b.pair}' but its opposite "
+                    f"bearing is '{partner.id}'", "two bearings naming each other with 'pair'")
             if b.kind not in {BearingKind.ANGULAR_CONTACT_BALL, BearingKind.TAPERED_ROLLER}:
-                raise bw.error(index[b.id], "an adjusted pair is made of single-row "
-                               "angular-contact ball or tapered roller bearings",
-                               "type angular_contact_ball or tapered_roller")
-            if b.kind is BearingKind.TAPERED_ROLLER and b.Y is None:
-                raise bw.error(index[b.id], "the induced axial force of a tapered roller "
-                               "bearing needs the maker's Y", "a key 'Y'")
+                raise at(index[b.id]).error(
+                    "type", "an adjusted pair is made of single-row angular-contact ball or "
+                    "tapered roller bearings", "type angular_contact_ball or tapered_roller")
+            if b.kind is BearingKind.TAPERED_ROLLER and not b.Y:
+                here = at(index[b.id])
+                raise ModelError("the induced axial force of a tapered roller bearing "
+                                 "needs the maker's Y", file=here.file,
+                                 line=here.line_of("Y"), field=here.field("Y"),
+                                 expected="a key 'Y' > 0")
 
 
 def _read_life(top: Where, raw: Any) -> LifeSettings:
@@ -457,8 +468,9 @@ def _read_cases(where: Where, raw: LocatedList, shafts: list[Shaft]
         total = sum(c.duration for c in duty)
         if abs(total - 1.0) > 1e-6:
             first = uses_share[0]
-            raise where.error(first, f"the duty cases' shares add up to {total:.6g}, "
-                              "not 1", "shares that sum to 1 (or use 'hours')")
+            fw = where.child(first, raw[first], label=cases[first].id)
+            raise fw.error("share", f"the duty cases' shares add up to {total:.6g}, "
+                           "not 1", "shares that sum to 1 (or use 'hours')")
     return cases, bool(uses_hours)
 
 

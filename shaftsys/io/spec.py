@@ -502,8 +502,10 @@ def read_section(where: Where, mapping: Any, fields: dict[str, Field],
         if name in mapping and mapping[name] is not None:
             out[name] = read_value(here, name, mapping[name], spec)
         elif spec.required:
-            raise here.error(None, f"'{name}' is missing ({spec.doc})",
-                             f"a key '{name}'")
+            # the key is absent: point at the mapping's line, name the missing field
+            raise ModelError(f"'{name}' is missing ({spec.doc})", file=here.file,
+                             line=here.line_of(None), field=here.field(name),
+                             expected=f"a key '{name}'")
         else:
             out[name] = spec.default
     return out

@@ -67,12 +67,14 @@ class _Walker:
         self.file = file
         self.count = 0
 
-    def error(self, node: yaml.Node, message: str, expected: str | None = None) -> ModelError:
+    def error(self, node: yaml.Node, message: str, expected: str | None = None,
+              path: str = "") -> ModelError:
         return ModelError(
-            message, file=self.file, line=node.start_mark.line + 1, expected=expected
+            message, file=self.file, line=node.start_mark.line + 1, field=path or None,
+            expected=expected,
         )
 
-    def walk(self, node: yaml.Node, depth: int = 0) -> Any:
+    def walk(self, node: yaml.Node, depth: int = 0, path: str = "") -> Any:
         self.count += 1
         if self.count > MAX_NODES:
             raise self.error(
@@ -80,31 +82,35 @@ class _Walker:
                 f"the file expands to more than {MAX_NODES} values (aliases or merge keys "
                 "repeated too often); refusing to expand it",
                 "a model without deeply nested aliases",
+                path,
             )
         if depth > MAX_DEPTH:
-            raise self.error(node, f"nesting deeper than {MAX_DEPTH} levels")
+            raise self.error(node, f"nesting deeper than {MAX_DEPTH} levels",
+                             f"at most {MAX_DEPTH} levels of nesting", path)
         if node.tag not in _SAFE_TAGS:
             raise self.error(
                 node,
                 f"YAML tag {node.tag!r} is not allowed in a model file",
                 "plain values, lists and mappings without tags",
+                path,
             )
         if isinstance(node, yaml.ScalarNode):
             value = self.loader.construct_object(node, deep=False)
             if isinstance(value, float) and not math.isfinite(value):
-                raise self.error(node, f"{node.value!r} is not a finite number")
+                raise self.error(node, f"{node.value!r} is not a finite number",
+                                 "a finite number", path)
             return value
         if isinstance(node, yaml.SequenceNode):
             out = LocatedList(node.start_mark.line + 1)
-            for item in node.value:
-                out.append(self.walk(item, depth + 1))
+            for i, item in enumerate(node.value):
+                out.append(self.walk(item, depth + 1, f"{path}[{i}]"))
                 out.lines.append(item.start_mark.line + 1)
             return out
         if isinstance(node, yaml.MappingNode):
-            return self._mapping(node, depth)
-        raise self.error(node, "unsupported YAML node")  # pragma: no cover
+            return self._mapping(node, depth, path)
+        raise self.error(node, "unsupported YAML node", path=path)  # pragma: no cover
 
-    def _mapping(self, node: yaml.MappingNode, depth: int) -> LocatedDict:
+    def _mapping(self, node: yaml.MappingNode, depth: int, path: str = "") -> LocatedDict:
         out = LocatedDict(node.start_mark.line + 1)
         merged: list[tuple[LocatedDict, yaml.Node]] = []
         for key_node, value_node in node.value:
@@ -114,19 +120,27 @@ class _Walker:
                     if isinstance(value_node, yaml.SequenceNode)
                     else [value_node]
                 )
+                merge_path = f"{path}.<<" if path else "<<"
                 for src in sources:
-                    value = self.walk(src, depth + 1)
+                    value = self.walk(src, depth + 1, merge_path)
                     if not isinstance(value, LocatedDict):
-                        raise self.error(src, "a merge key (<<) must refer to a mapping")
+                        raise self.error(src, "a merge key (<<) must refer to a mapping",
+                                         "<<: *anchor of a mapping", merge_path)
                     merged.append((value, key_node))
                 continue
             if not isinstance(key_node, yaml.ScalarNode):
-                raise self.error(key_node, "mapping keys must be plain words")
+                raise self.error(key_node, "mapping keys must be plain words",
+                                 "a plain word as key", path)
+            if key_node.tag not in _SAFE_TAGS:
+                raise self.error(key_node, f"YAML tag {key_node.tag!r} is not allowed in "
+                                 "a model file", "plain words as keys", path)
             key = self.loader.construct_object(key_node, deep=False)
             key = str(key)
+            key_path = f"{path}.{key}" if path else key
             if key in out:
-                raise self.error(key_node, f"key {key!r} appears twice in this mapping")
-            out[key] = self.walk(value_node, depth + 1)
+                raise self.error(key_node, f"key {key!r} appears twice in this mapping",
+                                 "each key once per mapping", key_path)
+            out[key] = self.walk(value_node, depth + 1, key_path)
             out.lines[key] = key_node.start_mark.line + 1
         for value, key_node in merged:  # explicit keys win over merged ones
             for k, v in value.items():

@@ -1,0 +1,322 @@
+"""Figures of a solved model: shaft drawing, internal-force diagrams, load-life chart.
+
+matplotlib is imported lazily (inside the functions) so that importing shaftsys never
+needs it. A function given an ``ax`` draws into the caller's axes and returns them;
+without one it builds a stand-alone :class:`matplotlib.figure.Figure` on the ``Agg``
+canvas (no pyplot state, no window) and returns the Figure. Nothing is shown or saved
+here; :func:`to_svg` turns a Figure into inline SVG text.
+
+Units on the axes: positions in mm (internal unit), forces in N, moments and torque in
+N*m (internal N*mm divided by 1000 for readability), deflection in micrometres
+(internal mm times 1000). Every axis label states its unit.
+"""
+
+from __future__ import annotations
+
+import io
+import itertools
+import math
+import sys
+from collections.abc import Sequence
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from shaftsys.analysis import BearingResult, CaseSolution, ShaftResult
+from shaftsys.model import Shaft
+from shaftsys.units import MEGA_REVOLUTIONS
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.figure import Figure
+
+__all__ = ["diagrams", "load_life_chart", "shaft_drawing", "to_svg"]
+
+#: Colours of the report's own palette (ink, steel, accent, muted, warm, cool).
+INK = "#1d2630"
+STEEL = "#8a97a6"
+ACCENT = "#c2571a"
+MUTED = "#5b6b7a"
+COOL = "#2a6f97"
+WARM = "#a23b72"
+
+_SVG_COUNTER = itertools.count(1)
+
+
+def _new_figure(width_in: float, height_in: float, nrows: int = 1) -> tuple[Figure, list[Axes]]:
+    """A stand-alone Figure on the Agg canvas with ``nrows`` stacked axes (no pyplot)."""
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=(width_in, height_in), layout="constrained")
+    FigureCanvasAgg(fig)
+    axes = fig.subplots(nrows, 1, sharex=True, squeeze=False)[:, 0]
+    return fig, list(axes)
+
+
+def _shaft_of(obj: ShaftResult | Shaft) -> Shaft:
+    if isinstance(obj, ShaftResult):
+        return obj.shaft
+    if isinstance(obj, Shaft):
+        return obj
+    raise ValueError(f"expected a ShaftResult or a Shaft, got {type(obj).__name__}")
+
+
+def _element_size_mm(el: Any) -> float | None:
+    """Outer size of an element to sketch [mm] (pitch/pulley diameter), or None."""
+    for name in ("diameter_mm", "pitch_diameter_mm", "mean_pitch_diameter_mm"):
+        v = getattr(el, name, None)
+        if v:
+            return float(v)
+    return None
+
+
+def shaft_drawing(shaft_result_or_shaft: ShaftResult | Shaft, ax: Axes | None = None
+                  ) -> Figure | Axes:
+    """Draw a to-scale side view of one shaft (equal aspect, x and radius in mm).
+
+    Steps are outlined rectangles of their outer diameter; a bore is a dashed
+    rectangle. Each bearing is a box spanning its rings (d to D, width B or, when B is
+    not given, 0.4*(D - d), a drawing default) with a cross inside and its id on top;
+    a small triangle under the axis marks the support point (pressure centre). Each
+    element is a diamond on the axis with its id; pulleys, gears and sprockets also
+    show their pitch diameter as a thin dotted outline.
+
+    Parameters
+    ----------
+    shaft_result_or_shaft:
+        A :class:`~shaftsys.analysis.ShaftResult` or a :class:`~shaftsys.model.Shaft`.
+    ax:
+        Axes to draw into, or ``None`` for a new Figure.
+
+    Returns
+    -------
+    The new Figure (``ax`` is None) or the given Axes.
+    """
+    from matplotlib.patches import Polygon, Rectangle
+
+    shaft = _shaft_of(shaft_result_or_shaft)
+    own = ax is None
+    fig = None
+    if ax is None:
+        fig, (ax,) = _new_figure(9.0, 3.6)
+    edges = shaft.step_edges_mm
+    r_max = max(s.d_mm for s in shaft.steps) / 2.0
+    for step, x0 in zip(shaft.steps, edges[:-1], strict=True):
+        r = step.d_mm / 2.0
+        ax.add_patch(Rectangle((x0, -r), step.length_mm, 2 * r, facecolor="#e4e8ec",
+                               edgecolor=INK, linewidth=1.0, zorder=2))
+        if step.bore_mm > 0:
+            rb = step.bore_mm / 2.0
+            ax.add_patch(Rectangle((x0, -rb), step.length_mm, 2 * rb, facecolor="white",
+                                   edgecolor=INK, linewidth=0.8, linestyle="--", zorder=3))
+    length = shaft.length_mm
+    ax.plot([-0.03 * length, 1.03 * length], [0, 0], color=MUTED, linewidth=0.6,
+            linestyle=(0, (12, 3, 2, 3)), zorder=4)
+    for b in shaft.bearings:
+        width = b.B_mm if b.B_mm else 0.4 * (b.D_mm - b.d_mm)
+        ri, ro = b.d_mm / 2.0, b.D_mm / 2.0
+        r_max = max(r_max, ro)
+        for sign in (1.0, -1.0):
+            y0 = ri if sign > 0 else -ro
+            ax.add_patch(Rectangle((b.x_mm - width / 2, y0), width, ro - ri,
+                                   facecolor="#f6e3d6", edgecolor=ACCENT, linewidth=1.2,
+                                   zorder=5))
+            ys = (ri, ro) if sign > 0 else (-ri, -ro)
+            ax.plot([b.x_mm - width / 2, b.x_mm + width / 2], ys, color=ACCENT,
+                    linewidth=0.8, zorder=6)
+            ax.plot([b.x_mm - width / 2, b.x_mm + width / 2], ys[::-1], color=ACCENT,
+                    linewidth=0.8, zorder=6)
+        xs = b.support_x_mm
+        tri = 0.08 * max(b.D_mm, 20.0)
+        ax.add_patch(Polygon([(xs, -ro), (xs - tri, -ro - 1.6 * tri), (xs + tri, -ro - 1.6 * tri)],
+                             closed=True, facecolor=ACCENT, edgecolor=ACCENT, zorder=6))
+        ax.annotate(f"{b.id}\n{b.kind.value.replace('_', ' ')}", (b.x_mm, ro),
+                    xytext=(0, 4), textcoords="offset points", ha="center", va="bottom",
+                    fontsize=7, color=ACCENT)
+    seen: dict[float, int] = {}
+    for el in shaft.elements:
+        size = _element_size_mm(el)
+        k = seen.get(el.x_mm, 0)
+        seen[el.x_mm] = k + 1
+        if size:
+            half = size / 2.0
+            r_max = max(r_max, half)
+            w = float(el.width_mm) if getattr(el, "width_mm", None) else 0.08 * size
+            ax.add_patch(Rectangle((el.x_mm - w / 2, -half), w, size, fill=False,
+                                   edgecolor=COOL, linewidth=0.8, linestyle=":", zorder=3))
+        ax.plot([el.x_mm], [0.0], marker="D", markersize=6, color=COOL, zorder=7)
+        ax.annotate(el.id, (el.x_mm, 0.0), xytext=(0, -14 - 9 * k), textcoords="offset points",
+                    ha="center", va="top", fontsize=7, color=COOL)
+    ax.set_xlim(-0.05 * length, 1.05 * length)
+    ax.set_ylim(-1.35 * r_max, 1.35 * r_max)
+    ax.set_aspect("equal", adjustable="datalim")
+    ax.set_xlabel("x along the shaft [mm]")
+    ax.set_ylabel("radius [mm]")
+    ax.set_title(f"shaft {shaft.id}: {length:g} mm, {len(shaft.steps)} steps, to scale",
+                 fontsize=9, loc="left")
+    ax.grid(True, color="#eef0f2", linewidth=0.5, zorder=0)
+    return fig if own and fig is not None else ax
+
+
+def diagrams(case_solution: CaseSolution, ax: Axes | Sequence[Axes] | None = None
+             ) -> Figure | Axes | list[Axes]:
+    """Plot shear, bending moment, torque and radial deflection of one case.
+
+    Panels (top to bottom): shear Vy, Vz [N]; bending moments My, Mz and the resultant
+    M [N*m]; torque T [N*m]; radial deflection sqrt(uy^2 + uz^2) [um]. Forces and
+    moments are drawn at ``stations_mm`` (both ends of every element, so point loads
+    show as jumps), deflection at ``node_x_mm``. Signs follow
+    :class:`~shaftsys.analysis.CaseSolution` (action of the right part on the left).
+
+    Parameters
+    ----------
+    case_solution:
+        The solution of one case on one shaft.
+    ax:
+        ``None`` (new Figure with four panels), a sequence of four Axes (one per
+        panel), or one Axes (all curves in it, each scaled to its own unit: only for
+        quick looks).
+
+    Returns
+    -------
+    The new Figure, or the given Axes (list or single).
+    """
+    cs = case_solution
+    x = np.asarray(cs.stations_mm)
+    fig = None
+    axes: list[Axes]
+    single = False
+    if ax is None:
+        fig, axes = _new_figure(9.0, 7.2, 4)
+    elif isinstance(ax, Sequence):
+        axes = list(ax)
+        if len(axes) != 4:
+            raise ValueError(f"diagrams needs 4 axes, got {len(axes)}")
+    else:
+        axes = [ax, ax, ax, ax]
+        single = True
+    a_v, a_m, a_t, a_d = axes
+    a_v.plot(x, cs.Vy_N, color=COOL, linewidth=1.1, label="Vy")
+    a_v.plot(x, cs.Vz_N, color=WARM, linewidth=1.1, label="Vz")
+    a_m.plot(x, np.asarray(cs.My_Nmm) / 1e3, color=WARM, linewidth=1.0, label="My")
+    a_m.plot(x, np.asarray(cs.Mz_Nmm) / 1e3, color=COOL, linewidth=1.0, label="Mz")
+    a_m.plot(x, cs.M_Nmm / 1e3, color=INK, linewidth=1.6, label="M resultant")
+    a_t.plot(x, np.asarray(cs.T_Nmm) / 1e3, color=ACCENT, linewidth=1.2, label="T")
+    a_d.plot(cs.node_x_mm, cs.deflection_mm * 1e3, color=INK, linewidth=1.2,
+             label="radial deflection")
+    if single:
+        a_v.set_ylabel("V [N], M and T [N*m], deflection [um]")
+        a_v.legend(fontsize=7)
+    else:
+        for a, lab in zip(axes, ("shear [N]", "bending moment [N*m]", "torque [N*m]",
+                                 "deflection [um]"), strict=True):
+            a.set_ylabel(lab, fontsize=8)
+            a.axhline(0.0, color=STEEL, linewidth=0.6)
+            a.grid(True, color="#eef0f2", linewidth=0.5)
+            a.tick_params(labelsize=7)
+            a.legend(fontsize=7, loc="best", frameon=False)
+        a_v.set_title(f"case {cs.case}: n = {cs.speed_rpm:g} rpm, "
+                      f"|T|max = {cs.torque_Nmm / 1e3:.4g} N*m", fontsize=9, loc="left")
+    a_d.set_xlabel("x along the shaft [mm]")
+    if fig is not None:
+        return fig
+    return axes[0] if single else axes
+
+
+def load_life_chart(bearing_result: BearingResult, ax: Axes | None = None) -> Figure | Axes:
+    """Log-log chart of equivalent load P [N] against basic life L [10^6 rev].
+
+    Shows the rating line L = (C/P)^p (ISO 281:2007, 6.2 / 7.2) through (1, C); one
+    point per dynamic case at (L10_i, P_design_i); the spectrum point (L10, Pm)
+    (Palmgren-Miner mean load, ISO 281:2007 / Shigley ch. 11); the modified spectrum
+    life Lnm at Pm when it differs; and the target life as a vertical line at
+    target_h*60*n_m/10^6 [10^6 rev] (n_m = the engine's mean speed).
+
+    Parameters
+    ----------
+    bearing_result:
+        A support with its life verdict (``life`` must not be None).
+    ax:
+        Axes to draw into, or ``None`` for a new Figure.
+
+    Returns
+    -------
+    The new Figure or the given Axes.
+    """
+    life = bearing_result.life
+    if life is None:
+        raise ValueError(f"bearing '{bearing_result.bearing.id}' has no life result")
+    fig = None
+    own = ax is None
+    if ax is None:
+        fig, (ax,) = _new_figure(5.6, 4.0)
+    C = bearing_result.bearing.C_N
+    p = bearing_result.bearing.kind.life_exponent
+    dyn = np.asarray(life.dynamic, dtype=bool)
+    L_case = np.asarray(life.case_L10_mrev)[dyn]
+    P_case = np.asarray(life.P_design_N)[dyn]
+    ids = [c for c, d in zip(life.case_ids, dyn, strict=True) if d]
+    target_mrev = life.target_h * 60.0 * life.n_m_rpm / MEGA_REVOLUTIONS
+    lives = [1.0, *L_case.tolist()]
+    if math.isfinite(life.L10_mrev):
+        lives.append(life.L10_mrev)
+    if math.isfinite(life.Lnm_mrev):
+        lives.append(life.Lnm_mrev)
+    if target_mrev > 0:
+        lives.append(target_mrev)
+    lo = 10 ** math.floor(math.log10(min(v for v in lives if v > 0)) - 0.5)
+    hi = 10 ** math.ceil(math.log10(max(lives)) + 0.5)
+    L_line = np.geomspace(lo, hi, 60)
+    ax.loglog(L_line, C / L_line ** (1.0 / p), color=INK, linewidth=1.4,
+              label=f"L = (C/P)^{p:.3g}, C = {C:.4g} N")
+    ax.plot([1.0], [C], marker="o", markersize=6, markerfacecolor="white",
+            markeredgecolor=INK, linestyle="none")
+    ax.annotate("(1, C)", (1.0, C), xytext=(5, 4), textcoords="offset points", fontsize=7)
+    if L_case.size:
+        ax.plot(L_case, P_case, marker="s", markersize=5, color=COOL, linestyle="none",
+                label="dynamic cases (L10_i, P_i)")
+        for L, P, cid in zip(L_case, P_case, ids, strict=True):
+            ax.annotate(cid, (L, P), xytext=(4, -10), textcoords="offset points",
+                        fontsize=7, color=COOL)
+    if math.isfinite(life.L10_mrev) and life.P_eq_N > 0:
+        ax.plot([life.L10_mrev], [life.P_eq_N], marker="*", markersize=11, color=ACCENT,
+                linestyle="none", label=f"Pm = {life.P_eq_N:.4g} N")
+        if math.isfinite(life.Lnm_mrev) and not math.isclose(life.Lnm_mrev, life.L10_mrev):
+            ax.plot([life.Lnm_mrev], [life.P_eq_N], marker="*", markersize=11,
+                    markerfacecolor="white", markeredgecolor=ACCENT, linestyle="none",
+                    label="Lnm of the spectrum at Pm")
+    if target_mrev > 0:
+        ax.axvline(target_mrev, color=WARM, linestyle="--", linewidth=1.2,
+                   label=f"target {life.target_h:.6g} h = {target_mrev:.4g} e6 rev")
+    ax.set_xlim(lo, hi)
+    ax.set_xlabel("life L [10^6 rev]")
+    ax.set_ylabel("equivalent dynamic load P [N]")
+    ax.set_title(f"bearing {bearing_result.bearing.id} "
+                 f"({bearing_result.bearing.kind.value.replace('_', ' ')})",
+                 fontsize=9, loc="left")
+    ax.grid(True, which="both", color="#eef0f2", linewidth=0.5)
+    ax.legend(fontsize=6.5, loc="lower left", frameon=False)
+    return fig if own and fig is not None else ax
+
+
+def to_svg(fig: Figure) -> str:
+    """Inline SVG text of ``fig`` (no XML prolog); the figure is closed afterwards.
+
+    Text stays text (``svg.fonttype = none``) and every figure gets its own id salt so
+    that several SVGs can share one HTML page without clashing clip-path ids.
+    """
+    import matplotlib
+
+    buf = io.StringIO()
+    salt = f"shaftsys-fig-{next(_SVG_COUNTER)}"
+    with matplotlib.rc_context({"svg.fonttype": "none", "svg.hashsalt": salt}):
+        fig.savefig(buf, format="svg")
+    pyplot = sys.modules.get("matplotlib.pyplot")
+    if pyplot is not None:
+        pyplot.close(fig)
+    text = buf.getvalue()
+    start = text.find("<svg")
+    if start < 0:
+        raise ValueError("matplotlib produced no <svg> element")
+    return text[start:]
