@@ -569,19 +569,20 @@ def equilibrium_residual(applied: list[AppliedLoad], reactions: list[AppliedLoad
     larger of the two relative to the applied loads (force / sum|F|, moment / (sum|F|*L +
     sum|M|), with L the largest lever arm).
     """
-    F = np.zeros(3)
-    M = np.zeros(3)
-    scale_f = 0.0
-    scale_m = 0.0
-    arm = max((abs(a.x_mm) for a in [*applied, *reactions]), default=1.0) or 1.0
-    for a in [*applied, *reactions]:
-        f = np.asarray(a.force_N)
-        m = np.asarray(a.moment_Nmm)
-        r = np.array([a.x_mm, 0.0, 0.0])
-        F += f
-        M += m + np.cross(r, f)
-        scale_f += float(np.linalg.norm(f))
-        scale_m += float(np.linalg.norm(m)) + float(np.linalg.norm(f)) * arm
+    items = [*applied, *reactions]
+    if not items:
+        return 0.0, 0.0, 0.0
+    f = np.array([a.force_N for a in items], dtype=float)
+    m = np.array([a.moment_Nmm for a in items], dtype=float)
+    x = np.array([a.x_mm for a in items], dtype=float)
+    arm = float(np.abs(x).max()) or 1.0
+    # moment of a force at (x, 0, 0): (x, 0, 0) x (fx, fy, fz) = (0, -x fz, x fy)
+    r_cross_f = np.column_stack([np.zeros_like(x), -x * f[:, 2], x * f[:, 1]])
+    F = f.sum(axis=0)
+    M = m.sum(axis=0) + r_cross_f.sum(axis=0)
+    norm_f = np.sqrt((f * f).sum(axis=1))
+    scale_f = float(norm_f.sum())
+    scale_m = float(np.sqrt((m * m).sum(axis=1)).sum() + norm_f.sum() * arm)
     f_res = float(np.linalg.norm(F))
     m_res = float(np.linalg.norm(M))
     rel = max(f_res / scale_f if scale_f > 0 else f_res,

@@ -7,8 +7,6 @@ values (they are used exactly, so 1e-12), 1e-6 relative for formula values.
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 import pytest
 
@@ -381,4 +379,3 @@ def test_operating_warnings_min_load_and_speed() -> None:
     w = operating_warnings(b, [250.0, 1000.0, 1.0], [1000.0, -6000.0, 9000.0], [1, 1, 0])
     assert len(w) == 2
     assert "minimum load" in w[0] and "limiting speed" in w[1]
-    assert math.isclose(b.C_N * 0.01, 300.0)

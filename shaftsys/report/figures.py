@@ -16,6 +16,7 @@ from __future__ import annotations
 import io
 import itertools
 import math
+import re
 import sys
 from collections.abc import Sequence
 from typing import TYPE_CHECKING, Any
@@ -41,6 +42,7 @@ COOL = "#2a6f97"
 WARM = "#a23b72"
 
 _SVG_COUNTER = itertools.count(1)
+_METADATA = re.compile(r"<metadata>.*?</metadata>\s*", re.DOTALL)
 
 
 def _new_figure(width_in: float, height_in: float, nrows: int = 1) -> tuple[Figure, list[Axes]]:
@@ -150,7 +152,7 @@ def shaft_drawing(shaft_result_or_shaft: ShaftResult | Shaft, ax: Axes | None = 
                     ha="center", va="top", fontsize=7, color=COOL)
     ax.set_xlim(-0.05 * length, 1.05 * length)
     ax.set_ylim(-1.35 * r_max, 1.35 * r_max)
-    ax.set_aspect("equal", adjustable="datalim")
+    ax.set_aspect("equal", adjustable="box")
     ax.set_xlabel("x along the shaft [mm]")
     ax.set_ylabel("radius [mm]")
     ax.set_title(f"shaft {shaft.id}: {length:g} mm, {len(shaft.steps)} steps, to scale",
@@ -315,7 +317,7 @@ def to_svg(fig: Figure) -> str:
     pyplot = sys.modules.get("matplotlib.pyplot")
     if pyplot is not None:
         pyplot.close(fig)
-    text = buf.getvalue()
+    text = _METADATA.sub("", buf.getvalue())
     start = text.find("<svg")
     if start < 0:
         raise ValueError("matplotlib produced no <svg> element")

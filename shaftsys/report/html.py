@@ -1,0 +1,398 @@
+"""One self-contained HTML report of a solved model (inline CSS and SVG, no scripts).
+
+The page holds: provenance (model file, its SHA-256, tool version, date); the inputs
+that decide the verdicts; a machine summary; per shaft a to-scale drawing; per case
+the applied loads and the internal-force diagrams; the support verdicts with a
+"reserve gauge" per support; per bearing the load-life chart and calculation sheet;
+warnings; assumptions and cautions. Every piece of user text passes through
+``html.escape``. No network resource is referenced, so the file can be archived with
+the model and opened offline; ``@media print`` lays it out for A4.
+
+Units as everywhere in shaftsys (N, mm, N*mm, rpm, h, mm^2/s, degC), stated in each
+column head.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import html
+import math
+import os
+from collections.abc import Iterable, Sequence
+
+from shaftsys import __version__
+from shaftsys.analysis import BearingResult, Result
+from shaftsys.life_check import worst_case
+from shaftsys.model import Case, CaseKind
+from shaftsys.report import figures
+from shaftsys.report.calcsheet import explain_bearing_html, format_value
+
+__all__ = ["SECTION_TITLES", "render_report"]
+
+#: Section headings of the report, in order (tests and readers look for them).
+SECTION_TITLES = (
+    "Provenance",
+    "Inputs that decide the verdicts",
+    "Machine summary",
+    "Shafts to scale",
+    "Operating cases",
+    "Support verdicts",
+    "Bearing details",
+    "Warnings",
+    "Assumptions and cautions",
+)
+
+#: Range of the reserve gauge: log10(Lnm/target) from -1 to +2 (0.1x to 100x target).
+_GAUGE_LOG_MIN = -1.0
+_GAUGE_LOG_MAX = 2.0
+
+_CSS = """
+:root { --ink:#1d2630; --muted:#5b6b7a; --line:#cfd6dd; --paper:#fbfaf7; --ok:#2f7d5b;
+        --bad:#b23a1e; --accent:#c2571a; --band:#eef1f4; }
+* { box-sizing: border-box; }
+body { margin: 0; background: var(--paper); color: var(--ink);
+       font: 14px/1.45 "Segoe UI", "Helvetica Neue", Arial, sans-serif; }
+main { max-width: 1040px; margin: 0 auto; padding: 24px 28px 60px; }
+header.top { border-left: 8px solid var(--accent); padding: 6px 0 6px 16px; margin-bottom: 18px; }
+header.top h1 { margin: 0; font-size: 24px; letter-spacing: .01em; }
+header.top .sub { color: var(--muted); font-size: 13px; }
+.stamp { display: inline-block; padding: 2px 10px; border-radius: 3px; font-weight: 700;
+         letter-spacing: .08em; color: #fff; }
+.stamp.ok { background: var(--ok); } .stamp.bad { background: var(--bad); }
+section { margin-top: 28px; }
+h2 { font-size: 17px; border-bottom: 2px solid var(--ink); padding-bottom: 3px;
+     margin: 0 0 10px; text-transform: uppercase; letter-spacing: .06em; }
+h3 { font-size: 15px; margin: 18px 0 6px; }
+dl.kv { display: grid; grid-template-columns: max-content 1fr; gap: 2px 16px; margin: 0; }
+dl.kv dt { color: var(--muted); } dl.kv dd { margin: 0; font-family: ui-monospace, Consolas,
+     monospace; word-break: break-all; }
+table { border-collapse: collapse; width: 100%; margin: 6px 0 10px; font-size: 12.5px; }
+th, td { padding: 3px 7px; border-bottom: 1px solid var(--line); text-align: right;
+         vertical-align: top; }
+th { background: var(--band); font-weight: 600; }
+th:first-child, td:first-child, td.t, th.t { text-align: left; }
+td.num { font-variant-numeric: tabular-nums; }
+figure { margin: 8px 0 14px; break-inside: avoid; page-break-inside: avoid; }
+figure svg { max-width: 100%; height: auto; display: block; }
+figcaption { color: var(--muted); font-size: 12px; }
+.gauge { position: relative; height: 14px; min-width: 180px; background:
+         linear-gradient(90deg, #f3dcd3 0 33.33%, #e3efe7 33.33% 100%); border-radius: 2px; }
+.gauge .fill { position: absolute; left: 0; top: 3px; height: 8px; }
+.gauge .fill.ok { background: var(--ok); } .gauge .fill.bad { background: var(--bad); }
+.gauge .tgt { position: absolute; left: 33.33%; top: -2px; width: 2px; height: 18px;
+              background: var(--ink); }
+.verdict { font-weight: 700; letter-spacing: .06em; }
+.verdict.ok { color: var(--ok); } .verdict.bad { color: var(--bad); }
+pre.calcsheet { background: #fff; border: 1px solid var(--line); padding: 10px 12px;
+                font: 11.5px/1.4 ui-monospace, Consolas, "DejaVu Sans Mono", monospace;
+                white-space: pre-wrap; overflow-wrap: anywhere; }
+.bearing { border-top: 1px dashed var(--line); padding-top: 6px; }
+ul.warn li { margin: 2px 0; }
+.note { color: var(--muted); font-size: 12.5px; }
+@page { size: A4; margin: 14mm 12mm; }
+@media print {
+  body { background: #fff; font-size: 10.5pt; }
+  main { max-width: none; padding: 0; }
+  section { break-before: auto; }
+  h2, h3 { break-after: avoid; page-break-after: avoid; }
+  table, figure, pre.calcsheet { break-inside: avoid; }
+  .bearing { break-before: page; }
+  .gauge, .stamp, th { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
+}
+"""
+
+_CAUTIONS = (
+    "Adjusted pairs of angular-contact or tapered bearings are computed with zero "
+    "operating clearance and no preload; real clearance or preload changes the load "
+    "sharing and the lives.",
+    "Defaults without a published source (for example the required static safety "
+    "s0_min per bearing type, the induced-force factor of tapered bearings, minimum-load "
+    "warnings) are common practice; they are named as such where used.",
+    "Gyroscopic effects, shaft whirl and dynamic amplification are not modelled; "
+    "loads are quasi-static per case.",
+    "Bearing ratings and factors (C, C0, Cu, e, X, Y, Y0) come from the bearing "
+    "maker's current data for the bearing actually bought; values estimated here "
+    "(Cu, f0) are flagged as estimates.",
+    "These results support but do not replace engineering judgement. The maker's "
+    "recommendations, local codes and standards, and licensed engineering practice "
+    "govern; check every result that matters against an independent calculation.",
+)
+
+
+def _e(text: object) -> str:
+    return html.escape(str(text), quote=True)
+
+
+def _n(value: float | None, digits: int = 4) -> str:
+    return _e(format_value(value, digits))
+
+
+def _table(headers: Sequence[str], rows: Iterable[Sequence[str]], text_cols: int = 1) -> str:
+    """An HTML table; ``headers`` are escaped, cells must already be HTML."""
+    head = "".join(f'<th{" class=t" if i < text_cols else ""}>{_e(h)}</th>'
+                   for i, h in enumerate(headers))
+    body = "".join(
+        "<tr>" + "".join(f'<td class="{"t" if i < text_cols else "num"}">{c}</td>'
+                         for i, c in enumerate(r)) + "</tr>"
+        for r in rows)
+    return f"<table><thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>"
+
+
+def _figure(fig: object, caption: str) -> str:
+    svg = figures.to_svg(fig)  # type: ignore[arg-type]
+    return f"<figure>{svg}<figcaption>{_e(caption)}</figcaption></figure>"
+
+
+def _gauge(ratio: float, ok: bool) -> str:
+    """A bar whose length is log10(ratio) on [-1, 2]; the dark tick is the target."""
+    if not math.isfinite(ratio) or ratio <= 0:
+        frac = 1.0 if (math.isinf(ratio) and ratio > 0) else 0.0
+    else:
+        lg = math.log10(ratio)
+        frac = (min(max(lg, _GAUGE_LOG_MIN), _GAUGE_LOG_MAX) - _GAUGE_LOG_MIN) / (
+            _GAUGE_LOG_MAX - _GAUGE_LOG_MIN)
+    cls = "ok" if ok else "bad"
+    return (f'<div class="gauge" title="Lnm/target = {_n(ratio)}">'
+            f'<div class="fill {cls}" style="width:{100 * frac:.1f}%"></div>'
+            f'<div class="tgt"></div></div>')
+
+
+def _verdict(ok: bool) -> str:
+    return f'<span class="verdict {"ok" if ok else "bad"}">{"PASS" if ok else "FAIL"}</span>'
+
+
+def _provenance(result: Result, date: str) -> str:
+    m = result.model
+    fname = os.path.basename(m.source) if m.source else "(built in Python, no file)"
+    items = [("model", m.name), ("model file", fname),
+             ("model file SHA-256", m.sha256 or "(none)"),
+             ("shaftsys version", __version__), ("report date", date)]
+    dl = "".join(f"<dt>{_e(k)}</dt><dd>{_e(v)}</dd>" for k, v in items)
+    return f'<section id="provenance"><h2>{SECTION_TITLES[0]}</h2><dl class="kv">{dl}</dl></section>'
+
+
+def _inputs(result: Result) -> str:
+    m = result.model
+    life = m.life
+    basis = sorted({b.life.life_basis for b in result.bearings if b.life is not None})
+    settings = [
+        ("default target life [h]", format_value(life.target_life_h)),
+        ("target reliability [-]", format_value(life.target_reliability)),
+        ("reliability method", life.reliability_method),
+        ("application factor af [-]", format_value(life.application_factor)),
+        ("minimum speed for fatigue [rpm]", format_value(life.min_speed_rpm)),
+        ("required s0 (model-wide)", format_value(life.s0_min) if life.s0_min is not None
+         else "per type, common practice"),
+        ("use modified life", "yes" if life.use_modified_life else "no"),
+        ("life basis of the verdicts", ", ".join(basis) or "-"),
+    ]
+    lub = m.lubrication
+    if lub is None:
+        settings.append(("lubrication", "not given (verdict on a1*L10)"))
+    else:
+        settings += [
+            ("lubricant viscosity [mm^2/s]",
+             f"{format_value(lub.nu1_at_t1_mm2_s)} at {format_value(lub.t1_C)} degC, "
+             f"{format_value(lub.nu2_at_t2_mm2_s)} at {format_value(lub.t2_C)} degC"),
+            ("lubrication method", lub.method),
+            ("contamination ec", format_value(lub.ec) if lub.ec is not None
+             else f"from cleanliness {lub.cleanliness or '-'}"),
+            ("EP additives", "yes" if lub.ep_additives else "no"),
+        ]
+    dl = "".join(f"<dt>{_e(k)}</dt><dd>{_e(v)}</dd>" for k, v in settings)
+    rows = []
+    for b in result.bearings:
+        br = b.bearing
+        cu = ("-" if b.life is None or b.life.Cu_N is None else
+              format_value(b.life.Cu_N, 4) + (" (estimate)" if b.life.Cu_estimated else ""))
+        factors = ", ".join(f"{k}={format_value(getattr(br, k))}"
+                            for k in ("e", "X", "Y", "Y1", "Y2", "Y0", "contact_angle_deg",
+                                      "f0") if getattr(br, k) is not None) or "standard"
+        target = b.life.target_h if b.life is not None else br.target_life_h
+        rows.append([_e(br.id), _e(b.shaft_id), _e(br.kind.value.replace("_", " ")),
+                     _e(br.axial.value + (f", pair {br.pair}" if br.pair else "")),
+                     _n(br.x_mm), _n(br.d_mm), _n(br.D_mm), _n(br.C_N, 6), _n(br.C0_N, 6),
+                     _e(cu), _e(factors), _n(target, 6),
+                     _n(b.life.reliability if b.life is not None else None),
+                     _n(b.life.s0_min if b.life is not None else br.s0_min)])
+    table = _table(["bearing", "shaft", "type", "axial", "x mm", "d mm", "D mm", "C N",
+                    "C0 N", "Cu N", "factors", "target h", "R", "s0 min"], rows, 4)
+    return (f'<section id="inputs"><h2>{SECTION_TITLES[1]}</h2><dl class="kv">{dl}</dl>'
+            f"<h3>Bearing ratings and targets (maker's data as entered)</h3>{table}</section>")
+
+
+def _case_drive_text(case: Case) -> str:
+    parts = []
+    for sid, d in case.drives.items():
+        s = f"{sid}: {format_value(d.speed_rpm)} rpm"
+        if d.input_element:
+            s += (f", in at {d.input_element} T = {format_value(d.input_torque_Nmm / 1e3, 5)}"
+                  " N*m")
+        parts.append(s)
+    return "; ".join(parts) or "-"
+
+
+def _summary(result: Result) -> str:
+    m = result.model
+    srows = []
+    for s in result.shafts:
+        sh = s.shaft
+        srows.append([_e(sh.id), _n(sh.length_mm, 6), _e(sh.material.name),
+                      _e(len(sh.steps)), _e(", ".join(b.id for b in sh.bearings)),
+                      _e(", ".join(e.id for e in sh.elements)), _n(s.system_life_h, 5),
+                      _e(s.limiting_bearing or "-")])
+    shares = m.shares()
+    crows = []
+    for c in m.cases:
+        crows.append([_e(c.id), _e(c.kind.value), _n(shares[c.id]), _n(c.duration),
+                      _n(c.temperature_C), _e(_case_drive_text(c))])
+    unit = "h" if m.duration_in_hours else "share"
+    sys_line = (f"System life of the machine: {format_value(result.system_life_h, 5)} h at "
+                f"the target reliability, limited by {result.limiting_bearing or '-'}.")
+    return (f'<section id="summary"><h2>{SECTION_TITLES[2]}</h2>'
+            + _table(["shaft", "length mm", "material", "steps", "bearings", "elements",
+                      "system life h", "limiting"], srows, 6)
+            + _table(["case", "kind", "time share", f"duration ({unit})", "T degC",
+                      "speed and input per shaft"], crows, 2)
+            + f'<p class="note">{_e(sys_line)}</p></section>')
+
+
+def _shafts(result: Result) -> str:
+    parts = [f'<section id="shafts"><h2>{SECTION_TITLES[3]}</h2>']
+    for s in result.shafts:
+        parts.append(f"<h3>Shaft {_e(s.shaft.id)}</h3>")
+        parts.append(_figure(figures.shaft_drawing(s),
+                             f"Shaft {s.shaft.id}: steps, bearings (boxes, support point "
+                             "triangle) and elements (diamonds), to scale, mm."))
+    parts.append("</section>")
+    return "".join(parts)
+
+
+def _cases(result: Result) -> str:
+    parts = [f'<section id="cases"><h2>{SECTION_TITLES[4]}</h2>']
+    for case in result.model.cases:
+        parts.append(f'<h3 id="case-{_e(case.id)}">Case {_e(case.id)} '
+                     f'<span class="note">({_e(case.kind.value)})</span></h3>')
+        for s in result.shafts:
+            cs = s.case(case.id)
+            rows = [[_e(a.source), _n(a.x_mm, 6), *(_n(v, 5) for v in a.force_N),
+                     *(_n(v / 1e3, 5) for v in a.moment_Nmm)] for a in cs.applied]
+            parts.append(f"<p class=note>Shaft {_e(s.shaft.id)}: loads applied to the shaft "
+                         "axis (shaft frame; bearing reactions and shaft weight not listed)."
+                         "</p>")
+            parts.append(_table(["source", "x mm", "Fx N", "Fy N", "Fz N", "Mx N*m",
+                                 "My N*m", "Mz N*m"], rows))
+            parts.append(_figure(figures.diagrams(cs),
+                                 f"Shaft {s.shaft.id}, case {case.id}: shear, bending "
+                                 "moment, torque and radial deflection."))
+            if cs.warnings:
+                parts.append("<ul class=warn>" + "".join(f"<li>{_e(w)}</li>"
+                                                         for w in cs.warnings) + "</ul>")
+    parts.append("</section>")
+    return "".join(parts)
+
+
+def _verdicts(result: Result) -> str:
+    rows = []
+    for b in result.bearings:
+        life = b.life
+        if life is None:
+            continue
+        ratio = life.Lnm_h / life.target_h if life.target_h > 0 else math.inf
+        rows.append([
+            f'<a href="#bearing-{_e(b.bearing.id)}">{_e(b.shaft_id)}/{_e(b.bearing.id)}</a>',
+            _e(worst_case(b) or "-"), _n(life.P_eq_N, 5), _n(life.Lnm_h, 5),
+            _n(life.target_h, 6), _n(life.C_required_N, 5), _n(life.margin, 3),
+            _n(life.s0, 3) + " / " + _n(life.s0_min, 3),
+            _gauge(ratio, life.life_ok), _verdict(b.ok)])
+    table = _table(["support", "worst case", "Pm N", "Lnm h", "target h", "C req N",
+                    "C/C req", "s0 / min", "life reserve", "verdict"], rows, 2)
+    legend = ("Life reserve gauge: bar length is log10(Lnm/target) from 0.1x (left edge) "
+              "to 100x (right edge); the dark tick is the target (1x). Pink zone = short "
+              "of the target.")
+    stamp_ok = result.ok
+    head = (f'<p><span class="stamp {"ok" if stamp_ok else "bad"}">'
+            f'{"ALL SUPPORTS PASS" if stamp_ok else "TARGET MISSED"}</span></p>')
+    return (f'<section id="verdicts"><h2>{SECTION_TITLES[5]}</h2>{head}{table}'
+            f'<p class="note">{_e(legend)}</p></section>')
+
+
+def _bearing_loads_table(b: BearingResult) -> str:
+    rows = [[_e(ld.case), _n(ld.speed_rpm, 5), _n(ld.Fy_N, 5), _n(ld.Fz_N, 5),
+             _n(ld.Fx_N, 5), _n(ld.Fr_N, 5), _n(ld.Fa_N, 5)] for ld in b.loads]
+    return _table(["case", "n rpm", "Fy N", "Fz N", "Fx N", "Fr N", "Fa N"], rows)
+
+
+def _bearings(result: Result) -> str:
+    parts = [f'<section id="bearings"><h2>{SECTION_TITLES[6]}</h2>']
+    for b in result.bearings:
+        parts.append(f'<div class="bearing" id="bearing-{_e(b.bearing.id)}">'
+                     f"<h3>Bearing {_e(b.bearing.id)} on {_e(b.shaft_id)} "
+                     f"{_verdict(b.ok)}</h3>")
+        parts.append(_bearing_loads_table(b))
+        if b.life is not None:
+            parts.append(_figure(figures.load_life_chart(b),
+                                 f"Bearing {b.bearing.id}: load against basic life, rating "
+                                 "line through (1, C), duty cases, Pm and the target."))
+            parts.append(explain_bearing_html(result, b.bearing.id))
+        parts.append("</div>")
+    parts.append("</section>")
+    return "".join(parts)
+
+
+def _warnings(result: Result) -> str:
+    items = list(result.warnings)
+    for b in result.bearings:
+        if b.life is not None:
+            items.extend(b.life.warnings)
+    for s in result.shafts:
+        for c in s.cases:
+            items.extend(c.warnings)
+    items = list(dict.fromkeys(items))
+    body = ("<ul class=warn>" + "".join(f"<li>{_e(w)}</li>" for w in items) + "</ul>"
+            if items else "<p>No warnings.</p>")
+    return f'<section id="warnings"><h2>{SECTION_TITLES[7]}</h2>{body}</section>'
+
+
+def _cautions() -> str:
+    lis = "".join(f"<li>{_e(c)}</li>" for c in _CAUTIONS)
+    return f'<section id="cautions"><h2>{SECTION_TITLES[8]}</h2><ul>{lis}</ul></section>'
+
+
+def render_report(result: Result, date: str | None = None) -> str:
+    """Render the whole report of ``result`` as one self-contained HTML document.
+
+    Parameters
+    ----------
+    result:
+        A solved result with life verdicts (``shaftsys.analyse(model)``).
+    date:
+        Date text for the header; ``None`` = today's date (UTC, ISO 8601). Pass a fixed
+        value for byte-reproducible reports.
+
+    Returns
+    -------
+    str
+        The HTML text (UTF-8 when written). Forces in N, lengths in mm, moments in N*m
+        in the tables, lives in h.
+    """
+    if date is None:
+        date = _dt.datetime.now(_dt.UTC).date().isoformat()
+    m = result.model
+    title = f"shaftsys report - {m.name}"
+    stamp = "PASS" if result.ok else "FAIL"
+    n_duty = sum(1 for c in m.cases if c.kind is CaseKind.DUTY)
+    sub = (f"{len(result.shafts)} shaft(s), {len(result.bearings)} support(s), "
+           f"{len(m.cases)} case(s) ({n_duty} in the duty cycle)")
+    body = "".join([
+        f'<header class="top"><h1>{_e(m.name)}</h1><div class="sub">{_e(sub)} - '
+        f'bearing and shaft check by shaftsys {_e(__version__)} - '
+        f'<span class="stamp {"ok" if result.ok else "bad"}">{stamp}</span></div></header>',
+        _provenance(result, date), _inputs(result), _summary(result), _shafts(result),
+        _cases(result), _verdicts(result), _bearings(result), _warnings(result),
+        _cautions(),
+    ])
+    return ("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"
+            f"<title>{_e(title)}</title>"
+            '<meta name="viewport" content="width=device-width, initial-scale=1">'
+            f"<style>{_CSS}</style></head><body><main>{body}</main></body></html>\n")
