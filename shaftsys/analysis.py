@@ -395,6 +395,15 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
         fx[node] += a.force_N[0]
         mx[node] += a.moment_Nmm[0]
     fx += bending.axial_weight_nodal
+    net_torque = float(mx.sum())
+    torque_scale = float(np.abs(mx).sum())
+    if abs(net_torque) > model.solver.residual_tolerance * max(torque_scale, 1.0):
+        raise ModelError(
+            f"the torques on shaft '{shaft.id}' do not balance (net {net_torque:.6g} N*mm "
+            "about +x): nothing holds the shaft against turning",
+            file=model.source, line=case.line, field=f"cases[{case.id}]",
+            expected="torque entering through 'input' and leaving through 'outputs'; "
+            "process moments about x balanced by the drive")
     # --- bending reactions (force the support puts on the shaft), per bearing
     radial: dict[str, tuple[float, float, float, float]] = {}
     for b in shaft.bearings:

@@ -13,9 +13,10 @@ import logging
 import sys
 from collections.abc import Sequence
 from pathlib import Path
+from typing import Any
 
 from shaftsys import __version__
-from shaftsys.errors import EXIT_OK, EXIT_TARGET_MISSED, ShaftsysError
+from shaftsys.errors import EXIT_OK, EXIT_TARGET_MISSED, ModelError, ShaftsysError
 
 EXIT_CODES_TEXT = """exit codes:
   0  every check passes
@@ -30,6 +31,14 @@ CHECK_EXAMPLE = """example:
 
 VALIDATE_EXAMPLE = """example:
   shaftsys validate models/fan_drive.yaml"""
+
+REPORT_EXAMPLE = """example:
+  shaftsys report models/fan_drive.yaml -o fan_report.html"""
+
+PLOT_EXAMPLE = """examples:
+  shaftsys plot models/fan_drive.yaml --what drawing -o shaft.svg
+  shaftsys plot models/fan_drive.yaml --what diagrams --case full_flow -o full_flow.png
+  shaftsys plot models/fan_drive.yaml --what life --bearing A -o A_life.png"""
 
 SCHEMA_EXAMPLE = """example:
   shaftsys schema -o model.schema.json"""
@@ -57,6 +66,34 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("--quiet", "-q", action="store_true", help="print nothing but errors")
     c.add_argument("--loads-only", action="store_true",
                    help="print only the reaction table")
+    c.add_argument("--explain", metavar="BEARING",
+                   help="print the calculation sheet of one bearing, formula by formula")
+
+    r = sub.add_parser(
+        "report", help="write a self-contained HTML report for review and sign-off",
+        description="Solve a model and write one HTML file (figures inline, no network "
+        "access needed) with inputs, diagrams, verdicts and calculation sheets.",
+        epilog=REPORT_EXAMPLE + "\n\n" + EXIT_CODES_TEXT,
+        formatter_class=argparse.RawDescriptionHelpFormatter)
+    r.add_argument("model", help="model file (YAML)")
+    r.add_argument("-o", "--output", metavar="PATH", default="report.html",
+                   help="HTML file to write (default: report.html)")
+    r.add_argument("--quiet", "-q", action="store_true", help="print nothing but errors")
+
+    pl = sub.add_parser(
+        "plot", help="write a figure (PNG or SVG, by the file's suffix)",
+        description="Solve a model and write one figure: the to-scale shaft drawing, the "
+        "diagrams of one case, or the load-life chart of one bearing.",
+        epilog=PLOT_EXAMPLE + "\n\n" + EXIT_CODES_TEXT,
+        formatter_class=argparse.RawDescriptionHelpFormatter)
+    pl.add_argument("model", help="model file (YAML)")
+    pl.add_argument("--what", choices=("drawing", "diagrams", "life"), required=True,
+                    help="which figure")
+    pl.add_argument("--shaft", metavar="ID", help="shaft id (default: the first)")
+    pl.add_argument("--case", metavar="ID", help="case id for diagrams (default: the first)")
+    pl.add_argument("--bearing", metavar="ID", help="bearing id for the load-life chart")
+    pl.add_argument("-o", "--output", metavar="PATH", required=True,
+                    help="figure file, .png or .svg")
 
     v = sub.add_parser(
         "validate", help="read and check a model file without solving it",
@@ -91,6 +128,10 @@ def main(argv: Sequence[str] | None = None) -> int:
             return _validate(args)
         if args.command == "schema":
             return _schema(args)
+        if args.command == "report":
+            return _report(args)
+        if args.command == "plot":
+            return _plot(args)
     except ShaftsysError as exc:
         print(f"shaftsys: error: {exc}", file=sys.stderr)
         return exc.exit_code
@@ -147,7 +188,66 @@ def _check(args: argparse.Namespace) -> int:
             print(f"warning: {w}", file=sys.stderr)
     if to_stdout_json:
         sys.stdout.write(json.dumps(json_ready(data), indent=2) + "\n")
+    if args.explain:
+        from shaftsys.report.calcsheet import explain_bearing
+
+        if args.explain not in {b.bearing.id for b in result.bearings}:
+            raise ModelError(f"no bearing '{args.explain}' in the model",
+                             field="--explain", expected="one of: " + ", ".join(
+                                 b.bearing.id for b in result.bearings))
+        print(explain_bearing(result, args.explain), file=out)
     return EXIT_OK if result.ok else EXIT_TARGET_MISSED
+
+
+def _report(args: argparse.Namespace) -> int:
+    from shaftsys.analysis import analyse
+    from shaftsys.io.loader import load_model
+    from shaftsys.io.output import write_text
+    from shaftsys.report.html import render_report
+
+    model = load_model(args.model)
+    result = analyse(model)
+    write_text(args.output, render_report(result))
+    if not args.quiet:
+        print(f"wrote {args.output}: "
+              + ("all supports pass" if result.ok else "a target is missed"))
+    return EXIT_OK if result.ok else EXIT_TARGET_MISSED
+
+
+def _plot(args: argparse.Namespace) -> int:
+    from shaftsys.analysis import analyse
+    from shaftsys.io.loader import load_model
+    from shaftsys.io.output import atomic_write
+    from shaftsys.report import figures
+
+    suffix = Path(args.output).suffix.lower().lstrip(".")
+    if suffix not in {"png", "svg"}:
+        raise ModelError(f"cannot write a figure as '.{suffix}'", field="--output",
+                         expected="a file name ending in .png or .svg")
+    model = load_model(args.model)
+    result = analyse(model)
+    shaft = _pick(result.shafts, args.shaft, lambda s: s.shaft.id, "--shaft")
+    if args.what == "drawing":
+        fig = figures.shaft_drawing(shaft)
+    elif args.what == "diagrams":
+        case = _pick(shaft.cases, args.case, lambda c: c.case, "--case")
+        fig = figures.diagrams(case)
+    else:
+        bearing = _pick(result.bearings, args.bearing, lambda b: b.bearing.id, "--bearing")
+        fig = figures.load_life_chart(bearing)
+    atomic_write(args.output, lambda fh: fig.savefig(fh, format=suffix))  # type: ignore[union-attr]
+    return EXIT_OK if result.ok else EXIT_TARGET_MISSED
+
+
+def _pick(items: Sequence[Any], wanted: str | None, key: Any, option: str) -> Any:
+    """The item whose key is ``wanted`` (the first when ``None``), else a ModelError."""
+    if wanted is None:
+        return items[0]
+    for item in items:
+        if key(item) == wanted:
+            return item
+    raise ModelError(f"no '{wanted}' in the model", field=option,
+                     expected="one of: " + ", ".join(str(key(i)) for i in items))
 
 
 def _all_warnings(result: object) -> list[str]:

@@ -147,13 +147,20 @@ def random_models(draw: st.DrawFn) -> tuple[Model, dict[str, float]]:
     steps = [Step(length_mm=float(draw(st.integers(20, 200))),
                   d_mm=draw(st.floats(10.0, 100.0))) for _ in range(n_steps)]
     length = sum(s.length_mm for s in steps)
-    n_bearings = draw(st.integers(2, 4))
-    stations = sorted(draw(st.lists(st.floats(0.0, length), min_size=n_bearings,
-                                    max_size=n_bearings, unique=True)))
-    # keep supports at least 5 mm apart (closer pairs are a tilt-stiff support)
-    stations = [s for i, s in enumerate(stations) if i == 0 or s - stations[i - 1] >= 5.0]
-    if len(stations) < 2:
-        stations = [0.0, length]
+    # Stations lie on a 1 mm grid, and the outer supports span at least 40 % of the
+    # shaft with supports at least 10 mm apart: ordinary shafts. Stations micrometres
+    # apart or supports a few mm apart under an overhang make the stiffness so badly
+    # conditioned that the nodal residual exceeds 1e-9 by round-off alone (reported).
+    station = st.integers(0, int(length)).map(float)
+    first = float(draw(st.integers(0, int(0.3 * length))))
+    last = float(draw(st.integers(math.ceil(0.7 * length), int(length))))
+    inner = draw(st.lists(st.integers(int(first) + 10, int(last) - 10).map(float),
+                          max_size=2, unique=True))
+    stations = [first]
+    for x in sorted(inner):
+        if x - stations[-1] >= 10.0 and last - x >= 10.0:
+            stations.append(x)
+    stations.append(last)
     locating = draw(st.integers(0, len(stations) - 1))
     bearings = []
     for i, x in enumerate(stations):
@@ -165,12 +172,19 @@ def random_models(draw: st.DrawFn) -> tuple[Model, dict[str, float]]:
     moment = st.floats(-2e5, 2e5)
     elements: list[Element] = []
     n_loads = draw(st.integers(1, 4))
+    # Bending moments are free; a torque about x must be balanced on the shaft (no
+    # bearing takes torque), so torques come as an equal and opposite pair T1/T2.
     for j in range(n_loads):
         elements.append(ProcessLoad(
-            id=f"L{j}", x_mm=draw(st.floats(0.0, length)),
+            id=f"L{j}", x_mm=draw(station),
             force_N=(draw(force), draw(force), draw(force)),
-            moment_Nmm=(draw(moment), draw(moment), draw(moment))))
-    masses = draw(st.lists(st.tuples(st.floats(0.0, length), st.floats(0.1, 50.0)),
+            moment_Nmm=(0.0, draw(moment), draw(moment))))
+    torque = draw(moment)
+    elements.append(ProcessLoad(id="T1", x_mm=draw(station),
+                                moment_Nmm=(torque, 0.0, 0.0)))
+    elements.append(ProcessLoad(id="T2", x_mm=draw(station),
+                                moment_Nmm=(-torque, 0.0, 0.0)))
+    masses = draw(st.lists(st.tuples(station, st.floats(0.1, 50.0)),
                            max_size=2))
     for j, (x, m) in enumerate(masses):
         elements.append(LumpedMass(id=f"m{j}", x_mm=x, mass_kg=m))
@@ -178,7 +192,7 @@ def random_models(draw: st.DrawFn) -> tuple[Model, dict[str, float]]:
                draw(st.floats(-20.0, 20.0)))
     # case 1 uses the loads as defined, case 2 overrides the first load
     override = ElementLoad("L0", force_N=(draw(force), draw(force), draw(force)),
-                           moment_Nmm=(draw(moment), draw(moment), draw(moment)))
+                           moment_Nmm=(0.0, draw(moment), draw(moment)))
     cases = [_case("c1", share=0.5), _case("c2", speed=-300.0, loads=(override,),
                                              share=0.5)]
     shaft = _shaft(bearings, elements, steps)
@@ -193,7 +207,7 @@ def random_models(draw: st.DrawFn) -> tuple[Model, dict[str, float]]:
     return model, {"c1": fx_loads + gx, "c2": fx_c2 + gx}
 
 
-@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@settings(max_examples=int(__import__("os").environ.get("NEX", 60)), deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(random_models())
 def test_random_shafts_are_in_equilibrium(data: tuple[Model, dict[str, float]]) -> None:
     model, axial_sum = data

@@ -16,7 +16,7 @@ from shaftsys.fe.beam import (
 from shaftsys.fe.modal import bar_mass, beam_mass
 
 
-def _timoshenko_element_sympy(EI: sp.Expr, kGA: sp.Expr, L: sp.Expr):  # noqa: ANN202
+def _timoshenko_element_sympy(EI: sp.Expr, kGA: sp.Expr, L: sp.Expr):
     """Derive the exact two-node Timoshenko element with sympy (sympy 1.14).
 
     Method of Friedman & Kosmatka (Computers & Structures 47, 1993): take the general
@@ -32,9 +32,10 @@ def _timoshenko_element_sympy(EI: sp.Expr, kGA: sp.Expr, L: sp.Expr):  # noqa: A
     b0, b1, b2 = sp.symbols("b0:3")
     u = a0 + a1 * x + a2 * x**2 + a3 * x**3
     psi = b0 + b1 * x + b2 * x**2
-    eqs = sp.Poly(sp.diff(u, x, 2) - sp.diff(psi, x), x).coeffs() + sp.Poly(
-        EI * sp.diff(psi, x, 2) + kGA * (sp.diff(u, x) - psi), x
-    ).coeffs()
+    eqs = (
+        sp.Poly(sp.diff(u, x, 2) - sp.diff(psi, x), x).coeffs()
+        + sp.Poly(EI * sp.diff(psi, x, 2) + kGA * (sp.diff(u, x) - psi), x).coeffs()
+    )
     sol_b = sp.solve(eqs, [b0, b1, b2], dict=True)[0]
     u_ = u
     psi_ = psi.subs(sol_b)
@@ -64,40 +65,47 @@ EI_N, KGA_N, L_N = 3_000_000_000, 2_500_000, 60
 
 
 @pytest.fixture(scope="module")
-def sympy_element():  # noqa: ANN201
+def sympy_element():
     return _timoshenko_element_sympy(sp.Integer(EI_N), sp.Integer(KGA_N), sp.Integer(L_N))
 
 
-def test_timoshenko_stiffness_matches_sympy_derivation(sympy_element) -> None:  # noqa: ANN001
+def test_timoshenko_stiffness_matches_sympy_derivation(sympy_element) -> None:
     K_ref = np.array(sympy_element[0].evalf(), dtype=float)
     phi = shear_parameter(EI_N, KGA_N, L_N)
     assert phi == pytest.approx(4.0, rel=1e-15)
     np.testing.assert_allclose(beam_stiffness(EI_N, L_N, phi), K_ref, rtol=1e-12, atol=0)
 
 
-def test_uniform_load_is_consistent_for_timoshenko_element(sympy_element) -> None:  # noqa: ANN001
+def test_uniform_load_is_consistent_for_timoshenko_element(sympy_element) -> None:
     # Work-equivalent load of q over the interdependent element = q * integral of N_u.
     f_ref = np.array([float(v) for v in sympy_element[1]])
     np.testing.assert_allclose(uniform_load(1.0, L_N), f_ref, rtol=1e-13)
     # ... and the textbook EB values qL/2, qL^2/12 (Przemieniecki 1968, sec. 5.6; any FE
     # text; from memory).
-    np.testing.assert_allclose(uniform_load(2.5, 80.0), [100.0, 1333.3333333333333, 100.0,
-                                                         -1333.3333333333333], rtol=1e-14)
+    np.testing.assert_allclose(
+        uniform_load(2.5, 80.0), [100.0, 1333.3333333333333, 100.0, -1333.3333333333333], rtol=1e-14
+    )
 
 
-def test_timoshenko_consistent_mass_matches_sympy(sympy_element) -> None:  # noqa: ANN001
+def test_timoshenko_consistent_mass_matches_sympy(sympy_element) -> None:
     _, _, Nu, Np, x = sympy_element
     rhoA, rhoI = sp.Rational(7, 3), sp.Rational(11, 5)
     M_ref = np.array(
-        [[float(sp.integrate(rhoA * Nu[i] * Nu[j] + rhoI * Np[i] * Np[j], (x, 0, L_N)))
-          for j in range(4)] for i in range(4)]
+        [
+            [
+                float(sp.integrate(rhoA * Nu[i] * Nu[j] + rhoI * Np[i] * Np[j], (x, 0, L_N)))
+                for j in range(4)
+            ]
+            for i in range(4)
+        ]
     )
     phi = shear_parameter(EI_N, KGA_N, L_N)
     np.testing.assert_allclose(beam_mass(7 / 3, L_N, phi, 11 / 5), M_ref, rtol=1e-12, atol=0)
 
 
 def test_euler_bernoulli_stiffness_textbook() -> None:
-    # Euler-Bernoulli beam element (Przemieniecki 1968, ch. 5, or any FE text; from memory): EI/L^3 [12 6L -12 6L; 6L 4L^2 -6L 2L^2; ...]
+    # Euler-Bernoulli beam element (Przemieniecki 1968, ch. 5, or any FE text; from memory):
+    # EI/L^3 [12 6L -12 6L; 6L 4L^2 -6L 2L^2; ...]
     EI, L = 2.0e9, 50.0
     c = EI / L**3
     K_ref = c * np.array(
@@ -118,21 +126,30 @@ def test_euler_bernoulli_consistent_mass_textbook() -> None:
     # rho I / (30 L) [36 3L -36 3L; 3L 4L^2 -3L -L^2; ...] (Przemieniecki 1968, ch. 11;
     # from memory).
     rA, rI, L = 3.0e-9, 4.0e-7, 25.0
-    Mt = rA * L / 420 * np.array(
-        [
-            [156, 22 * L, 54, -13 * L],
-            [22 * L, 4 * L**2, 13 * L, -3 * L**2],
-            [54, 13 * L, 156, -22 * L],
-            [-13 * L, -3 * L**2, -22 * L, 4 * L**2],
-        ]
+    Mt = (
+        rA
+        * L
+        / 420
+        * np.array(
+            [
+                [156, 22 * L, 54, -13 * L],
+                [22 * L, 4 * L**2, 13 * L, -3 * L**2],
+                [54, 13 * L, 156, -22 * L],
+                [-13 * L, -3 * L**2, -22 * L, 4 * L**2],
+            ]
+        )
     )
-    Mr = rI / (30 * L) * np.array(
-        [
-            [36, 3 * L, -36, 3 * L],
-            [3 * L, 4 * L**2, -3 * L, -(L**2)],
-            [-36, -3 * L, 36, -3 * L],
-            [3 * L, -(L**2), -3 * L, 4 * L**2],
-        ]
+    Mr = (
+        rI
+        / (30 * L)
+        * np.array(
+            [
+                [36, 3 * L, -36, 3 * L],
+                [3 * L, 4 * L**2, -3 * L, -(L**2)],
+                [-36, -3 * L, 36, -3 * L],
+                [3 * L, -(L**2), -3 * L, 4 * L**2],
+            ]
+        )
     )
     np.testing.assert_allclose(beam_mass(rA, L), Mt, rtol=1e-13, atol=1e-25)
     np.testing.assert_allclose(beam_mass(rA, L, 0.0, rI), Mt + Mr, rtol=1e-13, atol=1e-25)

@@ -258,7 +258,7 @@ def test_three_supports_uniform_shaft_against_sympy() -> None:
         assert u[2 * node, 0] == pytest.approx(float(defl.subs(x_sym, xp)), rel=1e-6)
 
 
-def _pynite_stepped_reactions(edges, diams, supports_x, loads):  # noqa: ANN001, ANN202
+def _pynite_stepped_reactions(edges, diams, supports_x, loads):
     """Solve the same stepped shaft with PyNiteFEA 3.2 (Euler-Bernoulli 3D frame)."""
     from Pynite import FEModel3D
 
@@ -324,8 +324,9 @@ def test_many_right_hand_sides_and_residual() -> None:
     q = rng.normal(size=(mesh.n_elements, 5))
     u = pb.solve(F, q)
     for j in range(5):
-        np.testing.assert_allclose(pb.solve(F[:, j], q[:, j])[:, 0], u[:, j], rtol=1e-12,
-                                   atol=1e-15)
+        np.testing.assert_allclose(
+            pb.solve(F[:, j], q[:, j])[:, 0], u[:, j], rtol=1e-12, atol=1e-15
+        )
     assert np.all(pb.residual(u, F, q) < 1e-10)
     # Global statics (independent of the solver): reactions balance the applied loads.
     R = pb.reactions(u, F, q)
@@ -357,7 +358,7 @@ def test_missing_translational_restraint_raises() -> None:
 
 def test_vanishing_spring_is_caught_numerically() -> None:
     mesh, _ = _uniform(500.0, [], 50.0)
-    with pytest.raises(NumericalError, match="mechanism|singular"):
+    with pytest.raises(NumericalError, match=r"mechanism|singular"):
         PlanarBending.from_mesh(mesh, [Support(0, INF, 1e-30)])
 
 
@@ -373,8 +374,7 @@ def test_bad_supports_raise_model_error() -> None:
 
 def test_condition_estimate_and_warning(caplog: pytest.LogCaptureFixture) -> None:
     mesh, (n0, n1) = _uniform(800.0, [0.0, 800.0], 40.0)
-    pb = PlanarBending.from_mesh(mesh, [Support(n0), Support(n1, 3e4)], shear=False,
-                                 label="demo")
+    pb = PlanarBending.from_mesh(mesh, [Support(n0), Support(n1, 3e4)], shear=False, label="demo")
     # Exact 1-norm condition of the same scaled matrix (rigid rows replaced by identity).
     K = pb.stiffness_matrix(include_springs=True)
     K[pb.rigid, :] = 0.0

@@ -56,10 +56,10 @@ def test_cowper_hollow_general_formula() -> None:
 def test_vectorised_matches_scalar() -> None:
     do = np.array([20.0, 50.0, 80.0])
     di = np.array([0.0, 10.0, 60.0])
-    A, I, J, k = circular_section_arrays(do, di, 0.3)
+    A, I2, J, k = circular_section_arrays(do, di, 0.3)
     for i in range(3):
         s = circular_section(float(do[i]), float(di[i]), 0.3)
-        assert (A[i], I[i], J[i], k[i]) == pytest.approx((s.A_mm2, s.I_mm4, s.J_mm4, s.k_shear))
+        assert (A[i], I2[i], J[i], k[i]) == pytest.approx((s.A_mm2, s.I_mm4, s.J_mm4, s.k_shear))
 
 
 @pytest.mark.parametrize(

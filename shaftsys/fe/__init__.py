@@ -3,6 +3,12 @@
 Units follow :mod:`shaftsys.units`: N, mm, N*mm, MPa, kg/m^3 (converted where used).
 """
 
+from shaftsys.fe.batch import (
+    BatchSolution,
+    cholesky_banded_batch,
+    solve_banded_batch,
+    solve_planar_batch,
+)
 from shaftsys.fe.beam import (
     bar_stiffness,
     bar_uniform_load,
@@ -38,6 +44,7 @@ from shaftsys.fe.solve import (
     assemble_banded,
     bar_stiffness_banded,
     bar_support_dofs,
+    check_planar_mechanism,
     left_right_at_nodes,
     planar_stiffness_banded,
     planar_support_dofs,
@@ -53,6 +60,7 @@ __all__ = [
     "KG_TO_T",
     "Bar",
     "BarSupport",
+    "BatchSolution",
     "BeamMesh",
     "InternalForces",
     "Modes",
@@ -70,6 +78,8 @@ __all__ = [
     "beam_stiffness",
     "bending_modes",
     "build_mesh",
+    "check_planar_mechanism",
+    "cholesky_banded_batch",
     "circular_section",
     "circular_section_arrays",
     "cowper_shear_coefficient",
@@ -77,6 +87,8 @@ __all__ = [
     "planar_stiffness_banded",
     "planar_support_dofs",
     "shear_parameter",
+    "solve_banded_batch",
+    "solve_planar_batch",
     "torsion_modes",
     "uniform_load",
     "warn_if_ill_conditioned",

@@ -22,6 +22,12 @@ are polynomials of degree 6 at most). With Phi = 0 the translational part is the
 classical rho A L / 420 [156, 22L, 54, -13L; ...] matrix and the rotary part
 rho I / (30 L) [36, 3L, -36, 3L; ...]. Rotary inertia is off by default.
 
+Convergence: Euler-Bernoulli frequencies converge like h^4 (h = element length). With
+``shear=True`` they converge only like h^2: the element's shear strain is constant per
+element (exact for nodal loads, hence exact statics), while the inertia load makes the
+shear force vary along it. About 20 elements per half-wave keep the error near 1e-4 for
+a stubby shaft (L/d = 5).
+
 Gyroscopic coupling and the speed dependence of bearing stiffness are not modelled:
 "rpm" is simply 60 f, the critical speed of the non-rotating shaft.
 """

@@ -89,6 +89,7 @@ __all__ = [
     "assemble_banded",
     "bar_stiffness_banded",
     "bar_support_dofs",
+    "check_planar_mechanism",
     "left_right_at_nodes",
     "planar_stiffness_banded",
     "planar_support_dofs",
@@ -285,6 +286,50 @@ def bar_support_dofs(
         else:
             springs[s.node] += s.k
     return tuple(out), rigid, springs
+
+
+def check_planar_mechanism(
+    supports: Sequence[Support], x_mm: ArrayLike, label: str = "planar bending"
+) -> None:
+    """Raise when the supports leave a rigid-body motion of the whole shaft free.
+
+    The beam elements connect every node with positive stiffness, so the only possible
+    mechanisms are the two rigid-body motions (translation, rotation) in the plane.
+
+    Parameters
+    ----------
+    supports:
+        Normalised supports (see :func:`planar_support_dofs`).
+    x_mm:
+        Node positions [mm] (to name the pivot point in the message).
+    label:
+        Names the system in the message.
+
+    Raises
+    ------
+    NumericalError
+        Naming the free direction: "translate and rotate", "translate (deflect)", or
+        "rotate ... about the single support at x = ... mm".
+    """
+    t_nodes = sorted({s.node for s in supports if s.k_t_N_mm > 0.0})
+    has_rot = any((s.k_r_Nmm_rad or 0.0) > 0.0 for s in supports)
+    if not t_nodes and not has_rot:
+        raise NumericalError(
+            f"{label}: the shaft is free to translate and rotate as a rigid body "
+            "(no support restrains the deflection or the rotation); add supports"
+        )
+    if not t_nodes:
+        raise NumericalError(
+            f"{label}: the shaft is free to translate (deflect) as a rigid body: "
+            "no support carries a transverse force"
+        )
+    if len(t_nodes) == 1 and not has_rot:
+        x0 = float(np.asarray(x_mm, dtype=float)[t_nodes[0]])
+        raise NumericalError(
+            f"{label}: the shaft is free to rotate as a rigid body about the single "
+            f"support at x = {x0:g} mm (node {t_nodes[0]}): add a second support or a "
+            "rotational (moment) stiffness"
+        )
 
 
 # ----------------------------------------------------------------- banded assembly
@@ -629,7 +674,7 @@ class PlanarBending:
         self.ab = assemble_banded(self.ke, 2)
         n = x.size
         self.supports, self.rigid, self.spring_diag = planar_support_dofs(supports, n, label)
-        self._check_mechanism()
+        check_planar_mechanism(self.supports, x, label)
         self.system = _BandedSPD(
             self.ab,
             self.rigid,
@@ -681,28 +726,6 @@ class PlanarBending:
         """Human name of a DOF, e.g. "deflection of node 3 (x = 120 mm)"."""
         node = dof // 2
         return f"{_dof_kind(dof)} of node {node} (x = {self.x_mm[node]:g} mm)"
-
-    def _check_mechanism(self) -> None:
-        """Raise NumericalError when the supports leave a rigid-body motion free."""
-        t_nodes = sorted({s.node for s in self.supports if s.k_t_N_mm > 0.0})
-        has_rot = any((s.k_r_Nmm_rad or 0.0) > 0.0 for s in self.supports)
-        if not t_nodes and not has_rot:
-            raise NumericalError(
-                f"{self.label}: the shaft is free to translate and rotate as a rigid body "
-                "(no support restrains the deflection or the rotation); add supports"
-            )
-        if not t_nodes:
-            raise NumericalError(
-                f"{self.label}: the shaft is free to translate (deflect) as a rigid body: "
-                "no support carries a transverse force"
-            )
-        if len(t_nodes) == 1 and not has_rot:
-            x0 = self.x_mm[t_nodes[0]]
-            raise NumericalError(
-                f"{self.label}: the shaft is free to rotate as a rigid body about the single "
-                f"support at x = {x0:g} mm (node {t_nodes[0]}): add a second support or a "
-                "rotational (moment) stiffness"
-            )
 
     @property
     def n_nodes(self) -> int:

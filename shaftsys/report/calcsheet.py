@@ -54,7 +54,8 @@ def _axial_rule(br: BearingResult) -> list[str]:
     b = br.bearing
     if b.pair is not None:
         return [
-            f"adjusted pair with bearing '{b.pair}' (this one stops motion toward {b.axial.value}).",
+            f"adjusted pair with bearing '{b.pair}' (this one stops motion toward "
+            f"{b.axial.value}).",
             "Induced axial force Fi: tapered roller 0.5*Fr/Y (common practice); angular-",
             "contact ball 1.32*Fr*tan(alpha) (Harris, Rolling Bearing Analysis, from memory).",
             "With P the +x and N the -x bearing, Ka the external thrust on the shaft:",
@@ -120,7 +121,6 @@ def explain_bearing(result: Result, bearing_id: str) -> str:
     b = br.bearing
     model = result.model
     cases = {c.id: c for c in model.cases}
-    p = b.kind.life_exponent
     p_txt = "(10/3)" if b.kind.is_roller else "3"
     out: list[str] = []
     add = out.append
@@ -137,8 +137,8 @@ def explain_bearing(result: Result, bearing_id: str) -> str:
                                                        "contact_angle_deg", "f0")
                if getattr(b, n) is not None]
     add("maker's factors: " + (", ".join(factors) if factors else "none given (standard values)"))
-    add(f"life exponent p = {p_txt.strip('()')} ({'roller' if b.kind.is_roller else 'ball'} bearing; "
-        "ISO 281:2007, 6.3 / 7.3)")
+    family = "roller" if b.kind.is_roller else "ball"
+    add(f"life exponent p = {p_txt.strip('()')} ({family} bearing; ISO 281:2007, 6.3 / 7.3)")
     add(f"application factor af = {_f(life.application_factor)} (P_design = af*P)")
 
     add("")
@@ -181,7 +181,7 @@ def explain_bearing(result: Result, bearing_id: str) -> str:
 
     if dyn_idx:
         add("")
-        add(f"5. Basic rating life per case L10_i = (C/P_i)^p [10^6 rev]   "
+        add("5. Basic rating life per case L10_i = (C/P_i)^p [10^6 rev]   "
             "[ISO 281:2007, 6.3 / 7.3]")
         add("   L10h_i = L10_i*10^6/(60*|n_i|) [h]")
         for k in dyn_idx:
@@ -201,7 +201,7 @@ def explain_bearing(result: Result, bearing_id: str) -> str:
             cid = life.case_ids[k]
             add(f"   U[{cid}] = {_f(abs(loads[cid].speed_rpm))}*{_f(cases[cid].duration)}"
                 f" / sum_dyn = {_f(life.weights[k])}")
-        add(f"   Pm = (sum U_i*P_i^p)^(1/p) = ("
+        add("   Pm = (sum U_i*P_i^p)^(1/p) = ("
             + " + ".join(f"{_f(life.weights[k])}*{_f(life.P_design_N[k])}^{p_txt}"
                          for k in dyn_idx)
             + f")^(1/{p_txt}) = {_f(life.P_eq_N)} N")

@@ -19,7 +19,7 @@ import math
 import re
 import sys
 from collections.abc import Sequence
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, overload
 
 import numpy as np
 
@@ -73,6 +73,10 @@ def _element_size_mm(el: Any) -> float | None:
     return None
 
 
+@overload
+def shaft_drawing(shaft_result_or_shaft: ShaftResult | Shaft, ax: None = None) -> Figure: ...
+@overload
+def shaft_drawing(shaft_result_or_shaft: ShaftResult | Shaft, ax: Axes) -> Axes: ...
 def shaft_drawing(shaft_result_or_shaft: ShaftResult | Shaft, ax: Axes | None = None
                   ) -> Figure | Axes:
     """Draw a to-scale side view of one shaft (equal aspect, x and radius in mm).
@@ -144,7 +148,8 @@ def shaft_drawing(shaft_result_or_shaft: ShaftResult | Shaft, ax: Axes | None = 
         if size:
             half = size / 2.0
             r_max = max(r_max, half)
-            w = float(el.width_mm) if getattr(el, "width_mm", None) else 0.08 * size
+            width_mm = getattr(el, "width_mm", None)
+            w = float(width_mm) if width_mm else 0.08 * size
             ax.add_patch(Rectangle((el.x_mm - w / 2, -half), w, size, fill=False,
                                    edgecolor=COOL, linewidth=0.8, linestyle=":", zorder=3))
         ax.plot([el.x_mm], [0.0], marker="D", markersize=6, color=COOL, zorder=7)
@@ -161,6 +166,12 @@ def shaft_drawing(shaft_result_or_shaft: ShaftResult | Shaft, ax: Axes | None = 
     return fig if own and fig is not None else ax
 
 
+@overload
+def diagrams(case_solution: CaseSolution, ax: None = None) -> Figure: ...
+@overload
+def diagrams(case_solution: CaseSolution, ax: Axes) -> Axes: ...
+@overload
+def diagrams(case_solution: CaseSolution, ax: Sequence[Axes]) -> list[Axes]: ...
 def diagrams(case_solution: CaseSolution, ax: Axes | Sequence[Axes] | None = None
              ) -> Figure | Axes | list[Axes]:
     """Plot shear, bending moment, torque and radial deflection of one case.
@@ -226,6 +237,10 @@ def diagrams(case_solution: CaseSolution, ax: Axes | Sequence[Axes] | None = Non
     return axes[0] if single else axes
 
 
+@overload
+def load_life_chart(bearing_result: BearingResult, ax: None = None) -> Figure: ...
+@overload
+def load_life_chart(bearing_result: BearingResult, ax: Axes) -> Axes: ...
 def load_life_chart(bearing_result: BearingResult, ax: Axes | None = None) -> Figure | Axes:
     """Log-log chart of equivalent load P [N] against basic life L [10^6 rev].
 

@@ -168,7 +168,8 @@ def _provenance(result: Result, date: str) -> str:
              ("model file SHA-256", m.sha256 or "(none)"),
              ("shaftsys version", __version__), ("report date", date)]
     dl = "".join(f"<dt>{_e(k)}</dt><dd>{_e(v)}</dd>" for k, v in items)
-    return f'<section id="provenance"><h2>{SECTION_TITLES[0]}</h2><dl class="kv">{dl}</dl></section>'
+    return (f'<section id="provenance"><h2>{SECTION_TITLES[0]}</h2>'
+            f'<dl class="kv">{dl}</dl></section>')
 
 
 def _inputs(result: Result) -> str:

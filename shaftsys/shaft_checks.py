@@ -1,0 +1,768 @@
+"""Shaft checks on a solved model: slopes and deflections, critical speeds, fatigue.
+
+``check_shafts(result) -> ShaftChecks`` reads a solved :class:`~shaftsys.analysis.Result`
+and never changes it. Units follow :mod:`shaftsys.units`: mm, rad (slopes), rpm, MPa,
+N*mm, N, degC.
+
+1. **Slopes and deflections** at every bearing (support node) and every gear
+   (:class:`~shaftsys.model.Gear`, :class:`~shaftsys.model.BevelGear`) in every case,
+   from ``CaseSolution.displacement``: deflection = hypot(uy, uz) [mm], slope =
+   hypot(ry, rz) [rad], absolute (bearing springs included). Bearings: the upper end
+   of the typical range of :func:`~shaftsys.checks.bearing_slope_limit` (above it the
+   slope is "exceeded"; between the low and high end "marginal", a note), or the
+   per-bearing limit of :attr:`ShaftCheckSettings.bearing_slope_limits_rad`. Gears:
+   slope 0.0005 rad and deflection :func:`~shaftsys.checks.gear_deflection_limit_mm`
+   of the normal module (Shigley Table 7-2, from memory), or 0.13 mm when no module is
+   known (common practice, no source). Every case counts (duty, peak and static).
+2. **Critical speeds** per shaft: the lowest non-zero planar bending frequency of the
+   non-rotating shaft (:func:`shaftsys.fe.modal.bending_modes`: consistent mass rho*A of
+   the steps, lumped element masses and diametral inertias at their nodes, bearing
+   radial and tilt stiffness, rigid = eliminated; thrust ball bearings give no radial
+   support; Timoshenko or Euler-Bernoulli as ``model.solver.shear_deformation``) and
+   the first non-zero torsional frequency of the free-free shaft with the elements'
+   polar inertias (:func:`shaftsys.fe.modal.torsion_modes`; the rigid-body mode is
+   skipped). Gyroscopic effects and speed-dependent bearing stiffness are left out.
+   Verdict (common practice, no source): the first bending critical must exceed
+   ``margin`` x the largest |speed| of the duty and peak cases (subcritical), or lie
+   below that speed / ``margin`` (supercritical: accepted with a warning note).
+3. **Fatigue and first-cycle yield** at every section of interest (Shigley ch. 7 via
+   :mod:`shaftsys.checks`):
+
+   * every step edge with a diameter change (``shoulder``): d = smaller, D = larger
+     diameter; the fillet radius is the ``fillet_mm`` of the step that *starts* at the
+     edge (the field's meaning in the model and the model-file format: "fillet radius at
+     the shoulder where the step starts"); if that step gives none, the sharp-shoulder
+     r = 0.02 d of Shigley Table 7-1 (from memory) is assumed and noted;
+   * a step with a keyway: an end-milled (``profile``) or sled-runner keyseat at every
+     element seat on the step (at the step's worst station if no element sits there);
+   * a step with a retaining-ring groove: at the step's worst station (the groove's
+     position is not in the model; worst = largest M^2 + 0.75 T^2 over the cases);
+   * every hub seat of an element (gear, bevel gear, pulley, sprocket, coupling, lumped
+     mass): a press fit (Kf applied directly), at the hub edge (x +- width/2, kept on
+     the step) with the larger bending moment, or at the element's station when its
+     width is not given.
+
+   The shaft rotates: the resultant bending moment M at the section is taken as fully
+   reversed (amplitude M; loads turning with the shaft, such as unbalance, are counted
+   as alternating too, which is conservative); torque and axial force are mean unless
+   they change sign between cases (:func:`~shaftsys.checks.classify_section_loads`,
+   rule ``"reversal"``). The classification runs over the duty and peak cases together
+   (an envelope; ``fatigue_cases="duty"`` leaves peak cases out). First-cycle yield is
+   Sy over the largest peak von Mises stress of any single case (duty, peak, static)
+   and of the fatigue classification. Marin factors: the section step's surface finish,
+   the model's target reliability, the highest given temperature of the cases used (20
+   degC when none is given). Fatigue is skipped with a note when the material has no Su
+   or Sy.
+"""
+
+from __future__ import annotations
+
+import logging
+import math
+from collections.abc import Mapping
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+from numpy.typing import NDArray
+
+from shaftsys.analysis import CaseSolution, Result, ShaftResult, mesh_shaft
+from shaftsys.checks import (
+    SPUR_GEAR_SLOPE_LIMIT_RAD,
+    FatigueCriterion,
+    Feature,
+    LoadClasses,
+    SectionCaseLoads,
+    SlopeLimit,
+    bearing_slope_limit,
+    check_section,
+    classify_section_loads,
+    gear_deflection_limit_mm,
+    marin_endurance_limit,
+    notch_factors,
+    section_stresses,
+    slope_status,
+    yield_safety_factor,
+)
+from shaftsys.fe.modal import bending_modes, torsion_modes
+from shaftsys.fe.solve import Support
+from shaftsys.model import (
+    BearingKind,
+    BevelGear,
+    Case,
+    CaseKind,
+    Coupling,
+    Gear,
+    LumpedMass,
+    Model,
+    Pulley,
+    Shaft,
+    Sprocket,
+)
+
+log = logging.getLogger(__name__)
+
+_CP = "common practice, no source"
+#: Gear deflection limit when no module is known [mm] (common practice, no source).
+DEFAULT_GEAR_DEFLECTION_LIMIT_MM = 0.13
+#: Sharp-shoulder fillet r/d assumed when no fillet is given (Shigley Table 7-1, from memory).
+SHARP_FILLET_R_OVER_D = 0.02
+#: Critical speed margin (common practice, no source).
+DEFAULT_CRITICAL_SPEED_MARGIN = 1.25
+#: Required safety factors (common practice, no source).
+DEFAULT_REQUIRED_FATIGUE_SAFETY = 1.5
+DEFAULT_REQUIRED_YIELD_SAFETY = 1.2
+#: Temperature used for kd when no case gives one [degC].
+ROOM_TEMPERATURE_C = 20.0
+#: Stations closer than this are the same section [mm].
+_STATION_TOL_MM = 1e-6
+
+_SURFACE = {"forged": "as_forged"}
+_KEYWAY = {"profile": Feature.KEYSEAT_END_MILL, "sled_runner": Feature.KEYSEAT_SLED_RUNNER}
+_SEAT_TYPES = (Gear, BevelGear, Pulley, Sprocket, Coupling, LumpedMass)
+_FATIGUE_CASES = ("duty_and_peak", "duty")
+
+
+# ----------------------------------------------------------------------------- settings
+@dataclass(frozen=True)
+class ShaftCheckSettings:
+    """Options of :func:`check_shafts`.
+
+    Attributes
+    ----------
+    bearing_slope_limits_rad: bearing id -> allowable slope [rad], replacing the
+        common-practice range of its type.
+    gear_slope_limit_rad: allowable slope at a gear [rad] (Shigley Table 7-2, uncrowned
+        spur gears, from memory).
+    default_gear_deflection_limit_mm: allowable gear deflection when no module is given
+        [mm] (common practice, no source).
+    critical_speed_margin: first critical >= margin x max speed (or <= max speed / margin)
+        [-] (common practice, no source).
+    criterion: ``"goodman"`` (DE-Goodman) or ``"asme_elliptic"`` (DE-ASME elliptic).
+    fluctuation_rule: ``"reversal"`` or ``"range"`` (see ``classify_section_loads``).
+    fatigue_cases: ``"duty_and_peak"`` (default) or ``"duty"``: cases classified for fatigue.
+    required_fatigue_safety, required_yield_safety: required safety factors [-]
+        (common practice, no source).
+    rotary_inertia: include the shaft's distributed rotary inertia rho*I in the bending modes.
+    max_element_mm: element length for the modal mesh [mm] (``None`` = the model's solver
+        setting).
+    """
+
+    bearing_slope_limits_rad: Mapping[str, float] = field(default_factory=dict)
+    gear_slope_limit_rad: float = SPUR_GEAR_SLOPE_LIMIT_RAD
+    default_gear_deflection_limit_mm: float = DEFAULT_GEAR_DEFLECTION_LIMIT_MM
+    critical_speed_margin: float = DEFAULT_CRITICAL_SPEED_MARGIN
+    criterion: str = "goodman"
+    fluctuation_rule: str = "reversal"
+    fatigue_cases: str = "duty_and_peak"
+    required_fatigue_safety: float = DEFAULT_REQUIRED_FATIGUE_SAFETY
+    required_yield_safety: float = DEFAULT_REQUIRED_YIELD_SAFETY
+    rotary_inertia: bool = False
+    max_element_mm: float | None = None
+
+    def __post_init__(self) -> None:
+        if self.criterion not in (FatigueCriterion.GOODMAN, FatigueCriterion.ASME_ELLIPTIC):
+            raise ValueError(f"unknown fatigue criterion {self.criterion!r}; "
+                             "expected 'goodman' or 'asme_elliptic'")
+        if self.fatigue_cases not in _FATIGUE_CASES:
+            raise ValueError(f"unknown fatigue_cases {self.fatigue_cases!r}; "
+                             f"expected one of {_FATIGUE_CASES}")
+        if not self.critical_speed_margin >= 1.0:
+            raise ValueError(f"critical_speed_margin = {self.critical_speed_margin!r}; "
+                             "expected >= 1")
+        for name in ("gear_slope_limit_rad", "default_gear_deflection_limit_mm",
+                     "required_fatigue_safety", "required_yield_safety"):
+            v = getattr(self, name)
+            if not (math.isfinite(v) and v > 0.0):
+                raise ValueError(f"{name} = {v!r}; expected a positive number")
+        for bid, v in self.bearing_slope_limits_rad.items():
+            if not (math.isfinite(v) and v > 0.0):
+                raise ValueError(f"slope limit of bearing {bid!r} = {v!r}; expected > 0 rad")
+
+
+# ----------------------------------------------------------------------------- results
+@dataclass(frozen=True)
+class CaseDeflection:
+    """Deflection [mm] and slope [rad] at one station in one case."""
+
+    case: str
+    deflection_mm: float
+    slope_rad: float
+    status: str
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready values."""
+        return {"case": self.case, "deflection_mm": self.deflection_mm,
+                "slope_rad": self.slope_rad, "status": self.status}
+
+
+@dataclass(frozen=True)
+class DeflectionCheck:
+    """Slope (and for gears deflection) check of one bearing or gear.
+
+    Attributes
+    ----------
+    id: bearing or element id.
+    shaft: shaft id.
+    kind: ``"bearing"`` or ``"gear"``.
+    x_mm: station [mm].
+    slope_limit_rad: allowable slope [rad] (the high end of a typical range).
+    slope_limit_low_rad: low end of the typical range [rad] (= the limit when overridden).
+    deflection_limit_mm: allowable deflection [mm] (gears) or ``None``.
+    source: where the limits come from.
+    cases: per-case deflection and slope.
+    ok: no case exceeds a limit.
+    """
+
+    id: str
+    shaft: str
+    kind: str
+    x_mm: float
+    slope_limit_rad: float
+    slope_limit_low_rad: float
+    deflection_limit_mm: float | None
+    source: str
+    cases: tuple[CaseDeflection, ...]
+    ok: bool
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready values."""
+        return {"id": self.id, "shaft": self.shaft, "x_mm": self.x_mm,
+                "slope_limit_rad": self.slope_limit_rad,
+                "slope_limit_low_rad": self.slope_limit_low_rad,
+                "deflection_limit_mm": self.deflection_limit_mm, "source": self.source,
+                "cases": [c.to_dict() for c in self.cases], "ok": self.ok}
+
+
+@dataclass(frozen=True)
+class SectionCheck:
+    """Fatigue and yield result of one section (stresses in MPa, Kf applied).
+
+    Attributes
+    ----------
+    x_mm: station [mm]. feature: the stress raiser. d_mm: section diameter [mm].
+    D_mm, r_mm: shoulder large diameter and fillet radius [mm] (``None`` elsewhere).
+    Kt, Kts, Kf, Kfs: notch factors [-]. Se_MPa: corrected endurance limit [MPa].
+    sigma_a_MPa, sigma_m_MPa: von Mises alternating and mean stress [MPa].
+    n_fatigue: by the settings' criterion [-]. n_yield: first-cycle yield [-].
+    ok: both at least the required values. notes: assumptions and range clamps.
+    """
+
+    x_mm: float
+    feature: str
+    d_mm: float
+    D_mm: float | None
+    r_mm: float | None
+    Kt: float
+    Kts: float
+    Kf: float
+    Kfs: float
+    Se_MPa: float
+    sigma_a_MPa: float
+    sigma_m_MPa: float
+    n_fatigue: float
+    n_yield: float
+    ok: bool
+    notes: tuple[str, ...] = ()
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready values (infinite safety factors as ``None``)."""
+        return {"x_mm": self.x_mm, "feature": self.feature, "d_mm": self.d_mm,
+                "D_mm": self.D_mm, "r_mm": self.r_mm, "Kt": self.Kt, "Kts": self.Kts,
+                "Kf": self.Kf, "Kfs": self.Kfs, "Se_MPa": self.Se_MPa,
+                "sigma_a_MPa": self.sigma_a_MPa, "sigma_m_MPa": self.sigma_m_MPa,
+                "n_fatigue": _finite(self.n_fatigue), "n_yield": _finite(self.n_yield),
+                "ok": self.ok, "notes": list(self.notes)}
+
+
+@dataclass(frozen=True)
+class ShaftCheck:
+    """Critical speeds and fatigue of one shaft.
+
+    Attributes
+    ----------
+    id: shaft id.
+    first_critical_rpm: first bending natural frequency as a speed [rpm] (60 f).
+    first_torsional_rpm: first non-zero torsional natural frequency [rpm] (60 f).
+    max_speed_rpm: largest |speed| of the duty and peak cases [rpm].
+    critical_speed_ok: the margin rule holds (supercritical designs pass with a note).
+    supercritical: the shaft runs above its first bending critical.
+    sections: fatigue sections (empty when fatigue was skipped).
+    min_fatigue_safety, min_yield_safety: smallest over the sections [-] (``inf`` if none).
+    fatigue_ok: every section meets both required safety factors.
+    notes: notes and warnings for the designer.
+    """
+
+    id: str
+    first_critical_rpm: float
+    first_torsional_rpm: float
+    max_speed_rpm: float
+    critical_speed_ok: bool
+    supercritical: bool
+    sections: tuple[SectionCheck, ...]
+    min_fatigue_safety: float
+    min_yield_safety: float
+    fatigue_ok: bool
+    notes: tuple[str, ...]
+
+    @property
+    def ok(self) -> bool:
+        """Critical speed and fatigue checks pass."""
+        return self.critical_speed_ok and self.fatigue_ok
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready values (infinite values as ``None``)."""
+        return {"id": self.id, "first_critical_rpm": _finite(self.first_critical_rpm),
+                "first_torsional_rpm": _finite(self.first_torsional_rpm),
+                "max_speed_rpm": self.max_speed_rpm,
+                "min_fatigue_safety": _finite(self.min_fatigue_safety),
+                "min_yield_safety": _finite(self.min_yield_safety),
+                "critical_speed_ok": self.critical_speed_ok,
+                "supercritical": self.supercritical, "fatigue_ok": self.fatigue_ok,
+                "sections": [s.to_dict() for s in self.sections], "notes": list(self.notes)}
+
+
+@dataclass(frozen=True)
+class ShaftChecks:
+    """All shaft checks of a solved model."""
+
+    shafts: tuple[ShaftCheck, ...]
+    bearings: tuple[DeflectionCheck, ...]
+    gears: tuple[DeflectionCheck, ...]
+    settings: ShaftCheckSettings
+
+    @property
+    def ok(self) -> bool:
+        """Every slope, deflection, critical speed and fatigue check passes."""
+        return (all(s.ok for s in self.shafts) and all(b.ok for b in self.bearings)
+                and all(g.ok for g in self.gears))
+
+    def shaft(self, shaft_id: str) -> ShaftCheck:
+        """The check of one shaft."""
+        for s in self.shafts:
+            if s.id == shaft_id:
+                return s
+        raise KeyError(shaft_id)
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready dictionary: ``{"ok", "shafts", "bearings", "gears", "settings"}``."""
+        st = self.settings
+        return {
+            "ok": self.ok,
+            "shafts": [s.to_dict() for s in self.shafts],
+            "bearings": [b.to_dict() for b in self.bearings],
+            "gears": [g.to_dict() for g in self.gears],
+            "settings": {"criterion": st.criterion, "fluctuation_rule": st.fluctuation_rule,
+                         "fatigue_cases": st.fatigue_cases,
+                         "critical_speed_margin": st.critical_speed_margin,
+                         "required_fatigue_safety": st.required_fatigue_safety,
+                         "required_yield_safety": st.required_yield_safety},
+        }
+
+    def table(self) -> str:
+        """Plain-text tables: slopes/deflections, critical speeds, fatigue sections."""
+        return _table(self)
+
+
+def _finite(v: float) -> float | None:
+    return float(v) if math.isfinite(v) else None
+
+
+# ----------------------------------------------------------------------------- entry
+def check_shafts(result: Result, settings: ShaftCheckSettings | None = None) -> ShaftChecks:
+    """Slope/deflection, critical-speed and fatigue checks of every shaft of ``result``.
+
+    Parameters
+    ----------
+    result:
+        A solved model (:func:`shaftsys.analysis.analyse`).
+    settings:
+        Options; ``None`` = defaults.
+
+    Returns
+    -------
+    ShaftChecks
+
+    Raises
+    ------
+    ValueError
+        A bearing id in ``settings.bearing_slope_limits_rad`` is not in the model.
+    NumericalError
+        The eigenvalue problem is ill-posed (massless degrees of freedom).
+    """
+    st = settings or ShaftCheckSettings()
+    model = result.model
+    known = {b.id for _, b in model.bearings()}
+    unknown = sorted(set(st.bearing_slope_limits_rad) - known)
+    if unknown:
+        raise ValueError(f"slope limits given for unknown bearings {unknown}; "
+                         f"bearings are {sorted(known)}")
+    bearings: list[DeflectionCheck] = []
+    gears: list[DeflectionCheck] = []
+    shafts: list[ShaftCheck] = []
+    for sr in result.shafts:
+        bearings.extend(_bearing_checks(sr, st))
+        gears.extend(_gear_checks(sr, st))
+        shafts.append(_shaft_check(model, sr, st))
+    return ShaftChecks(tuple(shafts), tuple(bearings), tuple(gears), st)
+
+
+# ----------------------------------------------------------------------------- slopes
+def _node_index(sol: CaseSolution, x_mm: float) -> int:
+    return int(np.argmin(np.abs(sol.node_x_mm - x_mm)))
+
+
+def _bearing_checks(sr: ShaftResult, st: ShaftCheckSettings) -> list[DeflectionCheck]:
+    out = []
+    for b in sr.shaft.bearings:
+        if b.id in st.bearing_slope_limits_rad:
+            v = float(st.bearing_slope_limits_rad[b.id])
+            lim = SlopeLimit(v, v, "user setting")
+        else:
+            lim = bearing_slope_limit(b.kind)
+        cases = []
+        for sol in sr.cases:
+            i = _node_index(sol, b.support_x_mm)
+            d = float(sol.deflection_mm[i])
+            s = float(sol.slope_rad[i])
+            cases.append(CaseDeflection(sol.case, d, s, slope_status(s, lim)))
+        ok = all(c.status != "exceeded" for c in cases)
+        out.append(DeflectionCheck(b.id, sr.shaft.id, "bearing", b.support_x_mm,
+                                   lim.high_rad, lim.low_rad, None, lim.source,
+                                   tuple(cases), ok))
+    return out
+
+
+def _gear_checks(sr: ShaftResult, st: ShaftCheckSettings) -> list[DeflectionCheck]:
+    out = []
+    for el in sr.shaft.elements:
+        if not isinstance(el, Gear | BevelGear):
+            continue
+        if isinstance(el, Gear) and el.normal_module_mm is not None:
+            dlim = gear_deflection_limit_mm(el.normal_module_mm)
+            src = "Shigley 9th ed. Table 7-2 (from memory), module-based deflection"
+        else:
+            dlim = st.default_gear_deflection_limit_mm
+            src = f"slope: Shigley 9th ed. Table 7-2 (from memory); deflection: {_CP}"
+        slim = st.gear_slope_limit_rad
+        cases = []
+        for sol in sr.cases:
+            i = _node_index(sol, el.x_mm)
+            d = float(sol.deflection_mm[i])
+            s = float(sol.slope_rad[i])
+            status = "ok" if (s <= slim and d <= dlim) else "exceeded"
+            cases.append(CaseDeflection(sol.case, d, s, status))
+        ok = all(c.status == "ok" for c in cases)
+        out.append(DeflectionCheck(el.id, sr.shaft.id, "gear", el.x_mm, slim, slim, dlim,
+                                   src, tuple(cases), ok))
+    return out
+
+
+# ----------------------------------------------------------------------------- modes
+def critical_speeds_rpm(shaft: Shaft, model: Model, *, max_element_mm: float | None = None,
+                        rotary_inertia: bool = False) -> tuple[float, float]:
+    """First bending and first non-zero torsional natural frequency of a shaft [rpm].
+
+    Parameters
+    ----------
+    shaft:
+        The shaft (steps, material, bearings, elements with mass and inertias).
+    model:
+        The model (``solver.shear_deformation`` and ``solver.max_element_mm``).
+    max_element_mm:
+        Longest element of the modal mesh [mm] (``None`` = the model's solver setting).
+    rotary_inertia:
+        Include the shaft's distributed rotary inertia.
+
+    Returns
+    -------
+    tuple of float
+        (bending, torsion) as speeds 60 f [rpm]; ``inf`` when there is no such mode.
+    """
+    sm = mesh_shaft(shaft, max_element_mm or model.solver.max_element_mm)
+    n = sm.mesh.n_nodes
+    mass = np.zeros(n)
+    dia = np.zeros(n)
+    polar = np.zeros(n)
+    for el in shaft.elements:
+        k = sm.element_nodes[el.id]
+        mass[k] += el.mass_kg
+        dia[k] += el.diametral_inertia_kgm2
+        polar[k] += el.polar_inertia_kgm2
+    supports = [Support(sm.bearing_nodes[b.id],
+                        b.radial_stiffness_N_mm if b.radial_stiffness_N_mm else math.inf,
+                        b.tilt_stiffness_Nmm_rad)
+                for b in shaft.bearings if b.kind is not BearingKind.THRUST_BALL]
+    bend = bending_modes(sm.mesh, supports, point_mass_kg=mass, point_inertia_kgm2=dia,
+                         shear=model.solver.shear_deformation, rotary_inertia=rotary_inertia,
+                         n_modes=min(4, 2 * n - 2 * len(supports)),
+                         label=f"shaft '{shaft.id}', bending modes")
+    tors = torsion_modes(sm.mesh, (), polar_inertia_kgm2=polar, n_modes=min(2, n),
+                         label=f"shaft '{shaft.id}', torsion modes")
+    return _first_nonzero(bend.rpm), _first_nonzero(tors.rpm[1:])
+
+
+def _first_nonzero(rpm: NDArray[np.float64]) -> float:
+    """The first frequency above the rigid-body noise [rpm]."""
+    if rpm.size == 0:
+        return math.inf
+    scale = float(np.max(rpm))
+    nonzero = rpm[rpm > 1e-6 * scale] if scale > 0 else rpm[:0]
+    return float(nonzero[0]) if nonzero.size else math.inf
+
+
+def _case_speed(case: Case, shaft_id: str) -> float:
+    drive = case.drives.get(shaft_id)
+    return abs(drive.speed_rpm) if drive is not None else 0.0
+
+
+def _shaft_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings) -> ShaftCheck:
+    shaft = sr.shaft
+    notes: list[str] = ["critical speeds of the non-rotating shaft: gyroscopic effects and "
+                        "speed-dependent bearing stiffness are left out"]
+    f_bend, f_tors = critical_speeds_rpm(shaft, model, max_element_mm=st.max_element_mm,
+                                         rotary_inertia=st.rotary_inertia)
+    speeds = [_case_speed(c, shaft.id) for c in model.cases
+              if c.kind in (CaseKind.DUTY, CaseKind.PEAK)]
+    n_max = max(speeds, default=0.0)
+    margin = st.critical_speed_margin
+    supercritical = False
+    if n_max == 0.0 or f_bend >= margin * n_max:
+        crit_ok = True
+    elif f_bend <= n_max / margin:
+        crit_ok = True
+        supercritical = True
+        notes.append(f"WARNING: supercritical: the first bending critical {f_bend:.0f} rpm "
+                     f"lies below the top speed {n_max:.0f} rpm / {margin:g}; the shaft "
+                     "runs through it at start-up and run-down")
+    else:
+        crit_ok = False
+        notes.append(f"first bending critical {f_bend:.0f} rpm within the margin "
+                     f"{margin:g} of the top speed {n_max:.0f} rpm ({_CP})")
+    if n_max > 0.0 and n_max / margin < f_tors < margin * n_max:
+        notes.append(f"WARNING: first torsional frequency {f_tors:.0f} rpm lies within "
+                     f"the margin {margin:g} of the top speed {n_max:.0f} rpm")
+    sections, fnotes = _fatigue_sections(model, sr, st)
+    notes.extend(fnotes)
+    n_f = min((s.n_fatigue for s in sections), default=math.inf)
+    n_y = min((s.n_yield for s in sections), default=math.inf)
+    return ShaftCheck(
+        id=shaft.id, first_critical_rpm=f_bend, first_torsional_rpm=f_tors,
+        max_speed_rpm=n_max, critical_speed_ok=crit_ok, supercritical=supercritical,
+        sections=tuple(sections), min_fatigue_safety=n_f, min_yield_safety=n_y,
+        fatigue_ok=all(s.ok for s in sections), notes=tuple(notes))
+
+
+# ----------------------------------------------------------------------------- fatigue
+@dataclass(frozen=True)
+class _Section:
+    x_mm: float
+    feature: Feature
+    step: int          # index of the step whose diameter is the section's
+    D_mm: float | None = None
+    r_mm: float | None = None
+    note: str | None = None
+
+
+def _loads_at(sol: CaseSolution, x_mm: float) -> tuple[float, float, float]:
+    """(M [N*mm] >= 0, T [N*mm], N [N]) at a station: the worst side of a jump."""
+    st = sol.stations_mm
+    idx = np.flatnonzero(np.abs(st - x_mm) <= _STATION_TOL_MM)
+    if idx.size == 0:
+        M = float(np.interp(x_mm, st, sol.M_Nmm))
+        return M, float(np.interp(x_mm, st, sol.T_Nmm)), float(np.interp(x_mm, st, sol.N_N))
+    M = float(np.max(sol.M_Nmm[idx]))
+    T = float(sol.T_Nmm[idx[np.argmax(np.abs(sol.T_Nmm[idx]))]])
+    N = float(sol.N_N[idx[np.argmax(np.abs(sol.N_N[idx]))]])
+    return M, T, N
+
+
+def _worst_station(sr: ShaftResult, x0: float, x1: float) -> float:
+    """Station in [x0, x1] with the largest M^2 + 0.75 T^2 over all cases [mm]."""
+    best_x, best = 0.5 * (x0 + x1), -1.0
+    for sol in sr.cases:
+        inside = (sol.stations_mm >= x0) & (sol.stations_mm <= x1)
+        if not np.any(inside):
+            continue
+        eq = sol.M_Nmm[inside] ** 2 + 0.75 * sol.T_Nmm[inside] ** 2
+        k = int(np.argmax(eq))
+        if eq[k] > best:
+            best, best_x = float(eq[k]), float(sol.stations_mm[inside][k])
+    return best_x
+
+
+def _sections(sr: ShaftResult) -> list[_Section]:
+    shaft = sr.shaft
+    steps = shaft.steps
+    edges = shaft.step_edges_mm
+    out: list[_Section] = []
+    for i in range(1, len(steps)):
+        left, right = steps[i - 1], steps[i]
+        if left.d_mm == right.d_mm:
+            continue
+        small = i - 1 if left.d_mm < right.d_mm else i
+        d = steps[small].d_mm
+        D = max(left.d_mm, right.d_mm)
+        r = right.fillet_mm
+        note = None
+        if r is None:
+            r = SHARP_FILLET_R_OVER_D * d
+            note = (f"no fillet given on the step starting at {edges[i]:g} mm: sharp "
+                    f"shoulder r = 0.02 d = {r:.3g} mm assumed (Shigley Table 7-1, from memory)")
+        out.append(_Section(edges[i], Feature.SHOULDER, small, D, r, note))
+    for j, step in enumerate(steps):
+        x0, x1 = edges[j], edges[j + 1]
+        on_step = [e for e in shaft.elements
+                   if isinstance(e, _SEAT_TYPES) and x0 <= e.x_mm <= x1]
+        if step.keyway is not None:
+            feat = _KEYWAY.get(step.keyway)
+            if feat is None:
+                raise ValueError(f"unknown keyway {step.keyway!r}; expected one of "
+                                 f"{sorted(_KEYWAY)}")
+            if on_step:
+                out.extend(_Section(e.x_mm, feat, j) for e in on_step)
+            else:
+                out.append(_Section(_worst_station(sr, x0, x1), feat, j,
+                                    note="keyway without an element seat: checked at the "
+                                         "step's worst station"))
+        if step.groove:
+            out.append(_Section(_worst_station(sr, x0, x1), Feature.RETAINING_RING_GROOVE, j,
+                                note="groove position not in the model: checked at the "
+                                     "step's worst station (conservative)"))
+    for e in shaft.elements:
+        if isinstance(e, _SEAT_TYPES):
+            out.append(_seat_section(sr, e.x_mm, e.width_mm))
+    out.sort(key=lambda s: (s.x_mm, s.feature.value))
+    return out
+
+
+def _seat_section(sr: ShaftResult, x_mm: float, width_mm: float | None) -> _Section:
+    """Press-fit section of a hub: at the hub edge with the larger moment, if width known."""
+    shaft = sr.shaft
+    j = _step_index(shaft, x_mm)
+    if not width_mm:
+        return _Section(x_mm, Feature.PRESS_FIT, j,
+                        note="hub width not given: checked at the element's centre station")
+    x0, x1 = shaft.step_edges_mm[j], shaft.step_edges_mm[j + 1]
+    ends = [min(max(x_mm + s * 0.5 * width_mm, x0), x1) for s in (-1.0, 1.0)]
+    worst = max(ends, key=lambda x: max(_loads_at(sol, x)[0] for sol in sr.cases))
+    return _Section(worst, Feature.PRESS_FIT, j, note="press fit checked at the hub edge")
+
+
+def _step_index(shaft: Shaft, x_mm: float) -> int:
+    edges = shaft.step_edges_mm
+    for j in range(len(shaft.steps)):
+        if x_mm < edges[j + 1]:
+            return j
+    return len(shaft.steps) - 1
+
+
+def _fatigue_sections(model: Model, sr: ShaftResult, st: ShaftCheckSettings
+                      ) -> tuple[list[SectionCheck], list[str]]:
+    mat = sr.shaft.material
+    if mat.Su_MPa is None or mat.Sy_MPa is None:
+        return [], [f"fatigue skipped: material '{mat.name}' has no Su or Sy"]
+    kinds = (CaseKind.DUTY, CaseKind.PEAK) if st.fatigue_cases == "duty_and_peak" \
+        else (CaseKind.DUTY,)
+    by_id = {c.id: c for c in model.cases}
+    fat_sols = [s for s in sr.cases if by_id[s.case].kind in kinds]
+    if not fat_sols:
+        return [], ["fatigue skipped: no duty case"]
+    temps = [by_id[s.case].temperature_C for s in fat_sols]
+    temps = [t for t in temps if math.isfinite(t)]
+    temperature = max(temps, default=ROOM_TEMPERATURE_C)
+    notes = [f"fatigue: {st.criterion} over cases {[s.case for s in fat_sols]}, bending "
+             "fully reversed (rotating shaft), Marin kd at "
+             f"{temperature:g} degC, reliability {model.life.target_reliability:g}"]
+    out = []
+    for sec in _sections(sr):
+        out.append(_section_check(model, sr, st, sec, fat_sols, temperature))
+    return out, notes
+
+
+def _section_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings, sec: _Section,
+                   fat_sols: list[CaseSolution], temperature_C: float) -> SectionCheck:
+    mat = sr.shaft.material
+    assert mat.Su_MPa is not None and mat.Sy_MPa is not None
+    step = sr.shaft.steps[sec.step]
+    d = step.d_mm
+    notch = notch_factors(sec.feature, mat.Su_MPa, d_mm=d, D_mm=sec.D_mm, r_mm=sec.r_mm)
+    finish = _SURFACE.get(step.surface, step.surface)
+    marin = marin_endurance_limit(mat.Su_MPa, d, finish, temperature_C=temperature_C,
+                                  reliability=model.life.target_reliability)
+    per_case = [_loads_at(s, sec.x_mm) for s in fat_sols]
+    classes = classify_section_loads(
+        [SectionCaseLoads(M, T, N) for M, T, N in per_case], rule=st.fluctuation_rule)
+    chk = check_section(classes, d, notch=notch, marin=marin, Sy_MPa=mat.Sy_MPa,
+                        bore_mm=step.bore_mm, criterion=st.criterion)
+    # first-cycle yield: the peak stress of every single case (duty, peak, static)
+    sig_max = chk.stresses.sigma_vm_max_MPa
+    for sol in sr.cases:
+        M, T, N = _loads_at(sol, sec.x_mm)
+        one = section_stresses(LoadClasses(M, 0.0, 0.0, T, 0.0, N), d, Kf=notch.Kf,
+                               Kfs=notch.Kfs, Kf_axial=notch.Kf_axial, bore_mm=step.bore_mm)
+        sig_max = max(sig_max, one.sigma_vm_max_MPa)
+    n_y = yield_safety_factor(sig_max, mat.Sy_MPa)
+    ok = chk.n_fatigue >= st.required_fatigue_safety and n_y >= st.required_yield_safety
+    notes = tuple(n for n in (sec.note, *notch.notes) if n)
+    return SectionCheck(
+        x_mm=float(sec.x_mm), feature=sec.feature.value, d_mm=d, D_mm=sec.D_mm,
+        r_mm=sec.r_mm if sec.feature is Feature.SHOULDER else notch.r_mm,
+        Kt=notch.Kt, Kts=notch.Kts, Kf=notch.Kf, Kfs=notch.Kfs, Se_MPa=marin.Se_MPa,
+        sigma_a_MPa=chk.stresses.sigma_vm_a_MPa, sigma_m_MPa=chk.stresses.sigma_vm_m_MPa,
+        n_fatigue=chk.n_fatigue, n_yield=n_y, ok=ok, notes=notes)
+
+
+# ----------------------------------------------------------------------------- table
+def _fmt(v: float | None, spec: str) -> str:
+    if v is None:
+        return "-"
+    if not math.isfinite(v):
+        return "inf"
+    return format(v, spec)
+
+
+def _table(sc: ShaftChecks) -> str:
+    lines = ["Slopes and deflections (worst case)",
+             f"{'shaft':<10} {'what':<8} {'id':<14} {'x mm':>8} {'defl mm':>9} "
+             f"{'lim mm':>7} {'slope rad':>10} {'lim rad':>9} {'case':<12} verdict"]
+    for c in (*sc.bearings, *sc.gears):
+        worst = max(c.cases, key=lambda k: k.slope_rad / c.slope_limit_rad + (
+            k.deflection_mm / c.deflection_limit_mm if c.deflection_limit_mm else 0.0),
+            default=None)
+        if worst is None:
+            continue
+        verdict = "ok" if c.ok else "EXCEEDED"
+        if c.ok and any(k.status == "marginal" for k in c.cases):
+            verdict = "marginal"
+        lines.append(f"{c.shaft:<10} {c.kind:<8} {c.id:<14} {c.x_mm:>8.1f} "
+                     f"{worst.deflection_mm:>9.4f} {_fmt(c.deflection_limit_mm, '7.3f'):>7} "
+                     f"{worst.slope_rad:>10.2e} {c.slope_limit_rad:>9.2e} {worst.case:<12} "
+                     f"{verdict}")
+    lines += ["", "Critical speeds (non-rotating shaft, no gyroscopic effects)",
+              f"{'shaft':<10} {'bending rpm':>12} {'torsion rpm':>12} {'max rpm':>9} "
+              f"{'ratio':>7} verdict"]
+    for s in sc.shafts:
+        ratio = s.first_critical_rpm / s.max_speed_rpm if s.max_speed_rpm > 0 else math.inf
+        verdict = ("supercritical" if s.supercritical else "ok") if s.critical_speed_ok \
+            else "TOO CLOSE"
+        lines.append(f"{s.id:<10} {_fmt(s.first_critical_rpm, '12.0f'):>12} "
+                     f"{_fmt(s.first_torsional_rpm, '12.0f'):>12} {s.max_speed_rpm:>9.0f} "
+                     f"{_fmt(ratio, '7.2f'):>7} {verdict}")
+    lines += ["", "Fatigue sections",
+              f"{'shaft':<10} {'x mm':>8} {'feature':<20} {'d mm':>6} {'Kt':>5} {'Kf':>5} "
+              f"{'Kfs':>5} {'Se MPa':>7} {'sa MPa':>7} {'sm MPa':>7} {'n_f':>6} {'n_y':>6} "
+              "verdict"]
+    for s in sc.shafts:
+        if not s.sections:
+            lines.append(f"{s.id:<10} (no fatigue sections: see notes)")
+        for x in s.sections:
+            lines.append(f"{s.id:<10} {x.x_mm:>8.1f} {x.feature:<20} {x.d_mm:>6.1f} "
+                         f"{x.Kt:>5.2f} {x.Kf:>5.2f} {x.Kfs:>5.2f} {x.Se_MPa:>7.1f} "
+                         f"{x.sigma_a_MPa:>7.1f} {x.sigma_m_MPa:>7.1f} "
+                         f"{_fmt(x.n_fatigue, '6.2f'):>6} {_fmt(x.n_yield, '6.2f'):>6} "
+                         f"{'ok' if x.ok else 'LOW'}")
+    notes = [f"{s.id}: {n}" for s in sc.shafts for n in s.notes]
+    if notes:
+        lines += ["", "Notes", *notes]
+    return "\n".join(lines)

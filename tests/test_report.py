@@ -1,0 +1,302 @@
+"""Report pieces: figures, calculation sheet and the self-contained HTML report.
+
+The demo model ``models/fan_drive.yaml`` is solved once per module. Reference checks
+use closed-form formulas of the published sources (named beside each), evaluated here
+on the numbers the sheet prints or the JSON results hold, never on report internals.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import hashlib
+import importlib.util
+import math
+import re
+from html.parser import HTMLParser
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+import pytest
+
+import shaftsys
+from shaftsys.report import calcsheet, figures
+from shaftsys.report.html import render_report
+from shaftsys.results_json import result_to_dict
+
+ROOT = Path(__file__).resolve().parent.parent
+MODEL = ROOT / "models" / "fan_drive.yaml"
+EXAMPLE = ROOT / "examples" / "plot_fan_shaft_diagrams.py"
+
+#: Section headings the report must carry (typed literally: the brief's sections).
+HEADINGS = (
+    "Provenance",
+    "Inputs that decide the verdicts",
+    "Machine summary",
+    "Shafts to scale",
+    "Operating cases",
+    "Support verdicts",
+    "Bearing details",
+    "Warnings",
+    "Assumptions and cautions",
+)
+
+
+@pytest.fixture(scope="module")
+def result() -> Any:
+    return shaftsys.analyse(shaftsys.load_model(str(MODEL)))
+
+
+@pytest.fixture(scope="module")
+def report(result: Any) -> str:
+    return render_report(result, date="2024-01-02")
+
+
+class _Collector(HTMLParser):
+    def __init__(self) -> None:
+        super().__init__()
+        self.tags: list[str] = []
+        self.h2: list[str] = []
+        self._in_h2 = False
+        self.attrs: list[tuple[str, str | None]] = []
+
+    def handle_starttag(self, tag: str, attrs: list[tuple[str, str | None]]) -> None:
+        self.tags.append(tag)
+        self.attrs.extend(attrs)
+        if tag == "h2":
+            self._in_h2 = True
+            self.h2.append("")
+
+    def handle_endtag(self, tag: str) -> None:
+        if tag == "h2":
+            self._in_h2 = False
+
+    def handle_data(self, data: str) -> None:
+        if self._in_h2:
+            self.h2[-1] += data
+
+
+# ----------------------------------------------------------------------------- HTML
+def test_report_parses_with_every_section_and_figure(result: Any, report: str) -> None:
+    p = _Collector()
+    p.feed(report)
+    p.close()
+    for heading in HEADINGS:
+        assert heading in [h.strip() for h in p.h2], heading
+    n_shafts = len(result.shafts)
+    n_cases = len(result.model.cases)
+    n_life = sum(1 for b in result.bearings if b.life is not None)
+    assert n_shafts >= 1 and n_cases >= 2 and n_life >= 2
+    assert p.tags.count("svg") >= n_shafts + n_cases * n_shafts + n_life
+
+
+def test_report_is_self_contained(report: str) -> None:
+    p = _Collector()
+    p.feed(report)
+    assert "script" not in p.tags
+    assert "link" not in p.tags and "img" not in p.tags and "iframe" not in p.tags
+    for name, value in p.attrs:
+        if name in ("src", "href") and value is not None:
+            assert value.startswith("#"), (name, value)
+    assert "@media print" in report and "size: A4" in report
+
+
+def test_report_header_names_file_hash_version_date(result: Any, report: str) -> None:
+    # The SHA-256 is checked against hashlib on the file bytes (Python stdlib hashlib).
+    digest = hashlib.sha256(MODEL.read_bytes()).hexdigest()
+    assert digest in report
+    assert "fan_drive.yaml" in report
+    assert shaftsys.__version__ in report
+    assert "2024-01-02" in report
+
+
+def test_report_escapes_user_text(result: Any) -> None:
+    evil = '<script>alert("x")</script> & co'
+    model = dataclasses.replace(result.model, name=evil)
+    text = render_report(dataclasses.replace(result, model=model), date="d")
+    assert "<script>" not in text
+    assert "&lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; &amp; co" in text
+
+
+def test_report_verdicts_match_results(result: Any, report: str) -> None:
+    data = result_to_dict(result)
+    for b in data["bearings"]:
+        assert f'id="bearing-{b["id"]}"' in report
+    stamp = "ALL SUPPORTS PASS" if data["ok"] else "TARGET MISSED"
+    assert stamp in report
+
+
+# ----------------------------------------------------------------------------- sheet
+@pytest.mark.parametrize("key", ["P_eq_N", "L10_h", "Lnm_h", "C_required_N", "s0"])
+def test_sheet_prints_the_json_numbers(result: Any, key: str) -> None:
+    data = result_to_dict(result)
+    for b in data["bearings"]:
+        text = calcsheet.explain_bearing(result, b["id"])
+        value = b["life"][key]
+        assert value is not None
+        assert calcsheet.format_value(value) in text, (b["id"], key, value)
+        obj = getattr(result.bearing(b["id"]).life, key)
+        assert obj == value
+
+
+def test_format_value_is_six_significant_digits() -> None:
+    assert calcsheet.format_value(7633.2213) == "7633.22"
+    assert calcsheet.format_value(1110661.9) == "1110660"
+    assert calcsheet.format_value(0.5) == "0.5"
+    assert calcsheet.format_value(None) == "-"
+    assert calcsheet.format_value(math.inf) == "inf"
+    assert calcsheet.format_value(3.2e-7) == "3.20000e-07"
+
+
+_NUM = r"(-?[0-9.]+(?:e[-+]?\d+)?)"
+
+
+def test_sheet_substitutions_evaluate_to_the_printed_results(result: Any) -> None:
+    """The numbers substituted on each line give the printed result when redone by hand.
+
+    Formulas: Fr = sqrt(Fy^2 + Fz^2) (vector resultant); P = X*Fr + Y*Fa
+    (ISO 281:2007, 6.2 / 7.2); s0 = C0/P0 (ISO 76:2006). Tolerance 2e-5 relative: the
+    sheet prints 6 significant digits.
+    """
+    checked = 0
+    for b in result.bearings:
+        text = calcsheet.explain_bearing(result, b.bearing.id)
+        for fy, fz, fr in re.findall(
+                rf"Fr = sqrt\(\({_NUM}\)\^2 \+ \({_NUM}\)\^2\) = {_NUM} N", text):
+            assert math.hypot(float(fy), float(fz)) == pytest.approx(float(fr), rel=2e-5)
+            checked += 1
+        for x, fr, y, fa, p in re.findall(
+                rf"P = {_NUM}\*{_NUM} \+ {_NUM}\*{_NUM} = {_NUM} N", text):
+            assert float(x) * float(fr) + float(y) * float(fa) == pytest.approx(
+                float(p), rel=2e-5, abs=1e-3)
+            checked += 1
+        for c0, p0, s0 in re.findall(rf"s0 = {_NUM}/{_NUM} = {_NUM}", text):
+            assert float(c0) / float(p0) == pytest.approx(float(s0), rel=2e-5)
+            checked += 1
+    assert checked >= 3 * len(result.bearings) * len(result.model.cases)
+
+
+def test_sheet_spectrum_life_matches_iso281_closed_form(result: Any) -> None:
+    """L10h = (C/Pm)^p * 10^6 / (60 n_m) (ISO 281:2007, 6.3 / 7.3) on the JSON numbers."""
+    data = result_to_dict(result)
+    for b in data["bearings"]:
+        life = b["life"]
+        p = 10.0 / 3.0 if b["type"].endswith("roller") else 3.0
+        L10h = (b["C_N"] / life["P_eq_N"]) ** p * 1e6 / (60.0 * life["n_m_rpm"])
+        assert L10h == pytest.approx(life["L10_h"], rel=1e-9)
+        text = calcsheet.explain_bearing(result, b["id"])
+        assert "ISO 281:2007, 9.2" in text and "ISO 76:2006" in text
+        assert "ASTM D341" in text and "Shigley" in text
+
+
+def test_sheet_html_is_escaped_pre(result: Any) -> None:
+    frag = calcsheet.explain_bearing_html(result, result.bearings[0].bearing.id)
+    assert frag.startswith('<pre class="calcsheet"') and frag.endswith("</pre>")
+    assert "Fa/Fr = " in frag
+    assert "&lt;=" in frag or "&gt;" in frag
+    assert "<=" not in frag and " > e" not in frag
+
+
+def test_sheet_unknown_bearing_raises(result: Any) -> None:
+    with pytest.raises(KeyError):
+        calcsheet.explain_bearing(result, "no-such-bearing")
+
+
+# ----------------------------------------------------------------------------- figures
+def test_figures_return_matplotlib_objects(result: Any) -> None:
+    from matplotlib.axes import Axes
+    from matplotlib.figure import Figure
+
+    s = result.shafts[0]
+    assert isinstance(figures.shaft_drawing(s), Figure)
+    assert isinstance(figures.shaft_drawing(s.shaft), Figure)
+    assert isinstance(figures.diagrams(s.cases[0]), Figure)
+    assert isinstance(figures.load_life_chart(result.bearings[0]), Figure)
+    fig = Figure()
+    ax = fig.add_subplot()
+    assert figures.shaft_drawing(s, ax=ax) is ax
+    assert figures.load_life_chart(result.bearings[0], ax=fig.add_subplot(2, 1, 2)) \
+        is not None
+    axes = Figure().subplots(4, 1)
+    got = figures.diagrams(s.cases[0], ax=list(axes))
+    assert isinstance(got, list) and all(isinstance(a, Axes) for a in got)
+    with pytest.raises(ValueError):
+        figures.diagrams(s.cases[0], ax=list(axes)[:2])
+    with pytest.raises(ValueError):
+        figures.shaft_drawing("not a shaft")  # type: ignore[call-overload]
+
+
+def test_shaft_drawing_is_to_scale(result: Any) -> None:
+    """Each step rectangle has the step's length and outer diameter (model input)."""
+    from matplotlib.figure import Figure
+
+    shaft = result.shafts[0].shaft
+    ax = Figure().add_subplot()
+    figures.shaft_drawing(shaft, ax=ax)
+    from matplotlib.patches import Rectangle
+
+    sizes = {(round(p.get_width(), 9), round(p.get_height(), 9)) for p in ax.patches
+             if isinstance(p, Rectangle)}
+    for step in shaft.steps:
+        assert (round(step.length_mm, 9), round(step.d_mm, 9)) in sizes
+    assert ax.get_aspect() == 1.0
+
+
+def test_diagrams_plot_the_solver_arrays(result: Any) -> None:
+    from matplotlib.figure import Figure
+
+    cs = result.shafts[0].cases[0]
+    axes = list(Figure().subplots(4, 1))
+    figures.diagrams(cs, ax=axes)
+    vy = axes[0].lines[0]
+    np.testing.assert_array_equal(vy.get_xdata(), cs.stations_mm)
+    np.testing.assert_array_equal(vy.get_ydata(), cs.Vy_N)
+    defl = axes[3].lines[0]
+    np.testing.assert_array_equal(defl.get_xdata(), cs.node_x_mm)
+    for a in axes:
+        assert "[" in a.get_ylabel()
+
+
+def test_load_life_chart_rating_line_and_target(result: Any) -> None:
+    """Rating line L = (C/P)^p passes through (1, C) (ISO 281:2007, 6.3 / 7.3); the
+    target line sits at target_h*60*n_m/10^6 (10^6 rev)."""
+    from matplotlib.figure import Figure
+
+    data = {b["id"]: b for b in result_to_dict(result)["bearings"]}
+    for b in result.bearings:
+        ax = Figure().add_subplot()
+        figures.load_life_chart(b, ax=ax)
+        line = ax.lines[0]
+        L = np.asarray(line.get_xdata())
+        P = np.asarray(line.get_ydata())
+        C = data[b.bearing.id]["C_N"]
+        p = 10.0 / 3.0 if data[b.bearing.id]["type"].endswith("roller") else 3.0
+        np.testing.assert_allclose(P, C / L ** (1.0 / p), rtol=1e-12)
+        life = data[b.bearing.id]["life"]
+        target = life["target_h"] * 60.0 * life["n_m_rpm"] / 1e6
+        xdata = [np.asarray(ln.get_xdata(), dtype=float) for ln in ax.lines]
+        xs = [x[0] for x in xdata if x.size == 2 and x[0] == x[1]]
+        assert any(x == pytest.approx(target, rel=1e-12) for x in xs)
+        assert ax.get_xscale() == "log" and ax.get_yscale() == "log"
+
+
+def test_to_svg_gives_inline_svg(result: Any) -> None:
+    svg = figures.to_svg(figures.load_life_chart(result.bearings[0]))
+    assert svg.startswith("<svg") and svg.rstrip().endswith("</svg>")
+    assert "<?xml" not in svg and "<metadata>" not in svg
+
+
+# ----------------------------------------------------------------------------- example
+def test_example_script_writes_pngs(tmp_path: Path) -> None:
+    spec = importlib.util.spec_from_file_location("plot_fan_shaft_diagrams", EXAMPLE)
+    assert spec is not None and spec.loader is not None
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)     # import-safe: nothing runs at import
+    assert not any(tmp_path.iterdir())
+    written = module.main([str(tmp_path)])
+    assert len(written) >= 2
+    for item in written:
+        path = Path(item)
+        assert path.parent == tmp_path
+        data = path.read_bytes()
+        assert data[:8] == b"\x89PNG\r\n\x1a\n" and len(data) > 1000
