@@ -183,6 +183,9 @@ def _check(args: argparse.Namespace) -> int:
         if not args.loads_only:
             print(file=out)
             print(verdict_table(result), file=out)
+            if result.checks is not None:
+                print(file=out)
+                print(result.checks.table(), file=out)
         out.flush()
         for w in _all_warnings(result):
             print(f"warning: {w}", file=sys.stderr)

@@ -49,6 +49,13 @@ def result_to_dict(result: Result) -> dict[str, Any]:
             ],
             "system": {"life_h": s.system_life_h, "limiting_bearing": s.limiting_bearing},
         }
+        if result.checks is not None:
+            sc = result.checks.shaft(s.shaft.id).to_dict()
+            entry["first_critical_rpm"] = sc.get("first_critical_rpm")
+            entry["first_torsional_rpm"] = sc.get("first_torsional_rpm")
+            entry["min_fatigue_safety"] = sc.get("min_fatigue_safety")
+            entry["min_yield_safety"] = sc.get("min_yield_safety")
+            entry["checks"] = sc
         data["shafts"].append(entry)
     for b in result.bearings:
         br = b.bearing
@@ -66,8 +73,16 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         }
         if b.life is not None:
             item["life"] = b.life.to_dict()
+        if result.checks is not None:
+            for bc in result.checks.to_dict()["bearings"]:
+                if bc["id"] == br.id:
+                    item["misalignment"] = bc
         item["ok"] = b.ok
         data["bearings"].append(item)
+    if result.checks is not None:
+        checks = result.checks.to_dict()
+        data["gears"] = checks["gears"]
+        data["shaft_checks"] = checks
     data["system"] = {"life_h": result.system_life_h,
                       "limiting_bearing": result.limiting_bearing}
     return data

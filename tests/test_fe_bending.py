@@ -370,6 +370,10 @@ def test_bad_supports_raise_model_error() -> None:
         PlanarBending.from_mesh(mesh, [Support(0, -1.0), Support(5)])
     with pytest.raises(ModelError):
         PlanarBending.from_mesh(mesh, [Support(0), Support(99)])
+    with pytest.raises(ModelError, match="rigidities"):
+        PlanarBending([0.0, 10.0, 5.0], [1e9, 1e9], None, [Support(0), Support(2)])
+    with pytest.raises(ModelError, match="rigidities"):
+        PlanarBending([0.0, 10.0, 20.0], [1e9, 0.0], None, [Support(0), Support(2)])
 
 
 def test_condition_estimate_and_warning(caplog: pytest.LogCaptureFixture) -> None:

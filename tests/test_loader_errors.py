@@ -141,7 +141,7 @@ BAD_INPUTS = [
     Bad("two bearings taking +x thrust", needle="axial: +x", occurrence=2,
         field="shafts[s1].bearings[C].axial", expected="one +x and one -x",
         message="more than one bearing takes thrust in the same direction",
-        edit=lambda m: _three_cross_locating(m)),
+        edit=_three_cross_locating),
     Bad("needle bearing locating", needle="axial: both", field="shafts[s1].bearings[A].axial",
         expected="axial: float", message="cannot locate the shaft axially",
         edit=lambda m: _bearing(m, 0).update(type="needle_roller")),

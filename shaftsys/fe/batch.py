@@ -25,18 +25,45 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from shaftsys.errors import NumericalError
-from shaftsys.fe.beam import beam_stiffness, shear_parameter, uniform_load
 from shaftsys.fe.solve import (
     DEFAULT_PIVOT_TOL,
     Support,
-    assemble_banded,
     check_planar_mechanism,
     planar_support_dofs,
 )
 
-__all__ = ["BatchSolution", "cholesky_banded_batch", "solve_banded_batch", "solve_planar_batch"]
+__all__ = [
+    "CHUNK",
+    "BatchSolution",
+    "cholesky_banded_batch",
+    "solve_banded_batch",
+    "solve_planar_batch",
+]
 
 Array = NDArray[np.float64]
+
+
+def _planar_band(EI: Array, L: Array, Phi: Array | float) -> Array:
+    """Upper band (4, 2n, B) of the shaft stiffness; EI, Phi (n_e, B), L (n_e, 1)."""
+    n_e, B = EI.shape
+    c = EI / ((1.0 + Phi) * L**3)
+    k00 = 12.0 * c
+    k01 = 6.0 * c * L
+    k11 = (4.0 + Phi) * c * L * L
+    k13 = (2.0 - Phi) * c * L * L
+    ab = np.zeros((4, 2 * (n_e + 1), B))
+    stop = 2 * n_e
+    ab[3, 0:stop:2] += k00  # (0, 0)
+    ab[2, 1 : stop + 1 : 2] += k01  # (0, 1)
+    ab[1, 2 : stop + 2 : 2] -= k00  # (0, 2)
+    ab[0, 3 : stop + 3 : 2] += k01  # (0, 3)
+    ab[3, 1 : stop + 1 : 2] += k11  # (1, 1)
+    ab[2, 2 : stop + 2 : 2] -= k01  # (1, 2)
+    ab[1, 3 : stop + 3 : 2] += k13  # (1, 3)
+    ab[3, 2 : stop + 2 : 2] += k00  # (2, 2)
+    ab[2, 3 : stop + 3 : 2] -= k01  # (2, 3)
+    ab[3, 3 : stop + 3 : 2] += k11  # (3, 3)
+    return ab
 
 
 def cholesky_banded_batch(ab: Array) -> Array:
@@ -45,44 +72,44 @@ def cholesky_banded_batch(ab: Array) -> Array:
     Parameters
     ----------
     ab:
-        Upper band storage, shape (B, u+1, n): ``ab[b, u + i - j, j] = A_b[i, j]``.
+        Upper band storage with the variants LAST, shape (u+1, n, B):
+        ``ab[u + i - j, j, b] = A_b[i, j]``.
 
     Returns
     -------
     numpy.ndarray
-        Lower band storage of L, shape (B, u+1, n): ``Lb[b, d, j] = L_b[j + d, j]``
+        Lower band storage of L, shape (u+1, n, B): ``Lb[d, j, b] = L_b[j + d, j]``
         (A = L L^T). A non-positive pivot gives NaN in that variant's factor.
     """
-    B, p, n = ab.shape
+    p, n, B = ab.shape
     u = p - 1
     Lb = np.zeros_like(ab)
-    # Window W[b, r, c] = Schur complement entry (j + r, j + c), r, c = 0..u.
-    W = np.zeros((B, p, p))
+    # Window W[r, c, b] = Schur complement entry (j + r, j + c), r, c = 0..u.
+    W = np.zeros((p, p, B))
     for r in range(p):
         for c in range(r, p):
             if c < n:
-                W[:, r, c] = ab[:, u - (c - r), c]
-                W[:, c, r] = W[:, r, c]
+                W[r, c] = ab[u - (c - r), c]
+                W[c, r] = W[r, c]
             elif r == c:
-                W[:, r, c] = 1.0  # padding beyond the matrix end
+                W[r, c] = 1.0  # padding beyond the matrix end
     with np.errstate(invalid="ignore", divide="ignore"):
         for j in range(n):
-            piv = np.sqrt(W[:, 0, 0])
-            col = W[:, 1:, 0] / piv[:, None]
-            Lb[:, 0, j] = piv
-            Lb[:, 1:, j] = col
-            W[:, :u, :u] = W[:, 1:, 1:] - col[:, :, None] * col[:, None, :]
+            piv = np.sqrt(W[0, 0])
+            col = W[1:, 0] / piv
+            Lb[0, j] = piv
+            Lb[1:, j] = col
+            W[:u, :u] = W[1:, 1:] - col[:, None] * col[None, :]
             nxt = j + p  # the DOF entering the window
             if nxt < n:
-                W[:, :, u] = ab[:, :, nxt]  # A[nxt - u + r, nxt] for r = 0..u
-                W[:, u, :] = W[:, :, u]
+                W[:, u] = ab[:, nxt]  # A[nxt - u + r, nxt] for r = 0..u
+                W[u, :] = ab[:, nxt]
             else:
-                W[:, :, u] = 0.0
-                W[:, u, :] = 0.0
-                W[:, u, u] = 1.0
-    # Entries below the matrix end are meaningless; zero them for clean storage.
+                W[:, u] = 0.0
+                W[u, :] = 0.0
+                W[u, u] = 1.0
     for d in range(1, p):
-        Lb[:, d, n - d :] = 0.0
+        Lb[d, n - d :] = 0.0  # entries past the matrix end
     return Lb
 
 
@@ -92,27 +119,27 @@ def solve_banded_batch(Lb: Array, b: Array) -> Array:
     Parameters
     ----------
     Lb:
-        Factors from :func:`cholesky_banded_batch`, shape (B, u+1, n).
+        Factors from :func:`cholesky_banded_batch`, shape (u+1, n, B).
     b:
-        Right-hand sides, shape (B, n, m).
+        Right-hand sides, shape (n, m, B).
 
     Returns
     -------
     numpy.ndarray
-        x, shape (B, n, m).
+        x, shape (n, m, B).
     """
-    _, p, n = Lb.shape
+    p, n, _ = Lb.shape
     y = np.array(b, dtype=float, copy=True)
     for j in range(n):  # forward: L y = b
-        y[:, j] /= Lb[:, 0, j, None]
+        y[j] /= Lb[0, j]
         k = min(p - 1, n - 1 - j)
         if k:
-            y[:, j + 1 : j + 1 + k] -= Lb[:, 1 : 1 + k, j, None] * y[:, j, None, :]
+            y[j + 1 : j + 1 + k] -= Lb[1 : 1 + k, j][:, None, :] * y[j][None]
     for j in range(n - 1, -1, -1):  # backward: L^T x = y
         k = min(p - 1, n - 1 - j)
         if k:
-            y[:, j] -= np.einsum("bd,bdm->bm", Lb[:, 1 : 1 + k, j], y[:, j + 1 : j + 1 + k])
-        y[:, j] /= Lb[:, 0, j, None]
+            y[j] -= np.sum(Lb[1 : 1 + k, j][:, None, :] * y[j + 1 : j + 1 + k], axis=0)
+        y[j] /= Lb[0, j]
     return y
 
 
@@ -134,6 +161,10 @@ class BatchSolution:
     u: Array
     reactions: Array
     min_pivot: Array
+
+
+#: Variants handled per chunk (keeps the working set in cache).
+CHUNK = 2048
 
 
 def solve_planar_batch(
@@ -162,7 +193,7 @@ def solve_planar_batch(
     F:
         Nodal loads [N, N*mm], shape (2n, m) shared or (B, 2n, m) per variant.
     q:
-        Optional uniform transverse load per element [N/mm], shape (n - 1, m) or
+        Optional uniform transverse load per element [N/mm], shape (n - 1, m) shared or
         (B, n - 1, m).
     label:
         Names the system in error messages.
@@ -176,8 +207,8 @@ def solve_planar_batch(
     Raises
     ------
     NumericalError
-        The supports leave a rigid-body motion free (checked once, message names the
-        direction), or some variant's factorisation fails (message names the variants).
+        The supports leave a rigid-body motion free (checked once, the message names
+        the direction), or some variants' factorisation fails (the message lists them).
     """
     x = np.asarray(x_mm, dtype=float)
     L = np.diff(x)
@@ -185,72 +216,93 @@ def solve_planar_batch(
     B, n_e = EI.shape
     if n_e != L.size:
         raise ValueError(f"EI_Nmm2 must have shape (B, {L.size}), got {EI.shape}")
+    kGA = None if kGA_N is None else np.broadcast_to(np.asarray(kGA_N, dtype=float), EI.shape)
     sups, rigid, springs = planar_support_dofs(supports, x.size, label)
     check_planar_mechanism(sups, x, label)  # once: topology is shared by all variants
-    phi = 0.0 if kGA_N is None else shear_parameter(EI, np.atleast_2d(kGA_N), L)
-    ke = beam_stiffness(EI, L, phi)  # (B, n_e, 4, 4)
-    ab_shaft = assemble_banded(ke, 2)  # (B, 4, 2n)
     n = 2 * x.size
-    u_band = 3
-    ab = ab_shaft.copy()
-    ab[:, u_band] += springs
-    r = np.flatnonzero(rigid)
-    if r.size:
-        ab[:, :, r] = 0.0
-        for d in range(1, u_band + 1):
-            cols = r + d
-            ab[:, u_band - d, cols[cols < n]] = 0.0
-        ab[:, u_band, r] = 1.0
-    diag = ab[:, u_band]
-    if np.any(~(diag > 0.0)):
-        bad = np.flatnonzero(np.any(~(diag > 0.0), axis=1))
-        raise NumericalError(f"{label}: zero or invalid stiffness in variants {bad[:10].tolist()}")
-    s = 1.0 / np.sqrt(diag)  # (B, n)
-    for d in range(1, u_band + 1):
-        ab[:, u_band - d, d:] *= s[:, d:] * s[:, :-d]
-    ab[:, u_band] = 1.0
-    Lb = cholesky_banded_batch(ab)
-    piv = Lb[:, 0] ** 2
-    min_piv = np.min(piv, axis=1)
-    bad = np.flatnonzero(~(min_piv >= pivot_tol))
-    if bad.size:
-        raise NumericalError(
-            f"{label}: stiffness not positive definite or (nearly) a mechanism in variants "
-            f"{bad[:10].tolist()}{' ...' if bad.size > 10 else ''}"
-        )
-
     Fa = np.asarray(F, dtype=float)
     if Fa.ndim == 1:
         Fa = Fa[:, None]
-    if Fa.ndim == 2:
-        Fa = np.broadcast_to(Fa, (B, *Fa.shape))
-    if Fa.shape[:2] != (B, n):
+    shared_F = Fa.ndim == 2
+    if (shared_F and Fa.shape[0] != n) or (not shared_F and Fa.shape[:2] != (B, n)):
         raise ValueError(f"F must have shape ({n}, m) or ({B}, {n}, m), got {np.shape(F)}")
-    m = Fa.shape[2]
-    Ft = np.array(Fa, dtype=float, copy=True)
-    if q is not None:
-        qa = np.asarray(q, dtype=float)
-        if qa.ndim == 1:
-            qa = qa[:, None]
-        qa = np.broadcast_to(qa, (B, n_e, m))
-        fe = uniform_load(qa, L[None, :, None])  # (B, n_e, m, 4)
-        for a in range(4):
-            Ft[:, a : a + 2 * n_e : 2] += fe[..., a]
-    rhs = s[:, :, None] * Ft
-    rhs[:, rigid] = 0.0
-    u = s[:, :, None] * solve_banded_batch(Lb, rhs)
+    m = Fa.shape[-1]
+    qa = None if q is None else np.asarray(q, dtype=float)
+    if qa is not None and qa.ndim == 1:
+        qa = qa[:, None]
 
-    # Reactions: K_shaft u - F at rigid DOFs, -k u at springs.
-    Ku = ab_shaft[:, u_band, :, None] * u
-    for d in range(1, u_band + 1):
-        off = ab_shaft[:, u_band - d, d:, None]
-        Ku[:, :-d] += off * u[:, d:]
-        Ku[:, d:] += off * u[:, :-d]
-    rigid_r = Ku - Ft
-    reac = np.zeros((B, len(sups), 2, m))
-    for j, sup in enumerate(sups):
-        for c, (dof, k) in enumerate(
-            ((2 * sup.node, sup.k_t_N_mm), (2 * sup.node + 1, sup.k_r_Nmm_rad or 0.0))
-        ):
-            reac[:, j, c] = rigid_r[:, dof] if math.isinf(k) else -k * u[:, dof]
-    return BatchSolution(u=u, reactions=reac, min_pivot=min_piv)
+    u_out = np.empty((B, n, m))
+    r_out = np.empty((B, len(sups), 2, m))
+    piv_out = np.empty(B)
+    bad: list[int] = []
+    for lo in range(0, B, CHUNK):
+        hi = min(B, lo + CHUNK)
+        EIc = EI[lo:hi].T  # (n_e, b)
+        Phi = 0.0 if kGA is None else 12.0 * EIc / (kGA[lo:hi].T * L[:, None] ** 2)
+        ab_shaft = _planar_band(EIc, L[:, None], Phi)  # (4, n, b)
+        Ft = np.array(
+            np.broadcast_to(Fa[:, :, None], (n, m, hi - lo))
+            if shared_F
+            else np.moveaxis(Fa[lo:hi], 0, -1),
+            dtype=float,
+        )  # (n, m, b)
+        if qa is not None:
+            qc = qa[:, :, None] if qa.ndim == 2 else np.moveaxis(qa[lo:hi], 0, -1)
+            qL = 0.5 * qc * L[:, None, None]  # (n_e, m, b) or (n_e, m, 1)
+            qL2 = qc * (L**2 / 12.0)[:, None, None]
+            Ft[0 : 2 * n_e : 2] += qL
+            Ft[1 : 2 * n_e : 2] += qL2
+            Ft[2 : 2 * n_e + 2 : 2] += qL
+            Ft[3 : 2 * n_e + 3 : 2] -= qL2
+        u_c, min_piv = _solve_chunk(ab_shaft, rigid, springs, Ft)
+        piv_out[lo:hi] = min_piv
+        bad.extend((lo + np.flatnonzero(~(min_piv >= pivot_tol))).tolist())
+        # Reactions: K_shaft u - F at rigid DOFs, -k u at springs.
+        Ku = ab_shaft[3][:, None, :] * u_c
+        for d in range(1, 4):
+            off = ab_shaft[3 - d, d:][:, None, :]
+            Ku[:-d] += off * u_c[d:]
+            Ku[d:] += off * u_c[:-d]
+        rigid_r = Ku - Ft
+        for j, sup in enumerate(sups):
+            for c, (dof, k) in enumerate(
+                ((2 * sup.node, sup.k_t_N_mm), (2 * sup.node + 1, sup.k_r_Nmm_rad or 0.0))
+            ):
+                val = rigid_r[dof] if math.isinf(k) else -k * u_c[dof]
+                r_out[lo:hi, j, c] = val.T
+        u_out[lo:hi] = np.moveaxis(u_c, -1, 0)
+    if bad:
+        raise NumericalError(
+            f"{label}: stiffness not positive definite or (nearly) a mechanism in "
+            f"{len(bad)} variant(s), e.g. {bad[:10]}"
+        )
+    return BatchSolution(u=u_out, reactions=r_out, min_pivot=piv_out)
+
+
+def _solve_chunk(
+    ab_shaft: Array, rigid: NDArray[np.bool_], springs: Array, Ft: Array
+) -> tuple[Array, Array]:
+    """Eliminate, scale, factor and solve one chunk; returns u (n, m, b), min pivots (b,)."""
+    p, n, _ = ab_shaft.shape
+    u = p - 1
+    ab = ab_shaft.copy()
+    ab[u] += springs[:, None]
+    r = np.flatnonzero(rigid)
+    if r.size:
+        ab[:, r] = 0.0
+        for d in range(1, u + 1):
+            cols = r + d
+            ab[u - d, cols[cols < n]] = 0.0
+        ab[u, r] = 1.0
+    with np.errstate(invalid="ignore", divide="ignore"):
+        s = 1.0 / np.sqrt(ab[u])  # (n, b); NaN/inf flags a bad variant via its pivots
+        for d in range(1, u + 1):
+            ab[u - d, d:] *= s[d:] * s[:-d]
+        ab[u] = 1.0
+        Lb = cholesky_banded_batch(ab)
+        min_piv = np.min(Lb[0] ** 2, axis=0)
+        min_piv[~np.all(np.isfinite(s), axis=0)] = np.nan
+        rhs = s[:, None, :] * Ft
+        rhs[rigid] = 0.0
+        x = s[:, None, :] * solve_banded_batch(Lb, rhs)
+    return x, min_piv

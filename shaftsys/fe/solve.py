@@ -35,12 +35,15 @@ Displacements, loads and reactions are positive along +u (or +x), rotations and 
 positive in the phi sense (see :mod:`shaftsys.fe.beam`). Reactions are the forces and
 moments the supports exert ON THE SHAFT. Internal forces are those the part of the
 shaft right of a cut (larger x) exerts on the part left of it, i.e. the usual stress
-resultants on a face with outward normal +x::
+resultants on a face with outward normal +x. Drawn for the x-y plane (u = v up)::
 
-                  Q ^
-      left part   | ___
-    ======.=======|/   \\  M_phi (counter-clockwise drawn for the x-y plane, u up)
-          cut     +---->  N (tension positive), T (about +x)
+    u ^
+      |                               Q ^   <--.
+      |   +-------------------------+   |       |  M_phi (counter-clockwise)
+      |   |  part of the shaft LEFT |---+--> N -'   T: moment about +x
+      |   |  of the cut             |   cut at x
+      |   +-------------------------+
+      +-------------------------------------------> x
 
 With u up and a downward point load P at x = a on a simply supported span L
 (b = L - a), the reactions are +P b / L and +P a / L (upward), and::
@@ -87,6 +90,7 @@ __all__ = [
     "PlanarBending",
     "Support",
     "assemble_banded",
+    "banded_matmul",
     "bar_stiffness_banded",
     "bar_support_dofs",
     "check_planar_mechanism",
@@ -406,8 +410,21 @@ def bar_stiffness_banded(L_mm: ArrayLike, rigidity: ArrayLike) -> Array:
     return assemble_banded(bar_stiffness(rigidity, L_mm), 1)
 
 
-def _banded_matmul(ab: Array, x: Array) -> Array:
-    """Product of a symmetric upper-band matrix (u+1, n) with x (n, m)."""
+def banded_matmul(ab: Array, x: Array) -> Array:
+    """Product of a symmetric matrix in upper band storage with a block of vectors.
+
+    Parameters
+    ----------
+    ab:
+        Upper band storage (u+1, n) (as :func:`assemble_banded`; any unit).
+    x:
+        Vectors, shape (n, m).
+
+    Returns
+    -------
+    numpy.ndarray
+        K @ x, shape (n, m).
+    """
     u = ab.shape[0] - 1
     y = ab[u][:, None] * x
     for d in range(1, u + 1):
@@ -415,6 +432,9 @@ def _banded_matmul(ab: Array, x: Array) -> Array:
         y[:-d] += off * x[d:]
         y[d:] += off * x[:-d]
     return y
+
+
+_banded_matmul = banded_matmul  # kept for callers that imported the private name
 
 
 # ------------------------------------------------------------------ factored system
@@ -664,6 +684,15 @@ class PlanarBending:
         n_e = self.L_mm.size
         self.EI_Nmm2 = np.broadcast_to(np.asarray(EI_Nmm2, dtype=float), (n_e,))
         self.kGA_N = None if kGA_N is None else np.broadcast_to(np.asarray(kGA_N, float), (n_e,))
+        if not (
+            np.all(self.L_mm > 0.0)
+            and np.all(self.EI_Nmm2 > 0.0)
+            and (self.kGA_N is None or np.all(self.kGA_N > 0.0))
+        ):
+            raise ModelError(
+                f"{label}: node positions must increase and element rigidities be > 0",
+                expected="x strictly increasing, EI > 0 N*mm^2, kGA > 0 N",
+            )
         self.label = label
         self.phi_shear = (
             np.zeros(n_e)
@@ -877,7 +906,7 @@ class PlanarBending:
 
     def _shaft_forces(self, u: Array) -> Array:
         """K_shaft u (2n, m) without springs."""
-        return _banded_matmul(self.ab, u)
+        return banded_matmul(self.ab, u)
 
     def reactions(self, u: ArrayLike, F: ArrayLike, q: ArrayLike | None = None) -> Array:
         """Force and moment each support exerts on the shaft.
@@ -1002,6 +1031,11 @@ class Bar:
         self.x_mm = x
         self.L_mm = np.diff(x)
         self.rigidity = np.broadcast_to(np.asarray(rigidity, dtype=float), self.L_mm.shape)
+        if not (np.all(self.L_mm > 0.0) and np.all(self.rigidity > 0.0)):
+            raise ModelError(
+                f"{self.label}: node positions must increase and element rigidities be > 0",
+                expected="x strictly increasing, rigidity > 0",
+            )
         self.ke = bar_stiffness(self.rigidity, self.L_mm)
         self.ab = assemble_banded(self.ke, 1)
         n = x.size
@@ -1097,7 +1131,7 @@ class Bar:
         """Force [N] or torque [N*mm] each support exerts on the shaft, shape (n_sup, m)."""
         uc = _as_columns(u, self.n_nodes, "u")
         Ft = self._total_load(_as_columns(F, self.n_nodes, "F"), self._p_columns(p, uc.shape[1]))
-        rigid_r = _banded_matmul(self.ab, uc) - Ft
+        rigid_r = banded_matmul(self.ab, uc) - Ft
         out = np.zeros((len(self.supports), uc.shape[1]))
         for j, s in enumerate(self.supports):
             out[j] = rigid_r[s.node] if math.isinf(s.k) else -s.k * uc[s.node]
@@ -1125,7 +1159,7 @@ class Bar:
         """Relative residual ||K u - F - R|| / ||F|| per load case (m,) [-]."""
         uc = _as_columns(u, self.n_nodes, "u")
         Ft = self._total_load(_as_columns(F, self.n_nodes, "F"), self._p_columns(p, uc.shape[1]))
-        r = _banded_matmul(self.ab, uc) + self.spring_diag[:, None] * uc - Ft
+        r = banded_matmul(self.ab, uc) + self.spring_diag[:, None] * uc - Ft
         r[self.rigid] = 0.0
         norm_f = np.linalg.norm(Ft, axis=0)
         return np.asarray(np.linalg.norm(r, axis=0) / np.where(norm_f > 0.0, norm_f, 1.0))

@@ -8,6 +8,7 @@ import contextlib
 import json
 import math
 import os
+import stat
 import tempfile
 from collections.abc import Callable
 from pathlib import Path
@@ -33,7 +34,12 @@ def atomic_write(path: str | Path, write: Callable[[BinaryIO], None]) -> Path:
     fd = -1
     tmp = ""
     try:
+        mode = _file_mode(target)
         fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".part", dir=folder)
+        # mkstemp creates the file readable by its owner only (0600); give the result
+        # the permissions an ordinary new file (or the file it replaces) would have.
+        with contextlib.suppress(OSError):
+            os.chmod(tmp, mode)
         with os.fdopen(fd, "wb") as fh:
             fd = -1
             write(fh)
@@ -52,6 +58,20 @@ def atomic_write(path: str | Path, write: Callable[[BinaryIO], None]) -> Path:
             with contextlib.suppress(OSError):
                 os.unlink(tmp)
     return target
+
+
+def _file_mode(target: Path) -> int:
+    """Permission bits for ``target``.
+
+    Those of the file it replaces, else 0o666 minus the process umask (what
+    ``open(path, "w")`` would give).
+    """
+    try:
+        return stat.S_IMODE(target.stat().st_mode)
+    except OSError:
+        mask = os.umask(0)
+        os.umask(mask)
+        return 0o666 & ~mask
 
 
 def json_ready(value: Any) -> Any:
