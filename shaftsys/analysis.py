@@ -43,6 +43,8 @@ from shaftsys.units import DENSITY_KG_PER_MM3
 if TYPE_CHECKING:
     import pandas as pd
 
+    from shaftsys.machine.flow import CaseFlow
+
     from shaftsys.bearings.engine import BearingLife
 
 log = logging.getLogger(__name__)
@@ -189,6 +191,7 @@ class Result:
     limiting_bearing: str | None = None
     warnings: tuple[str, ...] = ()
     checks: Any = None  # shaftsys.shaft_checks.ShaftChecks, attached by analyse()
+    flows: tuple[CaseFlow, ...] = ()  # machine models: power flow of every case
 
     @property
     def ok(self) -> bool:
@@ -235,26 +238,53 @@ class Result:
 
 
 # ----------------------------------------------------------------------------- loads
-def element_loads(model: Model, shaft: Shaft, case: Case
+def shaft_speed(shaft: Shaft, case: Case, flow: CaseFlow | None = None) -> float:
+    """Signed speed [rpm] of ``shaft`` in ``case``."""
+    if flow is not None:
+        return flow.speed_rpm[shaft.id]
+    drive = case.drives.get(shaft.id)
+    return drive.speed_rpm if drive else 0.0
+
+
+def element_loads(model: Model, shaft: Shaft, case: Case, flow: CaseFlow | None = None
                   ) -> tuple[list[AppliedLoad], list[str]]:
     """Every load applied to ``shaft`` in ``case`` (without bearing reactions).
 
-    Element torques follow the case's drive: the input element applies the input
-    torque, each output ``-share`` of it; other torque-carrying elements none.
-    Returns the loads and the warnings (belt slip...).
+    Single shafts: the input element applies the input torque, each output ``-share``
+    of it; other torque-carrying elements none. Machine models (``flow`` given): torques
+    come from the power flow and linked elements carry the link forces (and the loss
+    torque on the driven side). Returns the loads and the warnings (belt slip...).
     """
-    drive = case.drives.get(shaft.id)
-    speed = drive.speed_rpm if drive else 0.0
+    speed = shaft_speed(shaft, case, flow)
     torque: dict[str, float] = {}
-    if drive is not None and drive.input_element is not None:
-        torque[drive.input_element] = drive.input_torque_Nmm
-        for out_id, share in drive.outputs:
-            torque[out_id] = -share * drive.input_torque_Nmm
-    overrides = {ld.element: ld for ld in case.loads}
-    g = np.asarray(model.gravity_m_s2, dtype=float)
+    linked: set[str] = set()
     out: list[AppliedLoad] = []
     warnings: list[str] = []
+    if flow is not None:
+        torque = dict(flow.element_torque_Nmm)
+        for act in flow.actions:
+            if act.shaft == shaft.id:
+                linked.add(act.element)
+                out.append(AppliedLoad(act.element if act.label == act.element else
+                                       f"{act.element} {act.label}", act.x_mm, act.force_N,
+                                       act.moment_Nmm))
+        if shaft is model.shafts[0]:
+            warnings.extend(flow.warnings)
+    else:
+        drive = case.drives.get(shaft.id)
+        if drive is not None and drive.input_element is not None:
+            torque[drive.input_element] = drive.input_torque_Nmm
+            for out_id, share in drive.outputs:
+                torque[out_id] = -share * drive.input_torque_Nmm
+    overrides = {ld.element: ld for ld in case.loads}
+    g = np.asarray(model.gravity_m_s2, dtype=float)
     for el in shaft.elements:
+        if el.id in linked:
+            if el.mass_kg > 0 and np.any(g):
+                w = L.weight_load(el.mass_kg, g)
+                out.append(AppliedLoad(f"{el.id} weight", el.x_mm, _vec(w.force_N),
+                                       _vec(w.moment_Nmm)))
+            continue
         t = torque.get(el.id, 0.0)
         axis = _element_axis_load(el, t, speed, overrides)
         if axis is not None:
@@ -353,18 +383,24 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
     shaft_results: list[ShaftResult] = []
     bearing_results: list[BearingResult] = []
     warnings: list[str] = []
+    flows: list[CaseFlow | None] = [None] * len(model.cases)
+    if model.links:
+        from shaftsys.machine.flow import case_flow
+
+        flows = [case_flow(model, c) for c in model.cases]
     for shaft in model.shafts:
         sm = mesh_shaft(shaft, model.solver.max_element_mm)
         applied_all: list[list[AppliedLoad]] = []
-        for case in model.cases:
-            applied, w = element_loads(model, shaft, case)
+        for case, flow in zip(model.cases, flows, strict=True):
+            applied, w = element_loads(model, shaft, case, flow)
             applied_all.append(applied)
             warnings.extend(w)
         bending = solve_shaft_bending(shaft, sm, model, applied_all)
         cases: list[CaseSolution] = []
         per_bearing: dict[str, list[BearingCaseLoad]] = {b.id: [] for b in shaft.bearings}
         for k, case in enumerate(model.cases):
-            sol, bl = _finish_case(model, shaft, sm, case, applied_all[k], bending, k)
+            sol, bl = _finish_case(model, shaft, sm, case, applied_all[k], bending, k,
+                                   flows[k])
             cases.append(sol)
             for bid, ld in bl.items():
                 per_bearing[bid].append(ld)
@@ -372,7 +408,8 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
         for b in shaft.bearings:
             bearing_results.append(BearingResult(shaft.id, b, tuple(per_bearing[b.id])))
     result = Result(model, tuple(shaft_results), tuple(bearing_results),
-                    warnings=tuple(dict.fromkeys(warnings)))
+                    warnings=tuple(dict.fromkeys(warnings)),
+                    flows=tuple(f for f in flows if f is not None))
     if with_life:
         from shaftsys.life_check import attach_life
 
@@ -387,14 +424,15 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
 
 
 def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
-                 applied: list[AppliedLoad], bending: Any, k: int
+                 applied: list[AppliedLoad], bending: Any, k: int,
+                 flow: CaseFlow | None = None
                  ) -> tuple[CaseSolution, dict[str, BearingCaseLoad]]:
     """Axial arrangement, torsion, internal forces and equilibrium for one case."""
     mesh = sm.mesh
     x = mesh.x_mm
     n = mesh.n_nodes
     drive = case.drives.get(shaft.id)
-    speed = drive.speed_rpm if drive else 0.0
+    speed = shaft_speed(shaft, case, flow)
     # --- nodal axial forces and torques of the applied loads (+ shaft weight, axial part)
     fx = np.zeros(n)
     mx = np.zeros(n)
@@ -478,7 +516,7 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
 
 
 def _node_of(sm: ShaftMesh, source: str, x_mm: float) -> int:
-    name = source.removesuffix(" weight")
+    name = source.split(" ")[0]
     if name in sm.element_nodes:
         return sm.element_nodes[name]
     return int(np.argmin(np.abs(sm.mesh.x_mm - x_mm)))

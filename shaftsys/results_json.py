@@ -67,6 +67,7 @@ def result_to_dict(result: Result) -> dict[str, Any]:
                 {"case": ld.case, "Fy_N": ld.Fy_N, "Fz_N": ld.Fz_N, "Fr_N": ld.Fr_N,
                  "Fx_N": ld.Fx_N, "Fa_N": ld.Fa_N, "speed_rpm": ld.speed_rpm,
                  "induced_axial_N": ld.induced_N, "deflection_mm": ld.deflection_mm,
+                 "F_housing_N": _housing(b.shaft_id, result, (ld.Fx_N, ld.Fy_N, ld.Fz_N)),
                  "slope_rad": ld.slope_rad}
                 for ld in b.loads
             ],
@@ -79,6 +80,11 @@ def result_to_dict(result: Result) -> dict[str, Any]:
                     item["misalignment"] = bc
         item["ok"] = b.ok
         data["bearings"].append(item)
+    if result.flows:
+        data["links"] = _links(result)
+        data["power_balance"] = [
+            {"case": f.case, "power_in_W": f.power_in_W, "power_out_W": f.power_out_W,
+             "loss_W": f.loss_W} for f in result.flows]
     if result.checks is not None:
         checks = result.checks.to_dict()
         data["gears"] = checks["gears"]
@@ -86,3 +92,34 @@ def result_to_dict(result: Result) -> dict[str, Any]:
     data["system"] = {"life_h": result.system_life_h,
                       "limiting_bearing": result.limiting_bearing}
     return data
+
+
+def _housing(shaft_id: str, result: Result, force: tuple[float, float, float]
+             ) -> list[float]:
+    """A shaft-frame force in the housing frame (identity for unplaced single shafts)."""
+    from shaftsys.machine.geometry import to_housing
+
+    shaft = result.model.shaft(shaft_id)
+    return [float(v) for v in to_housing(shaft, force)]
+
+
+def _links(result: Result) -> list[dict[str, Any]]:
+    """Per link and case: driver, power, loss and the force on each member (housing)."""
+    out: list[dict[str, Any]] = []
+    for link in result.model.links:
+        cases = []
+        for flow in result.flows:
+            lf = next(x for x in flow.links if x.link_id == link.id)
+            cases.append({
+                "case": flow.case,
+                "driver": lf.members[lf.driver],
+                "power_W": lf.power_W,
+                "loss_W": lf.loss_W,
+                "members": [
+                    {"element": lf.members[i], "F_housing_N": list(lf.force_housing_N[i])}
+                    for i in (0, 1)
+                ],
+            })
+        out.append({"id": link.id, "type": link.kind, "members": list(link.members),
+                    "efficiency": link.efficiency, "cases": cases})
+    return out

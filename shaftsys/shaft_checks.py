@@ -46,8 +46,8 @@ N*mm, N, degC.
    reversed (amplitude M; loads turning with the shaft, such as unbalance, are counted
    as alternating too, which is conservative); torque and axial force are mean unless
    they change sign between cases (:func:`~shaftsys.checks.classify_section_loads`,
-   rule ``"reversal"``). The classification runs over the duty and peak cases together
-   (an envelope; ``fatigue_cases="duty"`` leaves peak cases out). First-cycle yield is
+   rule ``"reversal"``). The classification runs over the duty cases (peak and static
+   cases feed the yield check only; ``fatigue_cases="duty_and_peak"`` gives an envelope). First-cycle yield is
    Sy over the largest peak von Mises stress of any single case (duty, peak, static)
    and of the fatigue classification. Marin factors: the section step's surface finish,
    the model's target reliability, the highest given temperature of the cases used (20
@@ -89,7 +89,6 @@ from shaftsys.fe.solve import Support
 from shaftsys.model import (
     BearingKind,
     BevelGear,
-    Case,
     CaseKind,
     Coupling,
     Gear,
@@ -140,7 +139,8 @@ class ShaftCheckSettings:
         [-] (common practice, no source).
     criterion: ``"goodman"`` (DE-Goodman) or ``"asme_elliptic"`` (DE-ASME elliptic).
     fluctuation_rule: ``"reversal"`` or ``"range"`` (see ``classify_section_loads``).
-    fatigue_cases: ``"duty_and_peak"`` (default) or ``"duty"``: cases classified for fatigue.
+    fatigue_cases: ``"duty"`` (default: peak and static cases feed the strength (yield)
+        check only, as the model file defines them) or ``"duty_and_peak"`` (an envelope).
     required_fatigue_safety, required_yield_safety: required safety factors [-]
         (common practice, no source).
     rotary_inertia: include the shaft's distributed rotary inertia rho*I in the bending modes.
@@ -154,7 +154,7 @@ class ShaftCheckSettings:
     critical_speed_margin: float = DEFAULT_CRITICAL_SPEED_MARGIN
     criterion: str = "goodman"
     fluctuation_rule: str = "reversal"
-    fatigue_cases: str = "duty_and_peak"
+    fatigue_cases: str = "duty"
     required_fatigue_safety: float = DEFAULT_REQUIRED_FATIGUE_SAFETY
     required_yield_safety: float = DEFAULT_REQUIRED_YIELD_SAFETY
     rotary_inertia: bool = False
@@ -511,19 +511,15 @@ def _first_nonzero(rpm: NDArray[np.float64]) -> float:
     return float(nonzero[0]) if nonzero.size else math.inf
 
 
-def _case_speed(case: Case, shaft_id: str) -> float:
-    drive = case.drives.get(shaft_id)
-    return abs(drive.speed_rpm) if drive is not None else 0.0
-
-
 def _shaft_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings) -> ShaftCheck:
     shaft = sr.shaft
     notes: list[str] = ["critical speeds of the non-rotating shaft: gyroscopic effects and "
                         "speed-dependent bearing stiffness are left out"]
     f_bend, f_tors = critical_speeds_rpm(shaft, model, max_element_mm=st.max_element_mm,
                                          rotary_inertia=st.rotary_inertia)
-    speeds = [_case_speed(c, shaft.id) for c in model.cases
-              if c.kind in (CaseKind.DUTY, CaseKind.PEAK)]
+    kinds = {c.id: c.kind for c in model.cases}
+    speeds = [abs(cs.speed_rpm) for cs in sr.cases
+              if kinds[cs.case] in (CaseKind.DUTY, CaseKind.PEAK)]
     n_max = max(speeds, default=0.0)
     margin = st.critical_speed_margin
     supercritical = False

@@ -13,7 +13,7 @@ from typing import Any
 
 from shaftsys.errors import ModelError
 from shaftsys.io import spec as S
-from shaftsys.io.spec import Where, read_section, read_value, require_mapping
+from shaftsys.io.spec import Where, read_section, read_value, require_list, require_mapping
 from shaftsys.io.yamlsource import MAX_FILE_BYTES, LocatedDict, LocatedList, parse_yaml
 from shaftsys.model import (
     AxialRole,
@@ -28,6 +28,7 @@ from shaftsys.model import (
     ElementLoad,
     Gear,
     LifeSettings,
+    Link,
     Lubrication,
     LumpedMass,
     Material,
@@ -93,18 +94,21 @@ def build_model(raw: Any, file: str | None = None) -> Model:
     values = read_section(top, raw, S.MODEL)
     materials = _read_materials(top, raw.get("materials"))
     ids: dict[str, str] = {}
+    linked = _linked_elements(values["links"])
     shafts_raw = values["shafts"]
     shafts = []
     for i, item in enumerate(shafts_raw):
-        shafts.append(_read_shaft(Where(file, "shafts", shafts_raw), i, item, materials, ids))
+        shafts.append(_read_shaft(Where(file, "shafts", shafts_raw), i, item, materials, ids,
+                                  linked))
     if not shafts:
         raise top.error("shafts", "the model has no shaft", "at least one shaft")
     life = _read_life(top, raw.get("life"))
     lubrication = _read_lubrication(top, raw.get("lubrication"))
     solver = _read_solver(top, raw.get("solver"))
     gravity = values["gravity"] if values["gravity"] is not None else (0.0, -9.80665, 0.0)
+    links = _read_links(Where(file, "links", values["links"]), values["links"], shafts)
     cases, in_hours = _read_cases(Where(file, "cases", values["cases"]), values["cases"],
-                                  shafts)
+                                  shafts, bool(links))
     model = Model(
         name=values["name"],
         shafts=tuple(shafts),
@@ -115,7 +119,12 @@ def build_model(raw: Any, file: str | None = None) -> Model:
         lubrication=lubrication,
         solver=solver,
         source=file,
+        links=tuple(links),
     )
+    if links:
+        from shaftsys.machine.geometry import check_machine
+
+        check_machine(model)
     return model
 
 
@@ -147,8 +156,29 @@ def _claim_id(where: Where, key: str | int, ident: str, what: str, ids: dict[str
     ids[ident] = what
 
 
+def _linked_elements(raw: Any) -> set[str]:
+    """Ids of the elements that some link names (read before the shafts)."""
+    out: set[str] = set()
+    if isinstance(raw, LocatedList):
+        for item in raw:
+            if isinstance(item, LocatedDict) and isinstance(item.get("members"), LocatedList):
+                out.update(str(m) for m in item["members"])
+    return out
+
+
+def _unit_vector(where: Where, key: str, value: tuple[float, float, float] | None,
+                 default: tuple[float, float, float] | None
+                 ) -> tuple[float, float, float] | None:
+    if value is None:
+        return default
+    norm = math.sqrt(sum(c * c for c in value))
+    if norm < 1e-12:
+        raise where.error(key, "a direction cannot be the zero vector", "e.g. [1, 0, 0]")
+    return (value[0] / norm, value[1] / norm, value[2] / norm)
+
+
 def _read_shaft(where: Where, index: int, item: Any, materials: dict[str, Material],
-                ids: dict[str, str]) -> Shaft:
+                ids: dict[str, str], linked: set[str] | None = None) -> Shaft:
     v = read_section(where, item, S.SHAFT, index)
     sid = v["id"]
     here = where.child(index, item, label=sid)
@@ -171,9 +201,17 @@ def _read_shaft(where: Where, index: int, item: Any, materials: dict[str, Materi
     elements: list[Element] = []
     if v["elements"] is not None:
         ew = here.child("elements", v["elements"])
-        elements = [_read_element(ew, i, e, length, ids) for i, e in enumerate(v["elements"])]
+        elements = [_read_element(ew, i, e, length, ids, linked or set())
+                    for i, e in enumerate(v["elements"])]
+    axis = _unit_vector(here, "axis", v["axis"], (1.0, 0.0, 0.0))
+    up = _unit_vector(here, "up", v["up"], None)
+    assert axis is not None
+    if up is not None and abs(sum(a * b for a, b in zip(axis, up, strict=True))) > 0.999:
+        raise here.error("up", "'up' is (nearly) parallel to the shaft axis",
+                         "a direction across the axis")
     shaft = Shaft(id=sid, steps=tuple(steps), material=material, bearings=tuple(bearings),
-                  elements=tuple(elements), line=here.line_of(None))
+                  elements=tuple(elements), line=here.line_of(None),
+                  origin_mm=v["origin"] or (0.0, 0.0, 0.0), axis=axis, up=up)
     _check_support(here, shaft, bearings_raw)
     return shaft
 
@@ -250,8 +288,22 @@ def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[
     )
 
 
-def _read_element(where: Where, index: int, item: Any, length: float, ids: dict[str, str]
-                  ) -> Element:
+def _geometry_angle(here: Where, v: dict[str, Any], key: str, linked: bool) -> float:
+    """An angle that single shafts state and machine links derive from the geometry."""
+    if linked:
+        if v[key] is not None:
+            raise here.error(key, f"'{key}' of a linked element follows from the shaft "
+                             "positions in a machine model; remove it",
+                             "no angle on elements that a link joins")
+        return 0.0
+    if v[key] is None:
+        raise here.error(None, f"'{key}' is missing: say where the mating member sits, or "
+                         "join the element to its mate with a link", f"a key '{key}'")
+    return float(v[key])
+
+
+def _read_element(where: Where, index: int, item: Any, length: float, ids: dict[str, str],
+                  linked_ids: set[str]) -> Element:
     mapping = require_mapping(where, index, item)
     etype = mapping.get("type")
     if not isinstance(etype, str) or etype not in S.ELEMENT_TYPES:
@@ -262,6 +314,7 @@ def _read_element(where: Where, index: int, item: Any, length: float, ids: dict[
     eid = v["id"]
     here = where.child(index, mapping, label=eid)
     _claim_id(here, "id", eid, "element", ids)
+    linked = eid in linked_ids
     if not 0.0 <= v["at"] <= length + _TOL_MM:
         raise here.error("at", f"element at {v['at']:g} mm is outside the shaft "
                          f"(0 to {length:g} mm)", f"a station between 0 and {length:g} mm")
@@ -282,22 +335,29 @@ def _read_element(where: Where, index: int, item: Any, length: float, ids: dict[
             d = v["module"] * v["teeth"] / math.cos(math.radians(helix))
         return Gear(**common, pitch_diameter_mm=d,  # type: ignore[arg-type]
                     normal_pressure_angle_deg=v["pressure_angle"], helix_angle_deg=helix,
-                    hand=v["hand"] if helix > 0 else None, mesh_angle_deg=v["mesh_angle"],
+                    hand=v["hand"] if helix > 0 else None,
+                    mesh_angle_deg=_geometry_angle(here, v, "mesh_angle", linked),
                     internal=v["internal"], normal_module_mm=v["module"], teeth=v["teeth"])
     if etype == "bevel_gear":
         return BevelGear(**common,  # type: ignore[arg-type]
                          mean_pitch_diameter_mm=v["mean_pitch_diameter"],
                          pitch_cone_angle_deg=v["pitch_cone_angle"],
                          pressure_angle_deg=v["pressure_angle"],
-                         mesh_angle_deg=v["mesh_angle"], apex=1 if v["apex"] == "+x" else -1)
+                         mesh_angle_deg=_geometry_angle(here, v, "mesh_angle", linked),
+                         apex=1 if v["apex"] == "+x" else -1)
     if etype == "pulley":
+        if not linked and v["pretension"] is None:
+            raise here.error(None, "'pretension' is missing", "pretension: 800 N")
         return Pulley(**common, diameter_mm=v["diameter"],  # type: ignore[arg-type]
-                      mesh_angle_deg=v["belt_angle"], wrap_angle_deg=v["wrap_angle"],
-                      pretension_N=v["pretension"], friction_coefficient=v["friction"],
+                      mesh_angle_deg=_geometry_angle(here, v, "belt_angle", linked),
+                      wrap_angle_deg=v["wrap_angle"],
+                      pretension_N=v["pretension"] or 0.0,
+                      friction_coefficient=v["friction"],
                       groove_angle_deg=v["groove_angle"])
     if etype == "sprocket":
         return Sprocket(**common, pitch_diameter_mm=v["pitch_diameter"],  # type: ignore[arg-type]
-                        mesh_angle_deg=v["chain_angle"], wrap_angle_deg=v["wrap_angle"])
+                        mesh_angle_deg=_geometry_angle(here, v, "chain_angle", linked),
+                        wrap_angle_deg=v["wrap_angle"])
     if etype == "coupling":
         return Coupling(**common, radial_force_N=v["radial_force"],  # type: ignore[arg-type]
                         radial_angle_deg=v["radial_angle"])
@@ -414,8 +474,50 @@ def _read_solver(top: Where, raw: Any) -> SolverSettings:
                           include_shaft_weight=v["shaft_weight"])
 
 
-def _read_cases(where: Where, raw: LocatedList, shafts: list[Shaft]
-                ) -> tuple[list[Case], bool]:
+def _read_links(where: Where, raw: LocatedList | None, shafts: list[Shaft]) -> list[Link]:
+    """Links between elements on different shafts; kinds must match their members."""
+    if raw is None:
+        return []
+    owner = {e.id: (s, e) for s in shafts for e in s.elements}
+    wanted = {"gear_mesh": Gear, "bevel_mesh": BevelGear, "belt": Pulley, "chain": Sprocket}
+    links: list[Link] = []
+    seen: set[str] = set()
+    for i, item in enumerate(raw):
+        v = read_section(where, item, S.LINK, i)
+        lid = v["id"]
+        here = where.child(i, item, label=lid)
+        if lid in seen:
+            raise here.error("id", f"link id '{lid}' is used twice", "unique link ids")
+        seen.add(lid)
+        members = require_list(here, "members", v["members"])
+        if len(members) != 2:
+            raise here.error("members", f"a link joins two elements, got {len(members)}",
+                             "[element_a, element_b]")
+        mw = here.child("members", members)
+        names = []
+        for k, m in enumerate(members):
+            name = str(m)
+            if name not in owner:
+                raise mw.error(k, f"no element '{name}'", "the id of an element on a shaft")
+            if not isinstance(owner[name][1], wanted[v["type"]]):
+                raise mw.error(k, f"'{name}' is a {owner[name][1].kind}, which a "
+                               f"{v['type']} cannot join",
+                               f"a {wanted[v['type']].__name__.lower()} element")
+            names.append(name)
+        if owner[names[0]][0].id == owner[names[1]][0].id:
+            raise here.error("members", "both members sit on the same shaft",
+                             "elements on two different shafts")
+        if v["type"] == "belt" and v["pretension"] is None:
+            raise here.error(None, "a belt link needs the installation 'pretension'",
+                             "pretension: 900 N")
+        links.append(Link(id=lid, kind=v["type"], members=(names[0], names[1]),
+                          efficiency=v["efficiency"], pretension_N=v["pretension"],
+                          line=here.line_of(None)))
+    return links
+
+
+def _read_cases(where: Where, raw: LocatedList, shafts: list[Shaft],
+                linked_model: bool = False) -> tuple[list[Case], bool]:
     cases: list[Case] = []
     ids: set[str] = set()
     uses_share: list[int] = []
@@ -452,7 +554,8 @@ def _read_cases(where: Where, raw: LocatedList, shafts: list[Shaft]
                              "time shares are mixed between fractions ('share') and "
                              "hours ('hours')", "the same one of share or hours in every "
                              "duty case")
-        drives = _read_drives(here, item, v, shafts)
+        drives = (_read_machine_drive(here, v, shafts) if linked_model
+                  else _read_drives(here, item, v, shafts))
         loads = _read_case_loads(here, v["loads"], item, elements)
         temperature = v["temperature"] if v["temperature"] is not None else float("nan")
         cases.append(Case(id=cid, kind=kind, duration=duration, drives=drives,
@@ -503,9 +606,29 @@ def _read_drives(here: Where, item: LocatedDict, v: dict[str, Any], shafts: list
     return drives
 
 
-def _drive(here: Where, v: dict[str, Any], shaft: Shaft) -> Drive:
+def _read_machine_drive(here: Where, v: dict[str, Any], shafts: list[Shaft]
+                        ) -> dict[str, Drive]:
+    """A machine case: speed of the input element's shaft, input and outputs anywhere."""
+    if v["shafts"] is not None:
+        raise here.error("shafts", "in a machine model with links every shaft's speed "
+                         "follows from the input; give speed, input and outputs once",
+                         "speed, input, outputs at the case's top level")
+    if v["speed"] is None or v["input"] is None:
+        raise here.error(None, "a machine case needs 'speed' and 'input' (the speed is that "
+                         "of the input element's shaft)", "speed: 1450 rpm, input: {...}")
+    element = v["input"].get("element") if isinstance(v["input"], LocatedDict) else None
+    owner = next((s for s in shafts for e in s.elements if e.id == element), None)
+    if owner is None:
+        # let _drive produce the located message about the input element
+        owner = shafts[0]
+    return {owner.id: _drive(here, v, owner, shafts)}
+
+
+def _drive(here: Where, v: dict[str, Any], shaft: Shaft,
+           machine: list[Shaft] | None = None) -> Drive:
     speed = v["speed"]
-    torque_elements = {e.id: e for e in shaft.elements if e.carries_torque}
+    torque_elements = {e.id: e for s in (machine or [shaft]) for e in s.elements
+                       if e.carries_torque}
     if v["input"] is None:
         if v.get("outputs"):
             raise here.error("outputs", "outputs without an input", "an 'input'")
@@ -514,8 +637,9 @@ def _drive(here: Where, v: dict[str, Any], shaft: Shaft) -> Drive:
     iw = here.child("input", v["input"])
     el = iv["element"]
     if el not in torque_elements:
-        raise iw.error("element", f"'{el}' is not a torque-carrying element of shaft "
-                       f"'{shaft.id}'", "one of: " + (", ".join(torque_elements) or "none"))
+        where_txt = "the machine" if machine else f"shaft '{shaft.id}'"
+        raise iw.error("element", f"'{el}' is not a torque-carrying element of "
+                       f"{where_txt}", "one of: " + (", ".join(torque_elements) or "none"))
     if (iv["power"] is None) == (iv["torque"] is None):
         raise iw.error(None, "give the input 'power' or 'torque' (one of them)",
                        "power: 7.5 kW or torque: 50 N*m")
@@ -537,8 +661,9 @@ def _drive(here: Where, v: dict[str, Any], shaft: Shaft) -> Drive:
     outputs: list[tuple[str, float]] = []
     for key, share in outputs_map.items():
         if key not in torque_elements:
-            raise ow.error(key, f"'{key}' is not a torque-carrying element of shaft "
-                           f"'{shaft.id}'", "one of: " + ", ".join(torque_elements))
+            where_txt = "the machine" if machine else f"shaft '{shaft.id}'"
+            raise ow.error(key, f"'{key}' is not a torque-carrying element of "
+                           f"{where_txt}", "one of: " + ", ".join(torque_elements))
         if key == el:
             raise ow.error(key, "the input element cannot also be an output",
                            "another element")

@@ -156,8 +156,8 @@ ELEMENT_TYPES: dict[str, dict[str, Field]] = {
         "helix_angle": F("quantity", "helix angle", dim="angle", default=0.0, minimum=0.0,
                          maximum=60.0),
         "hand": F("choice", "helix hand", choices=("right", "left")),
-        "mesh_angle": F("quantity", "direction toward the pitch point of the mesh",
-                        dim="angle", required=True),
+        "mesh_angle": F("quantity", "direction toward the pitch point of the mesh (single "
+                        "shafts; a linked gear takes it from the geometry)", dim="angle"),
         "internal": F("bool", "internal (ring) gear", default=False),
     },
     "bevel_gear": {
@@ -167,19 +167,19 @@ ELEMENT_TYPES: dict[str, dict[str, Field]] = {
                               positive=True, maximum=90.0),
         "pressure_angle": F("quantity", "pressure angle", dim="angle", default=20.0,
                             minimum=0.0, maximum=45.0),
-        "mesh_angle": F("quantity", "direction toward the pitch point", dim="angle",
-                        required=True),
+        "mesh_angle": F("quantity", "direction toward the pitch point (single shafts)",
+                        dim="angle"),
         "apex": F("choice", "side of the cone apex", required=True, choices=("+x", "-x")),
     },
     "pulley": {
         "diameter": F("quantity", "pitch diameter", dim="length", required=True,
                       positive=True),
-        "belt_angle": F("quantity", "direction toward the other pulley's axis", dim="angle",
-                        required=True),
+        "belt_angle": F("quantity", "direction toward the other pulley's axis (single "
+                        "shafts)", dim="angle"),
         "wrap_angle": F("quantity", "wrap angle on this pulley", dim="angle", default=180.0,
                         positive=True, maximum=360.0),
-        "pretension": F("quantity", "installation tension of each strand", dim="force",
-                        required=True, positive=True),
+        "pretension": F("quantity", "installation tension of each strand (single shafts; "
+                        "a linked pulley takes the link's)", dim="force", positive=True),
         "friction": F("number", "friction coefficient belt/pulley", default=0.3,
                       positive=True),
         "groove_angle": F("quantity", "V-groove angle (V-belt); flat belt when missing",
@@ -188,8 +188,8 @@ ELEMENT_TYPES: dict[str, dict[str, Field]] = {
     "sprocket": {
         "pitch_diameter": F("quantity", "pitch diameter", dim="length", required=True,
                             positive=True),
-        "chain_angle": F("quantity", "direction toward the other sprocket's axis",
-                         dim="angle", required=True),
+        "chain_angle": F("quantity", "direction toward the other sprocket's axis (single "
+                         "shafts)", dim="angle"),
         "wrap_angle": F("quantity", "wrap angle", dim="angle", default=180.0, positive=True,
                         maximum=360.0),
     },
@@ -222,6 +222,22 @@ SHAFT = {
     "bearings": F("list", "bearings on the shaft", required=True, of="bearing"),
     "elements": F("list", "gears, pulleys, loads... on the shaft", default=None,
                   of="element"),
+    "origin": F("vector", "housing-frame position of the shaft's x = 0 (machine models)",
+                dim="length"),
+    "axis": F("vector", "housing-frame direction of the shaft's +x", dim="dimensionless"),
+    "up": F("vector", "housing-frame direction of the shaft's +y (default: housing +Y, or "
+            "+Z for a vertical shaft)", dim="dimensionless"),
+}
+
+LINK = {
+    "id": F("id", "link id", required=True),
+    "type": F("choice", "kind of link", required=True,
+              choices=("gear_mesh", "bevel_mesh", "belt", "chain")),
+    "members": F("any", "the two element ids it joins, e.g. [pinion, wheel]", required=True),
+    "efficiency": F("quantity", "power efficiency, e.g. 0.98 or '98 %'", dim="dimensionless",
+                    default=1.0, positive=True, maximum=1.0),
+    "pretension": F("quantity", "belt installation tension per strand", dim="force",
+                    positive=True),
 }
 
 DRIVE = {
@@ -305,6 +321,7 @@ MODEL = {
     "life": F("map", "life targets and methods", of="life"),
     "solver": F("map", "beam solver settings", of="solver"),
     "shafts": F("list", "the shafts", required=True, of="shaft"),
+    "links": F("list", "gear meshes, belts and chains between shafts", of="link"),
     "cases": F("list", "the operating cases", required=True, of="case"),
     "study": F("any", "design study (see the sweep command)"),
 }
@@ -320,6 +337,7 @@ SECTIONS: dict[str, dict[str, Field]] = {
     "input": INPUT,
     "case_load": CASE_LOAD,
     "lubrication": LUBRICATION,
+    "link": LINK,
     "life": LIFE,
     "solver": SOLVER,
 }

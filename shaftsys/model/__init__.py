@@ -21,12 +21,12 @@ from shaftsys.model.elements import (
     Sprocket,
     Unbalance,
 )
-from shaftsys.model.machine import Model, SolverSettings
+from shaftsys.model.machine import Link, Model, SolverSettings
 from shaftsys.model.shaft import Material, Shaft, Step
 
 __all__ = [
     "AxialRole", "Bearing", "BearingKind", "BevelGear", "Case", "CaseKind", "Coupling",
     "Drive", "Element", "ElementBase", "ElementLoad", "Gear", "LifeSettings",
-    "Lubrication", "LumpedMass", "Material", "Model", "ProcessLoad", "Pulley",
+    "Link", "Lubrication", "LumpedMass", "Material", "Model", "ProcessLoad", "Pulley",
     "SetArrangement", "Shaft", "SolverSettings", "Sprocket", "Step", "Unbalance",
 ]

@@ -28,6 +28,30 @@ class SolverSettings:
 
 
 @dataclass(frozen=True, slots=True)
+class Link:
+    """A power-transmitting connection between elements on two shafts.
+
+    Attributes
+    ----------
+    id: link id.
+    kind: ``"gear_mesh"`` (external or internal spur/helical), ``"bevel_mesh"``,
+        ``"belt"`` or ``"chain"``. A worm pair would be one more kind with its own
+        ratio and force model.
+    members: the two element ids (any order).
+    efficiency: power efficiency of the link (0 < eta <= 1).
+    pretension_N: belt installation tension per strand [N] (belts only).
+    line: line in the model file.
+    """
+
+    id: str
+    kind: str
+    members: tuple[str, str]
+    efficiency: float = 1.0
+    pretension_N: float | None = None
+    line: int | None = None
+
+
+@dataclass(frozen=True, slots=True)
 class Model:
     """A machine model, as read from a model file or built in Python.
 
@@ -57,6 +81,7 @@ class Model:
     solver: SolverSettings = field(default_factory=SolverSettings)
     source: str | None = None
     sha256: str | None = None
+    links: tuple[Link, ...] = ()
 
     def shaft(self, shaft_id: str) -> Shaft:
         """The shaft with this id."""

@@ -60,7 +60,13 @@ class Step:
 
 @dataclass(frozen=True, slots=True)
 class Shaft:
-    """One shaft: its steps from x = 0, its material, bearings and load elements."""
+    """One shaft: its steps from x = 0, its material, bearings and load elements.
+
+    Placement in the housing frame (used by machine models with links): ``origin_mm`` is
+    where the shaft's x = 0 lies, ``axis`` the direction of its +x, ``up`` the direction
+    of its +y (made perpendicular to ``axis``; ``None`` = housing +Y, or housing +Z when
+    the axis is vertical).
+    """
 
     id: str
     steps: tuple[Step, ...]
@@ -68,6 +74,9 @@ class Shaft:
     bearings: tuple[Bearing, ...]
     elements: tuple[Element, ...]
     line: int | None = None
+    origin_mm: tuple[float, float, float] = (0.0, 0.0, 0.0)
+    axis: tuple[float, float, float] = (1.0, 0.0, 0.0)
+    up: tuple[float, float, float] | None = None
 
     @property
     def length_mm(self) -> float:

@@ -31,8 +31,9 @@ _RULE = "-" * 78
 def format_value(value: float | None, digits: int = 6) -> str:
     """Format a number for the sheet: ``digits`` significant digits, no exponent.
 
-    ``None`` and nan give ``"-"``; infinities give ``"inf"``/``"-inf"``. Magnitudes
-    below 1e-4 or from 1e12 use scientific notation (``.{digits-1}e``).
+    ``None`` and nan give ``"-"``; infinities give ``"inf"``/``"-inf"``; zero of
+    either sign gives ``"0"``. Magnitudes below 1e-4 or from 1e12 use scientific
+    notation (``.{digits-1}e``).
     """
     if value is None:
         return "-"
@@ -41,7 +42,9 @@ def format_value(value: float | None, digits: int = 6) -> str:
         return "-"
     if math.isinf(v):
         return "inf" if v > 0 else "-inf"
-    if v != 0.0 and not (1e-4 <= abs(v) < 1e12):
+    if v == 0.0:
+        return "0"  # also for -0.0, which a reaction of a floating bearing can be
+    if not 1e-4 <= abs(v) < 1e12:
         return f"{v:.{digits - 1}e}"
     return str(np.format_float_positional(v, precision=digits, unique=False,
                                           fractional=False, trim="-"))

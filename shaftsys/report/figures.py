@@ -73,6 +73,25 @@ def _element_size_mm(el: Any) -> float | None:
     return None
 
 
+#: Width of the stand-alone shaft drawing and diagrams [in]; the HTML report scales
+#: every figure to the page width, so equal widths give equal text sizes.
+_DRAWING_WIDTH_IN = 9.0
+
+
+def _drawing_height_in(shaft: Shaft) -> float:
+    """Figure height [in] that fits the to-scale drawing without empty bands.
+
+    The drawing spans 1.10 L by 2.7 r_max (the limits set in :func:`shaft_drawing`);
+    about 1.0 in of width goes to the y label and ticks, 1.0 in of height to the title
+    and x label. Clamped to 2.4..6 in (a very short or very slender shaft).
+    """
+    r_max = max(s.d_mm for s in shaft.steps) / 2.0
+    r_max = max([r_max, *(b.D_mm / 2.0 for b in shaft.bearings),
+                 *((_element_size_mm(el) or 0.0) / 2.0 for el in shaft.elements)])
+    ratio = (2.7 * r_max) / (1.10 * shaft.length_mm)
+    return min(max((_DRAWING_WIDTH_IN - 1.0) * ratio + 1.0, 2.4), 6.0)
+
+
 @overload
 def shaft_drawing(shaft_result_or_shaft: ShaftResult | Shaft, ax: None = None) -> Figure: ...
 @overload
@@ -105,7 +124,7 @@ def shaft_drawing(shaft_result_or_shaft: ShaftResult | Shaft, ax: Axes | None = 
     own = ax is None
     fig = None
     if ax is None:
-        fig, (ax,) = _new_figure(9.0, 3.6)
+        fig, (ax,) = _new_figure(_DRAWING_WIDTH_IN, _drawing_height_in(shaft))
     edges = shaft.step_edges_mm
     r_max = max(s.d_mm for s in shaft.steps) / 2.0
     for step, x0 in zip(shaft.steps, edges[:-1], strict=True):
@@ -201,7 +220,7 @@ def diagrams(case_solution: CaseSolution, ax: Axes | Sequence[Axes] | None = Non
     axes: list[Axes]
     single = False
     if ax is None:
-        fig, axes = _new_figure(9.0, 7.2, 4)
+        fig, axes = _new_figure(_DRAWING_WIDTH_IN, 7.2, 4)
     elif isinstance(ax, Sequence):
         axes = list(ax)
         if len(axes) != 4:
@@ -245,10 +264,12 @@ def load_life_chart(bearing_result: BearingResult, ax: Axes | None = None) -> Fi
     """Log-log chart of equivalent load P [N] against basic life L [10^6 rev].
 
     Shows the rating line L = (C/P)^p (ISO 281:2007, 6.2 / 7.2) through (1, C); one
-    point per dynamic case at (L10_i, P_design_i); the spectrum point (L10, Pm)
+    point per dynamic case at (L10_i, P_design_i), each case with its own marker
+    named in the legend (one common marker above ten cases); the spectrum point (L10, Pm)
     (Palmgren-Miner mean load, ISO 281:2007 / Shigley ch. 11); the modified spectrum
     life Lnm at Pm when it differs; and the target life as a vertical line at
-    target_h*60*n_m/10^6 [10^6 rev] (n_m = the engine's mean speed).
+    target_h*60*n_m/10^6 [10^6 rev] (n_m = the engine's mean speed). The legend
+    sits to the right of the axes.
 
     Parameters
     ----------
@@ -267,7 +288,7 @@ def load_life_chart(bearing_result: BearingResult, ax: Axes | None = None) -> Fi
     fig = None
     own = ax is None
     if ax is None:
-        fig, (ax,) = _new_figure(5.6, 4.0)
+        fig, (ax,) = _new_figure(_DRAWING_WIDTH_IN, 4.2)
     C = bearing_result.bearing.C_N
     p = bearing_result.bearing.kind.life_exponent
     dyn = np.asarray(life.dynamic, dtype=bool)
@@ -286,26 +307,30 @@ def load_life_chart(bearing_result: BearingResult, ax: Axes | None = None) -> Fi
     hi = 10 ** math.ceil(math.log10(max(lives)) + 0.5)
     L_line = np.geomspace(lo, hi, 60)
     ax.loglog(L_line, C / L_line ** (1.0 / p), color=INK, linewidth=1.4,
-              label=f"L = (C/P)^{p:.3g}, C = {C:.4g} N")
+              label=f"rating line L = (C/P)^{p:.3g}, C = {_short(C)} N")
     ax.plot([1.0], [C], marker="o", markersize=6, markerfacecolor="white",
             markeredgecolor=INK, linestyle="none")
     ax.annotate("(1, C)", (1.0, C), xytext=(5, 4), textcoords="offset points", fontsize=7)
-    if L_case.size:
-        ax.plot(L_case, P_case, marker="s", markersize=5, color=COOL, linestyle="none",
-                label="dynamic cases (L10_i, P_i)")
-        for L, P, cid in zip(L_case, P_case, ids, strict=True):
-            ax.annotate(cid, (L, P), xytext=(4, -10), textcoords="offset points",
-                        fontsize=7, color=COOL)
+    if 0 < L_case.size <= len(_CASE_MARKERS):
+        # one marker shape per case, named in the legend: labels next to the points
+        # overlap as soon as two cases have similar lives
+        for L, P, cid, mk in zip(L_case, P_case, ids, _CASE_MARKERS, strict=False):
+            ax.plot([L], [P], marker=mk, markersize=5.5, color=COOL, linestyle="none",
+                    label=f"case {cid}: P = {_short(P)} N")
+    elif L_case.size:
+        ax.plot(L_case, P_case, marker="s", markersize=4, color=COOL, linestyle="none",
+                label=f"{L_case.size} dynamic cases (L10_i, P_i)")
     if math.isfinite(life.L10_mrev) and life.P_eq_N > 0:
         ax.plot([life.L10_mrev], [life.P_eq_N], marker="*", markersize=11, color=ACCENT,
-                linestyle="none", label=f"Pm = {life.P_eq_N:.4g} N")
+                linestyle="none", label=f"spectrum: Pm = {_short(life.P_eq_N)} N at L10")
         if math.isfinite(life.Lnm_mrev) and not math.isclose(life.Lnm_mrev, life.L10_mrev):
             ax.plot([life.Lnm_mrev], [life.P_eq_N], marker="*", markersize=11,
                     markerfacecolor="white", markeredgecolor=ACCENT, linestyle="none",
-                    label="Lnm of the spectrum at Pm")
+                    label="spectrum: Lnm at Pm")
     if target_mrev > 0:
         ax.axvline(target_mrev, color=WARM, linestyle="--", linewidth=1.2,
-                   label=f"target {life.target_h:.6g} h = {target_mrev:.4g} e6 rev")
+                   label=f"target {_short(life.target_h)} h = {_short(target_mrev)} "
+                   "x 10^6 rev")
     ax.set_xlim(lo, hi)
     ax.set_xlabel("life L [10^6 rev]")
     ax.set_ylabel("equivalent dynamic load P [N]")
@@ -313,8 +338,24 @@ def load_life_chart(bearing_result: BearingResult, ax: Axes | None = None) -> Fi
                  f"({bearing_result.bearing.kind.value.replace('_', ' ')})",
                  fontsize=9, loc="left")
     ax.grid(True, which="both", color="#eef0f2", linewidth=0.5)
-    ax.legend(fontsize=6.5, loc="lower left", frameon=False)
+    # legend beside the axes: it can never hide a point or the rating line
+    ax.legend(fontsize=7, loc="upper left", bbox_to_anchor=(1.02, 1.0), frameon=False,
+              borderaxespad=0.0)
     return fig if own and fig is not None else ax
+
+
+#: Marker shapes of the duty cases in the load-life chart, in case order.
+_CASE_MARKERS = ("s", "o", "^", "v", "D", "P", "X", "h", "<", ">")
+
+
+def _short(value: float) -> str:
+    """A number for a legend: 4 significant digits, no exponent below 1e9."""
+    v = float(value)
+    if not math.isfinite(v):
+        return str(v)
+    if v != 0.0 and not 1e-3 <= abs(v) < 1e9:
+        return f"{v:.3e}"
+    return f"{v:.4g}" if abs(v) < 1e4 else f"{v:.0f}"
 
 
 def to_svg(fig: Figure) -> str:

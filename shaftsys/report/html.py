@@ -18,7 +18,7 @@ import datetime as _dt
 import html
 import math
 import os
-from collections.abc import Iterable, Sequence
+from collections.abc import Callable, Collection, Iterable, Sequence
 
 from shaftsys import __version__
 from shaftsys.analysis import BearingResult, Result
@@ -27,7 +27,7 @@ from shaftsys.model import Case, CaseKind
 from shaftsys.report import figures
 from shaftsys.report.calcsheet import explain_bearing_html, format_value
 
-__all__ = ["SECTION_TITLES", "render_report"]
+__all__ = ["SECTION_TITLES", "render_report", "report_steps"]
 
 #: Section headings of the report, in order (tests and readers look for them).
 SECTION_TITLES = (
@@ -73,7 +73,7 @@ th { background: var(--band); font-weight: 600; }
 th:first-child, td:first-child, td.t, th.t { text-align: left; }
 td.num { font-variant-numeric: tabular-nums; }
 figure { margin: 8px 0 14px; break-inside: avoid; page-break-inside: avoid; }
-figure svg { max-width: 100%; height: auto; display: block; }
+figure svg { width: 100%; height: auto; display: block; border: 1px solid var(--line); }
 figcaption { color: var(--muted); font-size: 12px; }
 .gauge { position: relative; height: 14px; min-width: 180px; background:
          linear-gradient(90deg, #f3dcd3 0 33.33%, #e3efe7 33.33% 100%); border-radius: 2px; }
@@ -87,6 +87,7 @@ pre.calcsheet { background: #fff; border: 1px solid var(--line); padding: 10px 1
                 font: 11.5px/1.4 ui-monospace, Consolas, "DejaVu Sans Mono", monospace;
                 white-space: pre-wrap; overflow-wrap: anywhere; }
 .bearing { border-top: 1px dashed var(--line); padding-top: 6px; }
+h2 + .bearing { border-top: none; padding-top: 0; }
 ul.warn li { margin: 2px 0; }
 .note { color: var(--muted); font-size: 12.5px; }
 @page { size: A4; margin: 14mm 12mm; }
@@ -127,12 +128,18 @@ def _n(value: float | None, digits: int = 4) -> str:
     return _e(format_value(value, digits))
 
 
-def _table(headers: Sequence[str], rows: Iterable[Sequence[str]], text_cols: int = 1) -> str:
-    """An HTML table; ``headers`` are escaped, cells must already be HTML."""
-    head = "".join(f'<th{" class=t" if i < text_cols else ""}>{_e(h)}</th>'
+def _table(headers: Sequence[str], rows: Iterable[Sequence[str]],
+           text_cols: int | Collection[int] = 1) -> str:
+    """An HTML table; ``headers`` are escaped, cells must already be HTML.
+
+    ``text_cols``: the first that many columns, or the given column indices, hold text
+    (left-aligned); the others hold numbers (right-aligned, tabular figures).
+    """
+    text = set(range(text_cols)) if isinstance(text_cols, int) else set(text_cols)
+    head = "".join(f'<th{" class=t" if i in text else ""}>{_e(h)}</th>'
                    for i, h in enumerate(headers))
     body = "".join(
-        "<tr>" + "".join(f'<td class="{"t" if i < text_cols else "num"}">{c}</td>'
+        "<tr>" + "".join(f'<td class="{"t" if i in text else "num"}">{c}</td>'
                          for i, c in enumerate(r)) + "</tr>"
         for r in rows)
     return f"<table><thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>"
@@ -217,7 +224,8 @@ def _inputs(result: Result) -> str:
                      _n(b.life.reliability if b.life is not None else None),
                      _n(b.life.s0_min if b.life is not None else br.s0_min)])
     table = _table(["bearing", "shaft", "type", "axial", "x mm", "d mm", "D mm", "C N",
-                    "C0 N", "Cu N", "factors", "target h", "R", "s0 min"], rows, 4)
+                    "C0 N", "Cu N", "factors", "target h", "R", "s0 min"], rows,
+                   (0, 1, 2, 3, 10))
     return (f'<section id="inputs"><h2>{SECTION_TITLES[1]}</h2><dl class="kv">{dl}</dl>'
             f"<h3>Bearing ratings and targets (maker's data as entered)</h3>{table}</section>")
 
@@ -252,24 +260,32 @@ def _summary(result: Result) -> str:
                 f"the target reliability, limited by {result.limiting_bearing or '-'}.")
     return (f'<section id="summary"><h2>{SECTION_TITLES[2]}</h2>'
             + _table(["shaft", "length mm", "material", "steps", "bearings", "elements",
-                      "system life h", "limiting"], srows, 6)
+                      "system life h", "limiting"], srows, (0, 2, 4, 5, 7))
             + _table(["case", "kind", "time share", f"duration ({unit})", "T degC",
-                      "speed and input per shaft"], crows, 2)
+                      "speed and input per shaft"], crows, (0, 1, 5))
             + f'<p class="note">{_e(sys_line)}</p></section>')
 
 
-def _shafts(result: Result) -> str:
+Step = Callable[[str], None]
+
+
+def _no_step(label: str) -> None:
+    """Progress callback that does nothing."""
+
+
+def _shafts(result: Result, step: Step) -> str:
     parts = [f'<section id="shafts"><h2>{SECTION_TITLES[3]}</h2>']
     for s in result.shafts:
         parts.append(f"<h3>Shaft {_e(s.shaft.id)}</h3>")
         parts.append(_figure(figures.shaft_drawing(s),
                              f"Shaft {s.shaft.id}: steps, bearings (boxes, support point "
                              "triangle) and elements (diamonds), to scale, mm."))
+        step(f"shaft {s.shaft.id}")
     parts.append("</section>")
     return "".join(parts)
 
 
-def _cases(result: Result) -> str:
+def _cases(result: Result, step: Step) -> str:
     parts = [f'<section id="cases"><h2>{SECTION_TITLES[4]}</h2>']
     for case in result.model.cases:
         parts.append(f'<h3 id="case-{_e(case.id)}">Case {_e(case.id)} '
@@ -289,6 +305,7 @@ def _cases(result: Result) -> str:
             if cs.warnings:
                 parts.append("<ul class=warn>" + "".join(f"<li>{_e(w)}</li>"
                                                          for w in cs.warnings) + "</ul>")
+            step(f"case {case.id}, shaft {s.shaft.id}")
     parts.append("</section>")
     return "".join(parts)
 
@@ -324,7 +341,7 @@ def _bearing_loads_table(b: BearingResult) -> str:
     return _table(["case", "n rpm", "Fy N", "Fz N", "Fx N", "Fr N", "Fa N"], rows)
 
 
-def _bearings(result: Result) -> str:
+def _bearings(result: Result, step: Step) -> str:
     parts = [f'<section id="bearings"><h2>{SECTION_TITLES[6]}</h2>']
     for b in result.bearings:
         parts.append(f'<div class="bearing" id="bearing-{_e(b.bearing.id)}">'
@@ -337,6 +354,7 @@ def _bearings(result: Result) -> str:
                                  "line through (1, C), duty cases, Pm and the target."))
             parts.append(explain_bearing_html(result, b.bearing.id))
         parts.append("</div>")
+        step(f"bearing {b.bearing.id}")
     parts.append("</section>")
     return "".join(parts)
 
@@ -360,7 +378,17 @@ def _cautions() -> str:
     return f'<section id="cautions"><h2>{SECTION_TITLES[8]}</h2><ul>{lis}</ul></section>'
 
 
-def render_report(result: Result, date: str | None = None) -> str:
+def report_steps(result: Result) -> int:
+    """Number of progress steps :func:`render_report` reports for ``result``.
+
+    One per shaft drawing, one per case and shaft (diagrams) and one per bearing
+    (load-life chart and calculation sheet): the parts that take time.
+    """
+    return (len(result.shafts) * (1 + len(result.model.cases)) + len(result.bearings))
+
+
+def render_report(result: Result, date: str | None = None,
+                  progress: Callable[[str], None] | None = None) -> str:
     """Render the whole report of ``result`` as one self-contained HTML document.
 
     Parameters
@@ -370,6 +398,10 @@ def render_report(result: Result, date: str | None = None) -> str:
     date:
         Date text for the header; ``None`` = today's date (UTC, ISO 8601). Pass a fixed
         value for byte-reproducible reports.
+    progress:
+        Called with a short label after each slow part is rendered (see
+        :func:`report_steps` for how many calls to expect); ``None`` = no calls. The
+        CLI passes :meth:`shaftsys.report.progress.ProgressBar.advance`.
 
     Returns
     -------
@@ -379,6 +411,7 @@ def render_report(result: Result, date: str | None = None) -> str:
     """
     if date is None:
         date = _dt.datetime.now(_dt.UTC).date().isoformat()
+    step = _no_step if progress is None else progress
     m = result.model
     title = f"shaftsys report - {m.name}"
     stamp = "PASS" if result.ok else "FAIL"
@@ -389,9 +422,9 @@ def render_report(result: Result, date: str | None = None) -> str:
         f'<header class="top"><h1>{_e(m.name)}</h1><div class="sub">{_e(sub)} - '
         f'bearing and shaft check by shaftsys {_e(__version__)} - '
         f'<span class="stamp {"ok" if result.ok else "bad"}">{stamp}</span></div></header>',
-        _provenance(result, date), _inputs(result), _summary(result), _shafts(result),
-        _cases(result), _verdicts(result), _bearings(result), _warnings(result),
-        _cautions(),
+        _provenance(result, date), _inputs(result), _summary(result),
+        _shafts(result, step), _cases(result, step), _verdicts(result),
+        _bearings(result, step), _warnings(result), _cautions(),
     ])
     return ("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"
             f"<title>{_e(title)}</title>"

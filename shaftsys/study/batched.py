@@ -1,0 +1,611 @@
+"""Batched evaluation of many geometry variants of ONE shaft (the hot path of studies).
+
+Units: mm, N, N*mm, rad, rpm, h (as :mod:`shaftsys.units`).
+
+What it computes, for B variants at once (arrays with the variant axis; no Python loop
+over variants, elements or cases):
+
+1. **Mesh.** Nodes only at the compulsory stations: step edges, bearing pressure
+   centres and element stations (clustered within 1e-9 mm as
+   :func:`shaftsys.fe.mesh.build_mesh` does; a step edge fixes a cluster's position).
+   Variants whose stations come in the same order share one topology and are solved
+   together. ``solver.max_element_mm`` is not used: the Timoshenko element with
+   interdependent interpolation (and the Euler-Bernoulli element) is nodally exact for
+   point loads and for the uniform shaft weight with its consistent nodal loads, so the
+   nodal displacements and the reactions do not depend on how finely a prismatic
+   interval is cut (Tong's nodal exactness; Reddy, *An Introduction to the Finite
+   Element Method*, beam chapter). The tests compare with :func:`shaftsys.analyse`.
+2. **Bending.** Band stiffness assembled per variant; rigid DOFs eliminated (identity
+   rows), springs on the diagonal, Jacobi scaling, banded Cholesky and solves by
+   :func:`shaftsys.fe.batch.cholesky_banded_batch` / ``solve_banded_batch``; both
+   planes and every case are right-hand sides of one factorisation. Reactions as
+   K u - F at rigid DOFs and -k u at springs. Pivots below
+   ``shaftsys.fe.solve.DEFAULT_PIVOT_TOL`` and a global force/moment balance of each
+   plane above ``solver.residual_tolerance`` mark the variant invalid (NumericalError).
+3. **Axial rule** of :func:`shaftsys.analysis.axial_reactions`, vectorised (locating
+   bearing, cross-locating, adjusted pair with induced forces).
+4. **Lives** with the pure functions of :mod:`shaftsys.bearings` over (variant, case)
+   arrays: equivalent load, aISO, Palmgren-Miner per-case combination, required
+   rating, margin, static safety; the shared per-case quantities (dynamic mask,
+   revolution weights, mean speed, kappa, ec, Cu, a1, targets) are taken from one call
+   of :func:`shaftsys.bearings.engine.evaluate_bearing`. System life: the Weibull
+   product of :mod:`shaftsys.bearings.system` solved by a vectorised Newton iteration
+   on ln L (converged to round-off, where the single-model path uses brentq).
+
+Every variant's arithmetic is independent of the others, so a batch of one gives the
+same bits as the same variant inside a large batch.
+"""
+
+from __future__ import annotations
+
+import logging
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+from numpy.typing import NDArray
+
+from shaftsys.analysis import (
+    ACBB_INDUCED_FACTOR,
+    TRB_INDUCED_FACTOR,
+    element_loads,
+)
+from shaftsys.bearings.engine import LIFE_BASIS_MODIFIED, LoadSpectrum, evaluate_bearing
+from shaftsys.bearings.equivalent import equivalent_dynamic_load
+from shaftsys.bearings.lubrication import a_iso_with_ep
+from shaftsys.bearings.static import equivalent_static_load, static_safety
+from shaftsys.errors import ModelError, NumericalError
+from shaftsys.fe.batch import cholesky_banded_batch, solve_banded_batch
+from shaftsys.fe.sections import circular_section_arrays
+from shaftsys.fe.solve import DEFAULT_PIVOT_TOL
+from shaftsys.model import AxialRole, Bearing, BearingKind, CaseKind, Model, Shaft
+from shaftsys.study.paths import STATION_TOL_MM, Geometry
+from shaftsys.units import DENSITY_KG_PER_MM3, MEGA_REVOLUTIONS
+
+log = logging.getLogger(__name__)
+
+Array = NDArray[np.float64]
+
+#: Variants solved together (keeps the working set in cache).
+CHUNK = 1024
+_LN09 = math.log(0.9)
+
+
+@dataclass(frozen=True, eq=False)
+class BearingPrep:
+    """Per-case quantities of one bearing shared by every variant (see module doc)."""
+
+    bearing: Bearing
+    dyn: NDArray[np.bool_]
+    U: Array
+    n_m: float
+    kappa: Array
+    ec: Array
+    Cu: float
+    a1: float
+    target_h: float
+    s0_min: float
+    p: float
+    af: float
+    use_mod: bool
+    ep: bool
+
+
+@dataclass(frozen=True, eq=False)
+class Prepared:
+    """Everything about a one-shaft model that does not change with the geometry."""
+
+    model: Model
+    shaft: Shaft
+    case_ids: tuple[str, ...]
+    el_force: Array          # (n_elements, m, 3) [N]
+    el_moment: Array         # (n_elements, m, 3) [N*mm]
+    fx_elements: Array       # (m,) net element axial force [N]
+    supports: tuple[tuple[int, float, float], ...]  # (bearing index, k_t, k_r)
+    gravity: Array
+    weight: bool
+    bearings: tuple[BearingPrep, ...]
+    slopes: Array
+    reliability: float
+    error: str = ""
+    gear_index: tuple[int, ...] = field(default=())
+
+
+def prepare(model: Model) -> Prepared:
+    """Shared data of a one-shaft model for :func:`evaluate_geometry`.
+
+    Raises
+    ------
+    ValueError: the model has more than one shaft or links (use the per-variant path).
+    """
+    if len(model.shafts) != 1 or getattr(model, "links", ()):
+        raise ValueError("the batched evaluator handles one-shaft models without links")
+    shaft = model.shafts[0]
+    m = len(model.cases)
+    ne = len(shaft.elements)
+    eidx = {e.id: j for j, e in enumerate(shaft.elements)}
+    F = np.zeros((ne, m, 3))
+    M = np.zeros((ne, m, 3))
+    error = ""
+    for k, case in enumerate(model.cases):
+        applied, _ = element_loads(model, shaft, case)
+        for a in applied:
+            j = eidx[a.source.removesuffix(" weight")]
+            F[j, k] += a.force_N
+            M[j, k] += a.moment_Nmm
+        net = float(M[:, k, 0].sum())
+        scale = float(np.abs(M[:, k, 0]).sum())
+        if abs(net) > model.solver.residual_tolerance * max(scale, 1.0) and not error:
+            error = (f"ModelError: the torques on shaft '{shaft.id}' do not balance in case "
+                     f"'{case.id}' (net {net:.6g} N*mm about +x)")
+    supports = []
+    for j, b in enumerate(shaft.bearings):
+        if b.kind is BearingKind.THRUST_BALL:
+            continue
+        supports.append((j, b.radial_stiffness_N_mm or math.inf, b.tilt_stiffness_Nmm_rad or 0.0))
+    preps = []
+    for b in shaft.bearings:
+        try:
+            preps.append(_bearing_prep(model, shaft, b))
+        except ModelError as exc:
+            error = error or f"ModelError: {exc}"
+            preps.append(_bearing_prep(model, shaft, b, dummy=True))
+    gears = tuple(j for j, e in enumerate(shaft.elements) if e.kind in ("gear", "bevel_gear"))
+    g = np.asarray(model.gravity_m_s2, dtype=float)
+    return Prepared(
+        model=model, shaft=shaft, case_ids=tuple(c.id for c in model.cases),
+        el_force=F, el_moment=M, fx_elements=F[:, :, 0].sum(axis=0), supports=tuple(supports),
+        gravity=g, weight=bool(model.solver.include_shaft_weight and np.any(g)),
+        bearings=tuple(preps),
+        slopes=np.array([b.kind.weibull_slope for b in shaft.bearings], dtype=float),
+        reliability=float(model.life.target_reliability), error=error, gear_index=gears)
+
+
+def _bearing_prep(model: Model, shaft: Shaft, b: Bearing, dummy: bool = False) -> BearingPrep:
+    """Shared per-case life quantities from one engine call at zero load."""
+    m = len(model.cases)
+    speeds = [c.drives[shaft.id].speed_rpm if shaft.id in c.drives else 0.0 for c in model.cases]
+    sp = LoadSpectrum.build(
+        case_ids=[c.id for c in model.cases], Fr_N=np.zeros(m), Fa_N=np.zeros(m),
+        speed_rpm=speeds, duration=[c.duration for c in model.cases],
+        duration_in_hours=model.duration_in_hours,
+        static_only=[c.kind is not CaseKind.DUTY for c in model.cases],
+        temperature_C=[c.temperature_C for c in model.cases])
+    if dummy:
+        nan = np.full(m, np.nan)
+        return BearingPrep(b, np.zeros(m, bool), np.zeros(m), 0.0, nan, nan, 0.0, 1.0, 1.0,
+                           1.0, b.kind.life_exponent, 1.0, False, False)
+    life = evaluate_bearing(b, sp, model.life, model.lubrication)
+    return BearingPrep(
+        bearing=b, dyn=np.asarray(life.dynamic, bool), U=np.asarray(life.weights, float),
+        n_m=float(life.n_m_rpm), kappa=np.asarray(life.kappa, float),
+        ec=np.asarray(life.ec, float), Cu=float(life.Cu_N or 0.0), a1=float(life.a1),
+        target_h=float(life.target_h), s0_min=float(life.s0_min),
+        p=b.kind.life_exponent, af=float(life.application_factor),
+        use_mod=life.life_basis == LIFE_BASIS_MODIFIED,
+        ep=bool(model.lubrication is not None and model.lubrication.ep_additives))
+
+
+# ----------------------------------------------------------------------------- output
+@dataclass(eq=False)
+class BatchArrays:
+    """Results of B variants (first axis = variant).
+
+    Per bearing (B, n_bearings): ``Fr_max_N``, ``Fa_max_N``, ``Lnm_h``, ``margin``
+    (C/C_req), ``life_ratio`` (Lnm_h/target), ``s0``, ``life_ok``, ``static_ok``, ``ok``,
+    ``deflection_mm`` and ``slope_rad`` (largest over the cases, at the support node).
+    Per element (B, n_elements): ``el_deflection_mm``, ``el_slope_rad``. Per variant:
+    ``system_life_h``, ``limiting`` (bearing index, -1 none), ``reason`` ("" = valid).
+    """
+
+    Fr_max_N: Array
+    Fa_max_N: Array
+    Lnm_h: Array
+    margin: Array
+    life_ratio: Array
+    s0: Array
+    life_ok: NDArray[np.bool_]
+    static_ok: NDArray[np.bool_]
+    ok: NDArray[np.bool_]
+    deflection_mm: Array
+    slope_rad: Array
+    el_deflection_mm: Array
+    el_slope_rad: Array
+    system_life_h: Array
+    limiting: NDArray[np.intp]
+    reason: NDArray[np.object_]
+
+    @classmethod
+    def empty(cls, B: int, nb: int, ne: int) -> BatchArrays:
+        """All-NaN arrays for B variants."""
+        def f(*shape: int) -> Array:
+            return np.full(shape, np.nan)
+
+        def z(*shape: int) -> NDArray[np.bool_]:
+            return np.zeros(shape, dtype=bool)
+
+        return cls(f(B, nb), f(B, nb), f(B, nb), f(B, nb), f(B, nb), f(B, nb), z(B, nb),
+                   z(B, nb), z(B, nb), f(B, nb), f(B, nb), f(B, ne), f(B, ne), f(B),
+                   np.full(B, -1, dtype=np.intp), np.full(B, "", dtype=object))
+
+    def put(self, rows: NDArray[np.intp], other: BatchArrays) -> None:
+        """Copy ``other`` (len(rows) variants) into ``rows``."""
+        for name in self.__dataclass_fields__:
+            getattr(self, name)[rows] = getattr(other, name)
+
+
+# ------------------------------------------------------------------------------ solve
+def _band(EI: Array, L: Array, Phi: Array | float) -> Array:
+    """Upper band (4, 2n, b) of the planar shaft stiffness; EI, L, Phi (n_e, b)."""
+    n_e, b = EI.shape
+    c = EI / ((1.0 + Phi) * L**3)
+    k00 = 12.0 * c
+    k01 = 6.0 * c * L
+    k11 = (4.0 + Phi) * c * L * L
+    k13 = (2.0 - Phi) * c * L * L
+    ab = np.zeros((4, 2 * (n_e + 1), b))
+    s = 2 * n_e
+    ab[3, 0:s:2] += k00
+    ab[2, 1 : s + 1 : 2] += k01
+    ab[1, 2 : s + 2 : 2] -= k00
+    ab[0, 3 : s + 3 : 2] += k01
+    ab[3, 1 : s + 1 : 2] += k11
+    ab[2, 2 : s + 2 : 2] -= k01
+    ab[1, 3 : s + 3 : 2] += k13
+    ab[3, 2 : s + 2 : 2] += k00
+    ab[2, 3 : s + 3 : 2] -= k01
+    ab[3, 3 : s + 3 : 2] += k11
+    return ab
+
+
+def _solve(ab_shaft: Array, rigid: NDArray[np.bool_], springs: Array, Ft: Array
+           ) -> tuple[Array, Array]:
+    """Eliminate, scale, factor (banded Cholesky, batched) and solve; (u, min pivot)."""
+    p, n, _ = ab_shaft.shape
+    u = p - 1
+    ab = ab_shaft.copy()
+    ab[u] += springs[:, None]
+    r = np.flatnonzero(rigid)
+    ab[:, r] = 0.0
+    for d in range(1, u + 1):
+        cols = r + d
+        ab[u - d, cols[cols < n]] = 0.0
+    ab[u, r] = 1.0
+    with np.errstate(invalid="ignore", divide="ignore"):
+        s = 1.0 / np.sqrt(ab[u])
+        for d in range(1, u + 1):
+            ab[u - d, d:] *= s[d:] * s[:-d]
+        ab[u] = 1.0
+        Lb = cholesky_banded_batch(ab)
+        piv = np.min(Lb[0] ** 2, axis=0)
+        piv[~np.all(np.isfinite(s), axis=0)] = np.nan
+        rhs = s[:, None, :] * Ft
+        rhs[rigid] = 0.0
+        x = s[:, None, :] * solve_banded_batch(Lb, rhs)
+    return x, piv
+
+
+def evaluate_geometry(prep: Prepared, geom: Geometry) -> BatchArrays:
+    """Reactions, deflections, slopes and lives of every variant in ``geom``.
+
+    Invalid variants (geometry, solve or life errors) keep NaN results and a reason.
+    """
+    shaft = prep.shaft
+    B = geom.size
+    nb, ne, ns = len(shaft.bearings), len(shaft.elements), len(shaft.steps)
+    out = BatchArrays.empty(B, nb, ne)
+    out.reason[:] = geom.reason
+    if prep.error:
+        out.reason[out.reason == ""] = prep.error
+    valid = np.flatnonzero(out.reason == "")
+    if valid.size == 0:
+        return out
+    offsets = np.array([b.support_x_mm - b.x_mm for b in shaft.bearings], dtype=float)
+    edges = np.concatenate([np.zeros((B, 1)), np.cumsum(geom.step_length_mm, axis=1)], axis=1)
+    pts = np.concatenate([edges, geom.bearing_x_mm + offsets, geom.element_x_mm], axis=1)
+    pv = pts[valid]
+    order = np.argsort(pv, axis=1, kind="stable")
+    srt = np.take_along_axis(pv, order, axis=1)
+    newc = np.diff(srt, axis=1) > STATION_TOL_MM
+    sig = np.concatenate([order, newc.astype(order.dtype)], axis=1)
+    _, inverse = np.unique(sig, axis=0, return_inverse=True)
+    inverse = np.asarray(inverse).ravel()
+    for g in range(int(inverse.max()) + 1):
+        members = valid[inverse == g]
+        first = int(np.flatnonzero(inverse == g)[0])
+        for lo in range(0, members.size, CHUNK):
+            rows = members[lo : lo + CHUNK]
+            _evaluate_topology(prep, geom, rows, pts[rows], order[first], newc[first],
+                               ns, out)
+    return out
+
+
+def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], pts: Array,
+                       order: NDArray[np.intp], newc: NDArray[np.bool_], ns: int,
+                       out: BatchArrays) -> None:
+    shaft = prep.shaft
+    model = prep.model
+    m = len(prep.case_ids)
+    nb, ne = len(shaft.bearings), len(shaft.elements)
+    b = rows.size
+    P = pts.shape[1]
+    cl_sorted = np.concatenate([[0], np.cumsum(newc)])
+    cluster = np.empty(P, dtype=np.intp)
+    cluster[order] = cl_sorted
+    n = int(cl_sorted[-1]) + 1
+    starts = np.concatenate([[0], np.flatnonzero(newc) + 1])
+    x = pts[:, order[starts]].copy()                     # (b, n)
+    x[:, cluster[: ns + 1]] = pts[:, : ns + 1]           # step edges win in a cluster
+    bnode = cluster[ns + 1 : ns + 1 + nb]
+    enode = cluster[ns + 1 + nb :]
+    edges0 = pts[0, : ns + 1]
+    mid0 = 0.5 * (x[0, :-1] + x[0, 1:])
+    step = np.clip(np.searchsorted(edges0, mid0, side="right") - 1, 0, ns - 1)
+    mat = shaft.material
+    A, Iz, _, k = circular_section_arrays(geom.step_d_mm[rows], geom.step_bore_mm[rows],
+                                         mat.poisson)
+    EI = (mat.E_MPa * Iz[:, step]).T                      # (n_e, b)
+    L = np.diff(x, axis=1).T                             # (n_e, b)
+    if model.solver.shear_deformation:
+        kGA = (k * mat.G_MPa * A)[:, step].T
+        Phi: Array | float = 12.0 * EI / (kGA * L**2)
+    else:
+        Phi = 0.0
+    ab = _band(EI, L, Phi)
+    ndof = 2 * n
+    rigid = np.zeros(ndof, dtype=bool)
+    springs = np.zeros(ndof)
+    for j, kt, kr in prep.supports:
+        node = int(bnode[j])
+        for dof, kk in ((2 * node, kt), (2 * node + 1, kr)):
+            if math.isinf(kk):
+                rigid[dof] = True
+            else:
+                springs[dof] += kk
+    F0 = np.zeros((ndof, 2 * m))
+    for j in range(ne):
+        nd = int(enode[j])
+        F0[2 * nd, :m] += prep.el_force[j, :, 1]
+        F0[2 * nd + 1, :m] += prep.el_moment[j, :, 2]
+        F0[2 * nd, m:] += prep.el_force[j, :, 2]
+        F0[2 * nd + 1, m:] -= prep.el_moment[j, :, 1]
+    Ft = np.repeat(F0[:, :, None], b, axis=2)            # (2n, 2m, b)
+    mass_total = np.zeros(b)
+    if prep.weight:
+        lm = (mat.density_kg_m3 * DENSITY_KG_PER_MM3 * A)[:, step].T   # kg/mm (n_e, b)
+        mass_total = (lm * L).sum(axis=0)
+        n_e = n - 1
+        for plane, gc in ((slice(0, m), prep.gravity[1]), (slice(m, 2 * m), prep.gravity[2])):
+            if gc == 0.0:
+                continue
+            q = lm * gc
+            qL = (0.5 * q * L)[:, None, :]
+            qL2 = (q * L * L / 12.0)[:, None, :]
+            Ft[0 : 2 * n_e : 2, plane] += qL
+            Ft[1 : 2 * n_e : 2, plane] += qL2
+            Ft[2 : 2 * n_e + 2 : 2, plane] += qL
+            Ft[3 : 2 * n_e + 2 : 2, plane] -= qL2
+    u, piv = _solve(ab, rigid, springs, Ft)
+    Ku = ab[3][:, None, :] * u
+    for d in range(1, 4):
+        off = ab[3 - d, d:][:, None, :]
+        Ku[:-d] += off * u[d:]
+        Ku[d:] += off * u[:-d]
+    Rr = Ku - Ft                                         # reactions at rigid DOFs
+    reason = np.full(b, "", dtype=object)
+    bad = ~(piv >= DEFAULT_PIVOT_TOL)
+    reason[bad] = ("NumericalError: stiffness not positive definite or (nearly) a "
+                   "mechanism")
+    # --- reactions per bearing: (b, m) arrays; thrust bearings carry no radial load
+    ry = np.zeros((nb, m, b))
+    rz = np.zeros((nb, m, b))
+    tm = np.zeros((nb, 2 * m, b))                        # moments [xy | xz] for balance
+    for j, kt, kr in prep.supports:
+        node = int(bnode[j])
+        fdof, mdof = 2 * node, 2 * node + 1
+        rf = Rr[fdof] if math.isinf(kt) else -kt * u[fdof]
+        rm = Rr[mdof] if math.isinf(kr) else -kr * u[mdof]
+        ry[j] = rf[:m]
+        rz[j] = rf[m:]
+        tm[j] = rm
+    # --- global balance of each plane (force, and moment about x = 0)
+    xn = x.T                                             # (n, b)
+    Fy_all = np.concatenate([ry, rz], axis=1)            # (nb, 2m, b)
+    xs = x[:, bnode].T                                # (nb, b)
+    fsum = Ft[0::2].sum(axis=0) + Fy_all.sum(axis=0)
+    msum = ((xn[:, None, :] * Ft[0::2]).sum(axis=0) + Ft[1::2].sum(axis=0)
+            + (xs[:, None, :] * Fy_all).sum(axis=0) + tm.sum(axis=0))
+    absF = np.abs(Ft[0::2]).sum(axis=0)
+    scale_m = absF * np.abs(xn).max(axis=0)[None, :] + np.abs(Ft[1::2]).sum(axis=0)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        rel = np.maximum(np.where(absF > 0, np.abs(fsum) / absF, np.abs(fsum)),
+                         np.where(scale_m > 0, np.abs(msum) / scale_m, np.abs(msum)))
+    worst = rel.max(axis=0)
+    tol = model.solver.residual_tolerance
+    unbalanced = ~(worst <= tol) & (reason == "")
+    for i in np.flatnonzero(unbalanced):
+        reason[i] = (f"NumericalError: equilibrium residual {worst[i]:.3g} of the applied "
+                     f"load exceeds the tolerance {tol:.1g}")
+    Fr = np.hypot(ry, rz)                                # (nb, m, b)
+    # --- axial rule
+    Ka = prep.fx_elements[:, None] + (mass_total * prep.gravity[0])[None, :]  # (m, b)
+    Fa = _axial(shaft, Ka, Fr)                           # (nb, m, b)
+    # --- deflections and slopes at nodes, largest over the cases
+    v, w = u[0::2, :m], u[0::2, m:]
+    tz, ty = u[1::2, :m], u[1::2, m:]
+    defl = np.hypot(v, w).max(axis=1)                    # (n, b)
+    slope = np.hypot(ty, tz).max(axis=1)
+    res = BatchArrays.empty(b, nb, ne)
+    res.reason[:] = reason
+    res.deflection_mm[:] = defl[bnode].T
+    res.slope_rad[:] = slope[bnode].T
+    res.el_deflection_mm[:] = defl[enode].T
+    res.el_slope_rad[:] = slope[enode].T
+    res.Fr_max_N[:] = Fr.max(axis=1).T
+    res.Fa_max_N[:] = Fa.max(axis=1).T
+    ok_rows = np.flatnonzero(reason == "")
+    if ok_rows.size:
+        C = geom.bearing_C_N[rows]
+        _lives_safe(prep, np.moveaxis(Fr, 2, 0), np.moveaxis(Fa, 2, 0), C, ok_rows, res)
+    bad_rows = np.flatnonzero(res.reason != "")
+    for name in ("Fr_max_N", "Fa_max_N", "deflection_mm", "slope_rad", "el_deflection_mm",
+                 "el_slope_rad"):
+        getattr(res, name)[bad_rows] = np.nan
+    out.put(rows, res)
+
+
+def _induced(b: Bearing, Fr: Array) -> Array:
+    """Induced axial force [N] (as :func:`shaftsys.analysis.induced_axial_force`)."""
+    if b.kind is BearingKind.TAPERED_ROLLER:
+        if not b.Y:
+            raise ModelError(f"bearing '{b.id}' needs the maker's Y for its induced axial force",
+                             line=b.line, field=f"bearings[{b.id}].Y")
+        return TRB_INDUCED_FACTOR * Fr / b.Y
+    if b.kind is BearingKind.ANGULAR_CONTACT_BALL:
+        return ACBB_INDUCED_FACTOR * Fr * math.tan(math.radians(b.contact_angle_deg or 0.0))
+    return np.zeros_like(Fr)
+
+
+def _axial(shaft: Shaft, Ka: Array, Fr: Array) -> Array:
+    """|axial load| each bearing carries (nb, m, b) by the rule of ``axial_reactions``."""
+    Fa = np.zeros_like(Fr)
+    idx = {b.id: j for j, b in enumerate(shaft.bearings)}
+    both = [b for b in shaft.bearings if b.axial is AxialRole.BOTH]
+    if both:
+        Fa[idx[both[0].id]] = np.abs(Ka)
+        return Fa
+    plus = next(b for b in shaft.bearings if b.axial is AxialRole.PLUS_X)
+    minus = next(b for b in shaft.bearings if b.axial is AxialRole.MINUS_X)
+    jp, jn = idx[plus.id], idx[minus.id]
+    if plus.pair is None:
+        Fa[jp] = np.where(Ka >= 0, np.abs(Ka), 0.0)
+        Fa[jn] = np.where(Ka >= 0, 0.0, np.abs(Ka))
+        return Fa
+    fi_p = _induced(plus, Fr[jp])
+    fi_n = _induced(minus, Fr[jn])
+    first = fi_n + Ka >= fi_p
+    Fa[jp] = np.abs(np.where(first, fi_n + Ka, fi_p))
+    Fa[jn] = np.abs(np.where(first, fi_n, fi_p - Ka))
+    return Fa
+
+
+# ------------------------------------------------------------------------------ lives
+def _lives_safe(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp],
+                res: BatchArrays) -> None:
+    """Lives of ``rows``; a ModelError splits the block until the culprits are found."""
+    try:
+        _lives(prep, Fr[rows], Fa[rows], C[rows], rows, res)
+    except ModelError as exc:
+        if rows.size == 1:
+            res.reason[rows[0]] = f"ModelError: {exc}"
+            return
+        half = rows.size // 2
+        _lives_safe(prep, Fr, Fa, C, rows[:half], res)
+        _lives_safe(prep, Fr, Fa, C, rows[half:], res)
+
+
+def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp],
+           res: BatchArrays) -> None:
+    """Life verdict of every bearing; Fr, Fa (b, nb, m) [N], C (b, nb) [N]."""
+    b, nb, m = Fr.shape
+    L90 = np.full((b, nb), np.inf)
+    for j, bp in enumerate(prep.bearings):
+        brg = bp.bearing
+        fr = Fr[:, j, :]
+        fa = Fa[:, j, :]
+        eq = equivalent_dynamic_load(brg, fr.ravel(), fa.ravel())
+        Pd = (bp.af * eq.P_N).reshape(b, m)
+        dyn = bp.dyn
+        p = bp.p
+        aiso = np.ones((b, m))
+        if bp.use_mod and np.any(dyn):
+            Pdd = Pd[:, dyn]
+            with np.errstate(divide="ignore"):
+                cu_p = np.where(Pdd > 0.0, bp.Cu / np.where(Pdd > 0.0, Pdd, 1.0), np.inf)
+            ai, _ = a_iso_with_ep(np.broadcast_to(bp.kappa[dyn], Pdd.shape).ravel(),
+                                  np.broadcast_to(bp.ec[dyn], Pdd.shape).ravel(),
+                                  cu_p.ravel(), brg.kind, bp.ep)
+            aiso[:, dyn] = ai.reshape(Pdd.shape)
+        Cj = C[:, j][:, None]
+        with np.errstate(divide="ignore"):
+            L10 = np.where(Pd > 0.0, (Cj / np.where(Pd > 0.0, Pd, 1.0)) ** p, np.inf)
+        Lnm_case = bp.a1 * aiso * L10
+        used = dyn & (bp.U > 0.0)
+        if np.any(used):
+            with np.errstate(divide="ignore"):
+                damage = np.where(used, bp.U / np.where(used, Lnm_case, 1.0), 0.0).sum(axis=1)
+                Lnm_mrev = np.where(damage > 0.0, 1.0 / np.where(damage > 0.0, damage, 1.0),
+                                    np.inf)
+            Lnm_h = Lnm_mrev * MEGA_REVOLUTIONS / (60.0 * bp.n_m)
+            target_mrev = bp.target_h * 60.0 * bp.n_m / MEGA_REVOLUTIONS
+            f = bp.a1 * aiso
+            s = np.where(used, bp.U * np.where(used, Pd, 0.0) ** p / np.where(used, f, 1.0),
+                         0.0).sum(axis=1)
+            C_req = (target_mrev * s) ** (1.0 / p)
+        else:
+            Lnm_h = np.full(b, np.inf)
+            C_req = np.zeros(b)
+        with np.errstate(divide="ignore"):
+            margin = np.where(C_req > 0.0, C[:, j] / np.where(C_req > 0.0, C_req, 1.0), np.inf)
+        P0 = equivalent_static_load(brg, fr.ravel(), fa.ravel()).P0_N
+        s0 = static_safety(brg.C0_N, P0).reshape(b, m).min(axis=1) if m else np.full(b, np.inf)
+        life_ok = Lnm_h >= bp.target_h
+        static_ok = s0 >= bp.s0_min
+        res.Lnm_h[rows, j] = Lnm_h
+        res.margin[rows, j] = margin
+        res.life_ratio[rows, j] = margin**p
+        res.s0[rows, j] = s0
+        res.life_ok[rows, j] = life_ok
+        res.static_ok[rows, j] = static_ok
+        res.ok[rows, j] = life_ok & static_ok
+        L90[:, j] = np.where(np.isfinite(Lnm_h), Lnm_h / bp.a1, np.inf)
+    life, lim = system_life_batch(L90, prep.slopes, prep.reliability)
+    res.system_life_h[rows] = life
+    res.limiting[rows] = lim
+
+
+def system_life_batch(lives: Array, slopes: Array, reliability: float
+                      ) -> tuple[Array, NDArray[np.intp]]:
+    """System life [unit of lives] and limiting bearing index for many variants.
+
+    Solves sum_i ln(0.9) (L/L_i)^e_i = ln R (Lundberg-Palmgren Weibull product, as
+    :func:`shaftsys.bearings.system.system_life`) by Newton's method on y = ln L,
+    started right of the root (h(y) = sum (e^y/L_i)^e_i is convex and increasing, so the
+    iterates decrease monotonically to the root). Infinite lives are left out; a row
+    with none finite gives inf and index -1.
+
+    Parameters
+    ----------
+    lives: (B, n) 90 %-reliability lives [h] (inf = never fails).
+    slopes: (n,) Weibull slopes [-].
+    reliability: system reliability R [-].
+    """
+    Lv = np.atleast_2d(np.asarray(lives, dtype=float))
+    e = np.asarray(slopes, dtype=float)[None, :]
+    finite = np.isfinite(Lv) & (Lv > 0.0)
+    c = math.log(reliability) / _LN09
+    lnL = np.where(finite, np.log(np.where(finite, Lv, 1.0)), np.inf)
+    y = np.min(np.where(finite, lnL + math.log(c) / e, np.inf), axis=1)
+    anyf = np.isfinite(y)
+    y = np.where(anyf, y, 0.0)
+    for _ in range(100):
+        t = np.where(finite, np.exp(e * (y[:, None] - np.where(finite, lnL, 0.0))), 0.0)
+        h = t.sum(axis=1)
+        dh = (e * t).sum(axis=1)
+        step = np.where(anyf & (dh > 0.0), (h - c) / np.where(dh > 0.0, dh, 1.0), 0.0)
+        y = y - step
+        if not np.any(np.abs(step) > 1e-15 * np.maximum(1.0, np.abs(y))):
+            break
+    life = np.where(anyf, np.exp(y), np.inf)
+    hazard = np.where(finite, np.exp(e * (y[:, None] - np.where(finite, lnL, 0.0))), -1.0)
+    lim = np.where(anyf, np.argmax(hazard, axis=1), -1).astype(np.intp)
+    return life, lim
+
+
+def error_text(exc: BaseException) -> str:
+    """``"<Type>: message"`` of an error (what invalid variants record)."""
+    return f"{type(exc).__name__}: {exc}"
+
+
+__all__ = ["CHUNK", "BatchArrays", "BearingPrep", "NumericalError", "Prepared",
+           "error_text", "evaluate_geometry", "prepare", "system_life_batch"]
