@@ -43,9 +43,8 @@ from shaftsys.units import DENSITY_KG_PER_MM3
 if TYPE_CHECKING:
     import pandas as pd
 
-    from shaftsys.machine.flow import CaseFlow
-
     from shaftsys.bearings.engine import BearingLife
+    from shaftsys.machine.flow import CaseFlow
 
 log = logging.getLogger(__name__)
 
@@ -516,7 +515,7 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
 
 
 def _node_of(sm: ShaftMesh, source: str, x_mm: float) -> int:
-    name = source.split(" ")[0]
+    name = source.split(" ", maxsplit=1)[0]
     if name in sm.element_nodes:
         return sm.element_nodes[name]
     return int(np.argmin(np.abs(sm.mesh.x_mm - x_mm)))

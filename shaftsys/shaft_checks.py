@@ -47,7 +47,8 @@ N*mm, N, degC.
    as alternating too, which is conservative); torque and axial force are mean unless
    they change sign between cases (:func:`~shaftsys.checks.classify_section_loads`,
    rule ``"reversal"``). The classification runs over the duty cases (peak and static
-   cases feed the yield check only; ``fatigue_cases="duty_and_peak"`` gives an envelope). First-cycle yield is
+   cases feed the yield check only; ``fatigue_cases="duty_and_peak"`` gives an
+   envelope). First-cycle yield is
    Sy over the largest peak von Mises stress of any single case (duty, peak, static)
    and of the fatigue classification. Marin factors: the section step's surface finish,
    the model's target reliability, the highest given temperature of the cases used (20

@@ -12,7 +12,7 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from numpy.typing import NDArray
+from numpy.typing import ArrayLike, NDArray
 
 from shaftsys.errors import ModelError
 from shaftsys.model import BevelGear, Element, Gear, Link, Model, Pulley, Shaft, Sprocket
@@ -40,12 +40,12 @@ def rotation(shaft: Shaft) -> Vec:
     return np.column_stack([x, y, z])
 
 
-def to_housing(shaft: Shaft, v_local: Vec) -> Vec:
+def to_housing(shaft: Shaft, v_local: ArrayLike) -> Vec:
     """A vector given in the shaft frame, in the housing frame."""
     return rotation(shaft) @ np.asarray(v_local, dtype=float)
 
 
-def to_shaft(shaft: Shaft, v_housing: Vec) -> Vec:
+def to_shaft(shaft: Shaft, v_housing: ArrayLike) -> Vec:
     """A vector given in the housing frame, in the shaft frame."""
     return rotation(shaft).T @ np.asarray(v_housing, dtype=float)
 
