@@ -124,7 +124,13 @@ def build_model(raw: Any, file: str | None = None) -> Model:
     if links:
         from shaftsys.machine.geometry import check_machine
 
-        check_machine(model)
+        try:
+            check_machine(model)
+        except ModelError as exc:
+            if exc.file is None:
+                raise ModelError(exc.message, file=file, line=exc.line, field=exc.field,
+                                 expected=exc.expected) from None
+            raise
     return model
 
 
