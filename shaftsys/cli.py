@@ -3,6 +3,14 @@
 Every command exits 0 when all checks pass, 1 when a target or limit is missed (results
 are still written), 2 for bad input, 3 for a numerical failure. Errors shaftsys raises on
 purpose are printed as one clear message; anything else is a bug and shows a traceback.
+
+Options every command shares: ``--quiet/-q`` (print nothing but errors) and ``--help``
+(with a worked example). Commands that produce results (``check``, ``report``) take
+``--json PATH`` (``-`` = standard output, for pipelines; the human-readable text then
+goes to standard error). Verdict words are coloured only when the stream they are
+written to is a terminal and ``NO_COLOR`` is unset; progress bars are drawn only on a
+terminal's standard error (see :mod:`shaftsys.report.terminal` and
+:mod:`shaftsys.report.progress`).
 """
 
 from __future__ import annotations
@@ -11,12 +19,12 @@ import argparse
 import json
 import logging
 import sys
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from pathlib import Path
-from typing import Any
+from typing import Any, TextIO
 
 from shaftsys import __version__
-from shaftsys.errors import EXIT_OK, EXIT_TARGET_MISSED, ModelError, ShaftsysError
+from shaftsys.errors import EXIT_OK, EXIT_TARGET_MISSED, ModelError, OutputError, ShaftsysError
 
 EXIT_CODES_TEXT = """exit codes:
   0  every check passes
@@ -27,13 +35,15 @@ EXIT_CODES_TEXT = """exit codes:
 CHECK_EXAMPLE = """example:
   shaftsys check models/fan_drive.yaml
   shaftsys check models/fan_drive.yaml --json results.json
-  shaftsys check models/fan_drive.yaml --json - --quiet | jq .system"""
+  shaftsys check models/fan_drive.yaml --json - --quiet | jq .system
+  shaftsys check models/fan_drive.yaml --explain A"""
 
 VALIDATE_EXAMPLE = """example:
   shaftsys validate models/fan_drive.yaml"""
 
 REPORT_EXAMPLE = """example:
-  shaftsys report models/fan_drive.yaml -o fan_report.html"""
+  shaftsys report models/fan_drive.yaml -o fan_report.html
+  shaftsys report models/fan_drive.yaml -o fan_report.html --json - | jq .ok"""
 
 PLOT_EXAMPLE = """examples:
   shaftsys plot models/fan_drive.yaml --what drawing -o shaft.svg
@@ -43,49 +53,80 @@ PLOT_EXAMPLE = """examples:
 SCHEMA_EXAMPLE = """example:
   shaftsys schema -o model.schema.json"""
 
+NEW_EXAMPLE = """example:
+  shaftsys new conveyor.yaml
+  shaftsys check conveyor.yaml
+  shaftsys new conveyor.yaml --force     # start again from the template"""
 
-def _parser() -> argparse.ArgumentParser:
+#: Default file name of ``shaftsys new``.
+NEW_DEFAULT_PATH = "model.yaml"
+
+#: Package file holding the starter model that ``shaftsys new`` writes.
+STARTER_MODEL = "data/starter_model.yaml"
+
+#: What runs a command: parsed arguments in, exit code out.
+Handler = Callable[[argparse.Namespace], int]
+
+
+def _command(sub: Any, name: str, help_text: str, description: str, example: str,
+             exit_codes: bool = True) -> argparse.ArgumentParser:
+    """A sub-command whose ``--help`` ends with ``example`` and the exit codes."""
+    epilog = example + ("\n\n" + EXIT_CODES_TEXT if exit_codes else "")
+    p: argparse.ArgumentParser = sub.add_parser(
+        name, help=help_text, description=description, epilog=epilog,
+        formatter_class=argparse.RawDescriptionHelpFormatter)
+    return p
+
+
+def _quiet(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--quiet", "-q", action="store_true",
+                   help="print nothing but errors (no tables, messages or progress bar)")
+
+
+def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
+    """The argument parser and the handler of each command."""
     p = argparse.ArgumentParser(
         prog="shaftsys",
         description="Bearing reactions, ISO 281 bearing life and shaft checks for every "
         "support of a machine over its duty cycle.",
-        epilog=EXIT_CODES_TEXT + "\n\nexample:\n  shaftsys check models/fan_drive.yaml",
-        formatter_class=argparse.RawDescriptionHelpFormatter,
-    )
+        epilog=EXIT_CODES_TEXT + "\n\nexample:\n  shaftsys new my_machine.yaml\n"
+        "  shaftsys check my_machine.yaml\n"
+        "  shaftsys report my_machine.yaml -o my_machine.html",
+        formatter_class=argparse.RawDescriptionHelpFormatter)
     p.add_argument("--version", action="version", version=f"shaftsys {__version__}")
     sub = p.add_subparsers(dest="command", metavar="COMMAND")
+    handlers: dict[str, Handler] = {}
 
-    c = sub.add_parser(
-        "check", help="solve a model and check every bearing against its targets",
-        description="Solve every shaft in every operating case, print the reactions of "
-        "every bearing and the life verdict table.",
-        epilog=CHECK_EXAMPLE + "\n\n" + EXIT_CODES_TEXT,
-        formatter_class=argparse.RawDescriptionHelpFormatter)
+    c = _command(sub, "check", "solve a model and check every bearing against its targets",
+                 "Solve every shaft in every operating case, print the reactions of every "
+                 "bearing, the life verdict table and the shaft checks.", CHECK_EXAMPLE)
     c.add_argument("model", help="model file (YAML)")
-    c.add_argument("--json", metavar="PATH", help="write the results as JSON ('-' = stdout)")
-    c.add_argument("--quiet", "-q", action="store_true", help="print nothing but errors")
+    c.add_argument("--json", metavar="PATH",
+                   help="write the results as JSON ('-' = standard output; the tables "
+                   "then go to standard error)")
+    _quiet(c)
     c.add_argument("--loads-only", action="store_true",
                    help="print only the reaction table")
     c.add_argument("--explain", metavar="BEARING",
                    help="print the calculation sheet of one bearing, formula by formula")
+    handlers["check"] = _check
 
-    r = sub.add_parser(
-        "report", help="write a self-contained HTML report for review and sign-off",
-        description="Solve a model and write one HTML file (figures inline, no network "
-        "access needed) with inputs, diagrams, verdicts and calculation sheets.",
-        epilog=REPORT_EXAMPLE + "\n\n" + EXIT_CODES_TEXT,
-        formatter_class=argparse.RawDescriptionHelpFormatter)
+    r = _command(sub, "report", "write a self-contained HTML report for review and sign-off",
+                 "Solve a model and write one HTML file (figures inline, no network access "
+                 "needed) with inputs, diagrams, verdicts and calculation sheets.",
+                 REPORT_EXAMPLE)
     r.add_argument("model", help="model file (YAML)")
     r.add_argument("-o", "--output", metavar="PATH", default="report.html",
                    help="HTML file to write (default: report.html)")
-    r.add_argument("--quiet", "-q", action="store_true", help="print nothing but errors")
+    r.add_argument("--json", metavar="PATH",
+                   help="also write the results as JSON ('-' = standard output)")
+    _quiet(r)
+    handlers["report"] = _report
 
-    pl = sub.add_parser(
-        "plot", help="write a figure (PNG or SVG, by the file's suffix)",
-        description="Solve a model and write one figure: the to-scale shaft drawing, the "
-        "diagrams of one case, or the load-life chart of one bearing.",
-        epilog=PLOT_EXAMPLE + "\n\n" + EXIT_CODES_TEXT,
-        formatter_class=argparse.RawDescriptionHelpFormatter)
+    pl = _command(sub, "plot", "write a figure (PNG or SVG, by the file's suffix)",
+                  "Solve a model and write one figure: the to-scale shaft drawing, the "
+                  "diagrams of one case, or the load-life chart of one bearing.",
+                  PLOT_EXAMPLE)
     pl.add_argument("model", help="model file (YAML)")
     pl.add_argument("--what", choices=("drawing", "diagrams", "life"), required=True,
                     help="which figure")
@@ -94,53 +135,125 @@ def _parser() -> argparse.ArgumentParser:
     pl.add_argument("--bearing", metavar="ID", help="bearing id for the load-life chart")
     pl.add_argument("-o", "--output", metavar="PATH", required=True,
                     help="figure file, .png or .svg")
+    _quiet(pl)
+    handlers["plot"] = _plot
 
-    v = sub.add_parser(
-        "validate", help="read and check a model file without solving it",
-        description="Read a model file and report the first problem found, with its file, "
-        "line and field.", epilog=VALIDATE_EXAMPLE + "\n\n" + EXIT_CODES_TEXT,
-        formatter_class=argparse.RawDescriptionHelpFormatter)
+    v = _command(sub, "validate", "read and check a model file without solving it",
+                 "Read a model file and report the first problem found, with its file, "
+                 "line and field.", VALIDATE_EXAMPLE)
     v.add_argument("model", help="model file (YAML)")
-    v.add_argument("--quiet", "-q", action="store_true", help="print nothing but errors")
+    _quiet(v)
+    handlers["validate"] = _validate
 
-    s = sub.add_parser(
-        "schema", help="print the JSON Schema of the model file",
-        description="Print the JSON Schema that editors can use to check a model file "
-        "while it is typed.", epilog=SCHEMA_EXAMPLE,
-        formatter_class=argparse.RawDescriptionHelpFormatter)
+    n = _command(sub, "new", "write a commented starter model to edit into your own",
+                 "Write a commented, working model file (the head shaft of a chain "
+                 "conveyor, every number invented) to start a new model from. It solves "
+                 "as written; replace its shaft, bearings, elements and cases with yours.",
+                 NEW_EXAMPLE)
+    n.add_argument("path", nargs="?", default=NEW_DEFAULT_PATH, metavar="PATH",
+                   help=f"file to write (default: {NEW_DEFAULT_PATH}; '-' = standard "
+                   "output)")
+    n.add_argument("--force", action="store_true", help="overwrite an existing file")
+    _quiet(n)
+    handlers["new"] = _new
+
+    s = _command(sub, "schema", "print the JSON Schema of the model file",
+                 "Print the JSON Schema that editors can use to check a model file while "
+                 "it is typed.", SCHEMA_EXAMPLE)
     s.add_argument("-o", "--output", metavar="PATH", help="write to a file instead")
-    return p
+    _quiet(s)
+    handlers["schema"] = _schema
+
+    # ---- design studies ------------------------------------------------------------
+    # The sweep command of the studies issue plugs in here once shaftsys/study/cli.py
+    # exists (not before: this module must import without it):
+    #
+    #     from shaftsys.study.cli import add_sweep_parser, run_sweep
+    #     add_sweep_parser(sub)
+    #     handlers["sweep"] = run_sweep
+    #
+    # Conventions its parser should follow: an epilog with a worked example and
+    # EXIT_CODES_TEXT, --quiet/-q, --json PATH|-, a ProgressBar from
+    # shaftsys.report.progress over the variants. tests/test_cli.py checks the --help
+    # of every registered command by itself.
+    return p, handlers
 
 
 def main(argv: Sequence[str] | None = None) -> int:
     """Entry point of the ``shaftsys`` console script; returns the exit code."""
-    args = _parser().parse_args(argv)
+    parser, handlers = _parser()
+    args = parser.parse_args(argv)
     logging.basicConfig(level=logging.WARNING, format="warning: %(message)s")
     # the life engine returns its warnings in the results; the CLI prints them once
     logging.getLogger("shaftsys.bearings").setLevel(logging.ERROR)
+    if getattr(args, "quiet", False):
+        logging.getLogger("shaftsys").setLevel(logging.ERROR)
     if args.command is None:
-        _parser().print_help()
+        parser.print_help()
         return EXIT_OK
     try:
-        if args.command == "check":
-            return _check(args)
-        if args.command == "validate":
-            return _validate(args)
-        if args.command == "schema":
-            return _schema(args)
-        if args.command == "report":
-            return _report(args)
-        if args.command == "plot":
-            return _plot(args)
+        return handlers[args.command](args)
     except ShaftsysError as exc:
-        print(f"shaftsys: error: {exc}", file=sys.stderr)
+        print(f"shaftsys: {_tag('error:', 'bad', sys.stderr)} {exc}", file=sys.stderr)
         return exc.exit_code
     except KeyboardInterrupt:
         print("shaftsys: interrupted", file=sys.stderr)
         return 130
-    return EXIT_OK  # pragma: no cover
 
 
+# ------------------------------------------------------------------------ helpers
+def _tag(text: str, role: str, stream: TextIO) -> str:
+    """``text`` in the colour of ``role`` when ``stream`` takes colour, else plain."""
+    from shaftsys.report.terminal import colour_wanted, paint
+
+    return paint(text, role) if colour_wanted(stream) else text
+
+
+def _emit(text: str, stream: TextIO) -> None:
+    """Print a block of table text, verdict words coloured on a terminal."""
+    from shaftsys.report.terminal import colour_wanted, paint_verdicts
+
+    print(paint_verdicts(text) if colour_wanted(stream) else text, file=stream)
+
+
+def _warn(text: str) -> None:
+    print(f"{_tag('warning:', 'caution', sys.stderr)} {text}", file=sys.stderr)
+
+
+def _solve(args: argparse.Namespace, bar: Any) -> Any:
+    """Read and solve ``args.model``, counting two steps on ``bar``."""
+    from shaftsys.analysis import analyse
+    from shaftsys.io.loader import load_model
+
+    bar.status("reading the model")
+    model = load_model(args.model)
+    bar.advance()
+    bar.status("solving")
+    result = analyse(model)
+    bar.advance()
+    return result
+
+
+def _json_out(args: argparse.Namespace, result: Any) -> None:
+    """Write ``result`` as JSON to ``args.json`` (a file, or stdout for '-')."""
+    if not args.json:
+        return
+    from shaftsys.io.output import json_ready, write_json
+    from shaftsys.results_json import result_to_dict
+
+    data = result_to_dict(result)
+    if args.json == "-":
+        sys.stdout.write(json.dumps(json_ready(data), indent=2, allow_nan=False) + "\n")
+        sys.stdout.flush()
+    else:
+        write_json(Path(args.json), data)
+
+
+def _verdict_code(result: Any) -> int:
+    return EXIT_OK if result.ok else EXIT_TARGET_MISSED
+
+
+# ------------------------------------------------------------------------ commands
 def _validate(args: argparse.Namespace) -> int:
     from shaftsys.io.loader import load_model
 
@@ -159,87 +272,137 @@ def _schema(args: argparse.Namespace) -> int:
     text = json.dumps(model_schema(), indent=2) + "\n"
     if args.output:
         write_text(args.output, text)
+        if not args.quiet:
+            print(f"wrote {args.output}")
     else:
         sys.stdout.write(text)
     return EXIT_OK
 
 
-def _check(args: argparse.Namespace) -> int:
-    from shaftsys.analysis import analyse
-    from shaftsys.io.loader import load_model
-    from shaftsys.io.output import json_ready, write_json
-    from shaftsys.report.tables import loads_table, verdict_table
-    from shaftsys.results_json import result_to_dict
+def starter_model_text(path_name: str = NEW_DEFAULT_PATH) -> str:
+    """The commented starter model that ``shaftsys new`` writes.
 
-    model = load_model(args.model)
-    result = analyse(model)
-    data = result_to_dict(result)
-    if args.json and args.json != "-":
-        write_json(Path(args.json), data)
-    to_stdout_json = args.json == "-"
-    out = sys.stderr if to_stdout_json else sys.stdout
+    Parameters
+    ----------
+    path_name:
+        File name the text will be saved as; it replaces the placeholder in the
+        comments' example commands.
+
+    Returns
+    -------
+    str
+        YAML text of a complete single-shaft model (a chain conveyor head shaft with
+        invented numbers) that loads and solves as written.
+    """
+    from importlib.resources import files
+
+    text = files("shaftsys").joinpath(STARTER_MODEL).read_text(encoding="utf-8")
+    return text.replace("THIS_FILE", path_name)
+
+
+def _new(args: argparse.Namespace) -> int:
+    from shaftsys.io.output import write_text
+
+    if args.path == "-":
+        sys.stdout.write(starter_model_text())
+        return EXIT_OK
+    target = Path(args.path)
+    if target.exists() and not args.force:
+        raise OutputError(f"{target} already exists; choose another name or add --force "
+                          "to overwrite it")
+    write_text(target, starter_model_text(target.name))
     if not args.quiet:
-        print(loads_table(result), file=out)
+        print(f"wrote {target}: a starter model (chain conveyor head shaft, invented "
+              f"numbers)\nnext: shaftsys check {target}")
+    return EXIT_OK
+
+
+def _check(args: argparse.Namespace) -> int:
+    from shaftsys.report.progress import ProgressBar
+    from shaftsys.report.tables import loads_table, verdict_table
+
+    with ProgressBar(2, "check", quiet=args.quiet) as bar:
+        result = _solve(args, bar)
+    if args.explain and args.explain not in {b.bearing.id for b in result.bearings}:
+        raise ModelError(f"no bearing '{args.explain}' in the model", field="--explain",
+                         expected="one of: " + ", ".join(b.bearing.id
+                                                         for b in result.bearings))
+    if args.json != "-":
+        _json_out(args, result)
+    out = sys.stderr if args.json == "-" else sys.stdout
+    if not args.quiet:
+        _emit(loads_table(result), out)
         if not args.loads_only:
             print(file=out)
-            print(verdict_table(result), file=out)
+            _emit(verdict_table(result), out)
             if result.checks is not None:
                 print(file=out)
-                print(result.checks.table(), file=out)
+                _emit(result.checks.table(), out)
         out.flush()
         for w in _all_warnings(result):
-            print(f"warning: {w}", file=sys.stderr)
-    if to_stdout_json:
-        sys.stdout.write(json.dumps(json_ready(data), indent=2) + "\n")
+            _warn(w)
+    if args.json == "-":
+        _json_out(args, result)
     if args.explain:
         from shaftsys.report.calcsheet import explain_bearing
 
-        if args.explain not in {b.bearing.id for b in result.bearings}:
-            raise ModelError(f"no bearing '{args.explain}' in the model",
-                             field="--explain", expected="one of: " + ", ".join(
-                                 b.bearing.id for b in result.bearings))
         print(explain_bearing(result, args.explain), file=out)
-    return EXIT_OK if result.ok else EXIT_TARGET_MISSED
+    return _verdict_code(result)
 
 
 def _report(args: argparse.Namespace) -> int:
-    from shaftsys.analysis import analyse
-    from shaftsys.io.loader import load_model
     from shaftsys.io.output import write_text
-    from shaftsys.report.html import render_report
+    from shaftsys.report.html import render_report, report_steps
+    from shaftsys.report.progress import ProgressBar
 
-    model = load_model(args.model)
-    result = analyse(model)
-    write_text(args.output, render_report(result))
+    with ProgressBar(2, "report", quiet=args.quiet) as bar:
+        result = _solve(args, bar)
+        bar.add_total(report_steps(result))
+        html_text = render_report(result, progress=bar.advance)
+        bar.status("writing")
+        write_text(args.output, html_text)
+    _json_out(args, result)
     if not args.quiet:
-        print(f"wrote {args.output}: "
-              + ("all supports pass" if result.ok else "a target is missed"))
-    return EXIT_OK if result.ok else EXIT_TARGET_MISSED
+        out = sys.stderr if args.json == "-" else sys.stdout
+        verdict = "all supports pass" if result.ok else "a target is missed"
+        from shaftsys.report.terminal import colour_wanted, paint
+
+        if colour_wanted(out):
+            verdict = paint(verdict, "good" if result.ok else "bad")
+        print(f"wrote {args.output}: {verdict}", file=out)
+        for w in _all_warnings(result):
+            _warn(w)
+    return _verdict_code(result)
 
 
 def _plot(args: argparse.Namespace) -> int:
-    from shaftsys.analysis import analyse
-    from shaftsys.io.loader import load_model
     from shaftsys.io.output import atomic_write
     from shaftsys.report import figures
+    from shaftsys.report.progress import ProgressBar
 
     suffix = Path(args.output).suffix.lower().lstrip(".")
     if suffix not in {"png", "svg"}:
         raise ModelError(f"cannot write a figure as '.{suffix}'", field="--output",
                          expected="a file name ending in .png or .svg")
-    model = load_model(args.model)
-    result = analyse(model)
-    shaft = _pick(result.shafts, args.shaft, lambda s: s.shaft.id, "--shaft")
-    if args.what == "drawing":
-        fig = figures.shaft_drawing(shaft)
-    elif args.what == "diagrams":
-        case = _pick(shaft.cases, args.case, lambda c: c.case, "--case")
-        fig = figures.diagrams(case)
-    else:
-        bearing = _pick(result.bearings, args.bearing, lambda b: b.bearing.id, "--bearing")
-        fig = figures.load_life_chart(bearing)
-    atomic_write(args.output, lambda fh: fig.savefig(fh, format=suffix))  # type: ignore[union-attr]
-    return EXIT_OK if result.ok else EXIT_TARGET_MISSED
+    with ProgressBar(3, "plot", quiet=args.quiet) as bar:
+        result = _solve(args, bar)
+        bar.status("drawing")
+        shaft = _pick(result.shafts, args.shaft, lambda s: s.shaft.id, "--shaft")
+        if args.what == "drawing":
+            fig = figures.shaft_drawing(shaft)
+        elif args.what == "diagrams":
+            case = _pick(shaft.cases, args.case, lambda c: c.case, "--case")
+            fig = figures.diagrams(case)
+        else:
+            bearing = _pick(result.bearings, args.bearing, lambda b: b.bearing.id,
+                            "--bearing")
+            fig = figures.load_life_chart(bearing)
+        atomic_write(args.output,
+                     lambda fh: fig.savefig(fh, format=suffix))  # type: ignore[union-attr]
+        bar.advance("drawn")
+    if not args.quiet:
+        print(f"wrote {args.output}")
+    return _verdict_code(result)
 
 
 def _pick(items: Sequence[Any], wanted: str | None, key: Any, option: str) -> Any:

@@ -300,3 +300,63 @@ def test_example_script_writes_pngs(tmp_path: Path) -> None:
         assert path.parent == tmp_path
         data = path.read_bytes()
         assert data[:8] == b"\x89PNG\r\n\x1a\n" and len(data) > 1000
+
+
+# ----------------------------------------------------------------------------- progress
+def test_render_report_counts_one_step_per_slow_part(result: Any) -> None:
+    from shaftsys.report.html import report_steps
+
+    labels: list[str] = []
+    text = render_report(result, date="2024-01-02", progress=labels.append)
+    n_shafts, n_cases = len(result.shafts), len(result.model.cases)
+    assert report_steps(result) == n_shafts * (1 + n_cases) + len(result.bearings)
+    assert len(labels) == report_steps(result)
+    for b in result.bearings:
+        assert f"bearing {b.bearing.id}" in labels
+    for c in result.model.cases:
+        assert any(label.startswith(f"case {c.id}") for label in labels)
+    # the callback changes nothing in the page, and a second render gives the same bytes
+    assert text == render_report(result, date="2024-01-02")
+
+
+# ----------------------------------------------------------------------------- readability
+def test_format_value_prints_negative_zero_as_zero() -> None:
+    assert calcsheet.format_value(-0.0) == "0"
+    assert calcsheet.format_value(0.0) == "0"
+    assert calcsheet.format_value(-2.5) == "-2.5"
+
+
+def test_report_tables_show_no_negative_zero_or_round_off(report: str) -> None:
+    body = re.sub(r"<svg.*?</svg>|<pre.*?</pre>|<style>.*?</style>", "", report,
+                  flags=re.DOTALL)
+    cells = re.findall(r'<td class="num">([^<]*)</td>', body)
+    assert cells
+    assert "-0" not in cells
+    assert not [c for c in cells if re.fullmatch(r"-?[0-9.]+e-1\d", c)]
+
+
+def test_load_life_chart_names_every_duty_case_in_its_legend(result: Any) -> None:
+    from matplotlib.figure import Figure
+
+    for b in result.bearings:
+        ax = Figure().add_subplot()
+        figures.load_life_chart(b, ax=ax)
+        legend = [t.get_text() for t in ax.get_legend().get_texts()]
+        dynamic = [c for c, d in zip(b.life.case_ids, b.life.dynamic, strict=True) if d]
+        for case in dynamic:
+            assert any(f"case {case}:" in text for text in legend), (b.bearing.id, case)
+        assert ax.get_legend().get_bbox_to_anchor().x0 > ax.bbox.x1 - 1  # beside the axes
+
+
+def test_stubby_shaft_drawing_is_narrower_not_taller(result: Any) -> None:
+    """A short, wide shaft keeps its scale in a narrower figure (page layout rule)."""
+    import dataclasses as dc
+
+    shaft = result.shafts[0].shaft
+    slender = figures.shaft_drawing(shaft)
+    w, h = slender.get_size_inches()
+    assert w == pytest.approx(9.0) and 2.4 <= h <= 4.4
+    stubby_steps = tuple(dc.replace(s, length_mm=s.length_mm / 8.0) for s in shaft.steps)
+    stubby = dc.replace(shaft, steps=stubby_steps, bearings=(), elements=())
+    w2, h2 = figures.shaft_drawing(stubby).get_size_inches()
+    assert h2 == pytest.approx(4.4) and w2 < 9.0

@@ -460,10 +460,19 @@ def _read_lubrication(top: Where, raw: Any) -> Lubrication | None:
     if raw is None:
         return None
     v = read_section(top, raw, S.LUBRICATION, "lubrication")
+    lw = top.child("lubrication", raw)
     if v["ec"] is None and v["cleanliness"] is None:
-        raise top.child("lubrication", raw).error(
-            None, "give the contamination factor 'ec' or a 'cleanliness' code",
-            "ec or cleanliness")
+        raise lw.error(None, "give the contamination factor 'ec' or a 'cleanliness' code",
+                       "ec or cleanliness")
+    # what the Walther relation (bearings.lubrication) needs, located in the file
+    for key in ("viscosity_40C", "viscosity_100C"):
+        if v[key] <= 0.3:
+            raise lw.error(key, f"{v[key]:g} mm^2/s is too thin for the Walther relation",
+                           "a viscosity above 0.3 mm^2/s")
+    if v["viscosity_100C"] >= v["viscosity_40C"]:
+        raise lw.error("viscosity_100C", f"the viscosity at 100 degC ({v['viscosity_100C']:g} "
+                       f"mm^2/s) is not below the one at 40 degC ({v['viscosity_40C']:g} "
+                       "mm^2/s)", "an oil that thins as it warms up")
     return Lubrication(nu1_at_t1_mm2_s=v["viscosity_40C"], nu2_at_t2_mm2_s=v["viscosity_100C"],
                        t1_C=40.0, t2_C=100.0, ec=v["ec"], cleanliness=v["cleanliness"],
                        filtration_beta=v["filtration_beta"], method=v["method"],

@@ -95,7 +95,11 @@ class _Walker:
                 path,
             )
         if isinstance(node, yaml.ScalarNode):
-            value = self.loader.construct_object(node, deep=False)
+            try:
+                value = self.loader.construct_object(node, deep=False)
+            except ValueError:  # e.g. an integer of more digits than Python converts
+                raise self.error(node, f"cannot read {node.value[:40]!r} as a value",
+                                 "a number of ordinary size, or a text", path) from None
             if isinstance(value, float) and not math.isfinite(value):
                 raise self.error(node, f"{node.value!r} is not a finite number",
                                  "a finite number", path)
@@ -134,8 +138,9 @@ class _Walker:
             if key_node.tag not in _SAFE_TAGS:
                 raise self.error(key_node, f"YAML tag {key_node.tag!r} is not allowed in "
                                  "a model file", "plain words as keys", path)
-            key = self.loader.construct_object(key_node, deep=False)
-            key = str(key)
+            # the key as written ('yes', '0x1F', '~' stay words; YAML would make them
+            # a bool, an int or None), so messages name the key the file shows
+            key = str(key_node.value)
             key_path = f"{path}.{key}" if path else key
             if key in out:
                 raise self.error(key_node, f"key {key!r} appears twice in this mapping",
@@ -169,7 +174,16 @@ def parse_yaml(text: str, file: str | None = None) -> Any:
             line=1,
             expected="a model file below the size limit",
         )
-    loader = yaml.SafeLoader(text)
+    last_line = max(1, len(text.splitlines()))
+    try:
+        loader = _DepthLimitedLoader(text, file)
+    except yaml.reader.ReaderError as exc:
+        # a control character (NUL, ESC, DEL...) that YAML does not allow
+        raise ModelError(
+            f"invalid YAML: character #x{exc.character:04x} is not allowed in a text file",
+            file=file, line=min(text.count("\n", 0, max(exc.position, 0)) + 1, last_line),
+            expected="printable text (no NUL or other control characters)",
+        ) from None
     try:
         node = loader.get_single_node()
         if node is None:
@@ -177,12 +191,39 @@ def parse_yaml(text: str, file: str | None = None) -> Any:
         return _Walker(loader, file).walk(node)
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
-        line = mark.line + 1 if mark is not None else None
+        # the end of the stream lies after the last line break: name the last line
+        line = min(mark.line + 1, last_line) if mark is not None else 1
         problem = exc.problem or "invalid YAML"
         raise ModelError(
             f"invalid YAML: {problem}", file=file, line=line, expected="valid YAML"
         ) from None
     except yaml.YAMLError as exc:
-        raise ModelError(f"invalid YAML: {exc}", file=file, line=None) from None
+        raise ModelError(f"invalid YAML: {exc}", file=file, line=1) from None
     finally:
         loader.dispose()
+
+
+class _DepthLimitedLoader(yaml.SafeLoader):
+    """PyYAML's safe loader whose (recursive) composer refuses deep nesting early.
+
+    The composer recurses once per nesting level, so ``[[[[...`` a few thousand levels
+    deep would exhaust Python's stack before :class:`_Walker` sees the depth (and names
+    the field path at ``MAX_DEPTH``).
+    """
+
+    def __init__(self, stream: str, file: str | None) -> None:
+        super().__init__(stream)
+        self._file = file
+        self._depth = 0
+
+    def compose_node(self, parent: yaml.Node | None, index: Any) -> yaml.Node | None:
+        self._depth += 1
+        try:
+            if self._depth > 2 * MAX_DEPTH:  # the walker names the path below this
+                mark = self.peek_event().start_mark
+                raise ModelError(f"nesting deeper than {MAX_DEPTH} levels", file=self._file,
+                                 line=mark.line + 1, expected=f"at most {MAX_DEPTH} levels "
+                                 "of nesting")
+            return super().compose_node(parent, index)
+        finally:
+            self._depth -= 1

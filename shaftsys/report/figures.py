@@ -78,18 +78,28 @@ def _element_size_mm(el: Any) -> float | None:
 _DRAWING_WIDTH_IN = 9.0
 
 
-def _drawing_height_in(shaft: Shaft) -> float:
-    """Figure height [in] that fits the to-scale drawing without empty bands.
+#: Height limits of the stand-alone shaft drawing [in].
+_DRAWING_MIN_HEIGHT_IN = 2.4
+_DRAWING_MAX_HEIGHT_IN = 4.4
+
+
+def _drawing_size_in(shaft: Shaft) -> tuple[float, float]:
+    """Figure (width, height) [in] that fits the to-scale drawing without empty bands.
 
     The drawing spans 1.10 L by 2.7 r_max (the limits set in :func:`shaft_drawing`);
     about 1.0 in of width goes to the y label and ticks, 1.0 in of height to the title
-    and x label. Clamped to 2.4..6 in (a very short or very slender shaft).
+    and x label. A slender shaft gets the full width and at least 2.4 in of height; a
+    stubby one (gear shafts) at most 4.4 in of height and a narrower figure.
     """
     r_max = max(s.d_mm for s in shaft.steps) / 2.0
     r_max = max([r_max, *(b.D_mm / 2.0 for b in shaft.bearings),
                  *((_element_size_mm(el) or 0.0) / 2.0 for el in shaft.elements)])
     ratio = (2.7 * r_max) / (1.10 * shaft.length_mm)
-    return min(max((_DRAWING_WIDTH_IN - 1.0) * ratio + 1.0, 2.4), 6.0)
+    height = (_DRAWING_WIDTH_IN - 1.0) * ratio + 1.0
+    if height <= _DRAWING_MAX_HEIGHT_IN:
+        return _DRAWING_WIDTH_IN, max(height, _DRAWING_MIN_HEIGHT_IN)
+    width = (_DRAWING_MAX_HEIGHT_IN - 1.0) / ratio + 1.0
+    return max(width, 4.0), _DRAWING_MAX_HEIGHT_IN
 
 
 @overload
@@ -124,7 +134,7 @@ def shaft_drawing(shaft_result_or_shaft: ShaftResult | Shaft, ax: Axes | None = 
     own = ax is None
     fig = None
     if ax is None:
-        fig, (ax,) = _new_figure(_DRAWING_WIDTH_IN, _drawing_height_in(shaft))
+        fig, (ax,) = _new_figure(*_drawing_size_in(shaft))
     edges = shaft.step_edges_mm
     r_max = max(s.d_mm for s in shaft.steps) / 2.0
     for step, x0 in zip(shaft.steps, edges[:-1], strict=True):
@@ -358,16 +368,18 @@ def _short(value: float) -> str:
     return f"{v:.4g}" if abs(v) < 1e4 else f"{v:.0f}"
 
 
-def to_svg(fig: Figure) -> str:
+def to_svg(fig: Figure, salt: str | None = None) -> str:
     """Inline SVG text of ``fig`` (no XML prolog); the figure is closed afterwards.
 
     Text stays text (``svg.fonttype = none``) and every figure gets its own id salt so
-    that several SVGs can share one HTML page without clashing clip-path ids.
+    that several SVGs can share one HTML page without clashing clip-path ids. ``salt``
+    ``None`` takes the next number of a process-wide counter; give distinct salts of
+    your own (e.g. ``"fig-3"``) for output that is the same on every call.
     """
     import matplotlib
 
     buf = io.StringIO()
-    salt = f"shaftsys-fig-{next(_SVG_COUNTER)}"
+    salt = f"shaftsys-fig-{next(_SVG_COUNTER)}" if salt is None else str(salt)
     with matplotlib.rc_context({"svg.fonttype": "none", "svg.hashsalt": salt}):
         fig.savefig(buf, format="svg")
     pyplot = sys.modules.get("matplotlib.pyplot")

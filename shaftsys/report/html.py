@@ -18,7 +18,9 @@ import datetime as _dt
 import html
 import math
 import os
+import re
 from collections.abc import Callable, Collection, Iterable, Sequence
+from dataclasses import dataclass
 
 from shaftsys import __version__
 from shaftsys.analysis import BearingResult, Result
@@ -69,11 +71,12 @@ dl.kv dt { color: var(--muted); } dl.kv dd { margin: 0; font-family: ui-monospac
 table { border-collapse: collapse; width: 100%; margin: 6px 0 10px; font-size: 12.5px; }
 th, td { padding: 3px 7px; border-bottom: 1px solid var(--line); text-align: right;
          vertical-align: top; }
-th { background: var(--band); font-weight: 600; }
+th { background: var(--band); font-weight: 600; white-space: nowrap; }
 th:first-child, td:first-child, td.t, th.t { text-align: left; }
-td.num { font-variant-numeric: tabular-nums; }
+td.num { font-variant-numeric: tabular-nums; white-space: nowrap; }
 figure { margin: 8px 0 14px; break-inside: avoid; page-break-inside: avoid; }
-figure svg { width: 100%; height: auto; display: block; border: 1px solid var(--line); }
+figure .fig { border: 1px solid var(--line); background: #fff; }
+figure svg { width: 100%; height: auto; display: block; }
 figcaption { color: var(--muted); font-size: 12px; }
 .gauge { position: relative; height: 14px; min-width: 180px; background:
          linear-gradient(90deg, #f3dcd3 0 33.33%, #e3efe7 33.33% 100%); border-radius: 2px; }
@@ -145,9 +148,28 @@ def _table(headers: Sequence[str], rows: Iterable[Sequence[str]],
     return f"<table><thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>"
 
 
-def _figure(fig: object, caption: str) -> str:
-    svg = figures.to_svg(fig)  # type: ignore[arg-type]
-    return f"<figure>{svg}<figcaption>{_e(caption)}</figcaption></figure>"
+#: Figure width [pt] that fills the text column; narrower figures keep their share, so
+#: that text in every figure prints at one size.
+_FULL_FIGURE_PT = 648.0
+_SVG_WIDTH = re.compile(r'<svg[^>]*?\swidth="([0-9.]+)pt"')
+
+
+def _figure(fig: object, caption: str, ctx: _Render) -> str:
+    svg = figures.to_svg(fig, salt=ctx.next_salt())  # type: ignore[arg-type]
+    m = _SVG_WIDTH.match(svg)
+    share = 100.0 if m is None else min(100.0, 100.0 * float(m.group(1)) / _FULL_FIGURE_PT)
+    return (f'<figure><div class="fig" style="width:{share:.1f}%">{svg}</div>'
+            f"<figcaption>{_e(caption)}</figcaption></figure>")
+
+
+#: Entries of a table smaller than this fraction of the table's largest magnitude are
+#: round-off of the solve and are shown as 0.
+_ROUND_OFF = 1e-9
+
+
+def _snap(value: float, scale: float) -> float:
+    """``value``, or 0.0 when it is round-off next to ``scale`` (same unit)."""
+    return 0.0 if abs(value) <= _ROUND_OFF * scale else value
 
 
 def _gauge(ratio: float, ok: bool) -> str:
@@ -230,14 +252,19 @@ def _inputs(result: Result) -> str:
             f"<h3>Bearing ratings and targets (maker's data as entered)</h3>{table}</section>")
 
 
-def _case_drive_text(case: Case) -> str:
+def _case_drive_text(result: Result, case: Case) -> str:
+    """Speed [rpm] of every shaft in ``case`` and where power enters (torque in N*m).
+
+    Speeds come from the solution: machine models derive those of linked shafts.
+    """
     parts = []
-    for sid, d in case.drives.items():
-        s = f"{sid}: {format_value(d.speed_rpm)} rpm"
-        if d.input_element:
-            s += (f", in at {d.input_element} T = {format_value(d.input_torque_Nmm / 1e3, 5)}"
-                  " N*m")
-        parts.append(s)
+    for s in result.shafts:
+        text = f"{s.shaft.id}: {format_value(s.case(case.id).speed_rpm)} rpm"
+        d = case.drives.get(s.shaft.id)
+        if d is not None and d.input_element:
+            text += (f", in at {d.input_element} T = "
+                     f"{format_value(d.input_torque_Nmm / 1e3, 5)} N*m")
+        parts.append(text)
     return "; ".join(parts) or "-"
 
 
@@ -254,7 +281,7 @@ def _summary(result: Result) -> str:
     crows = []
     for c in m.cases:
         crows.append([_e(c.id), _e(c.kind.value), _n(shares[c.id]), _n(c.duration),
-                      _n(c.temperature_C), _e(_case_drive_text(c))])
+                      _n(c.temperature_C), _e(_case_drive_text(result, c))])
     unit = "h" if m.duration_in_hours else "share"
     sys_line = (f"System life of the machine: {format_value(result.system_life_h, 5)} h at "
                 f"the target reliability, limited by {result.limiting_bearing or '-'}.")
@@ -266,34 +293,51 @@ def _summary(result: Result) -> str:
             + f'<p class="note">{_e(sys_line)}</p></section>')
 
 
-Step = Callable[[str], None]
+@dataclass
+class _Render:
+    """State of one rendering: the progress callback and the figure id counter.
+
+    Each report numbers its figures from 1, so the same result and date give the same
+    bytes on every call (the SVG clip-path ids derive from the salt).
+    """
+
+    step: Callable[[str], None]
+    figures_done: int = 0
+
+    def next_salt(self) -> str:
+        self.figures_done += 1
+        return f"shaftsys-fig-{self.figures_done}"
 
 
 def _no_step(label: str) -> None:
     """Progress callback that does nothing."""
 
 
-def _shafts(result: Result, step: Step) -> str:
+def _shafts(result: Result, ctx: _Render) -> str:
     parts = [f'<section id="shafts"><h2>{SECTION_TITLES[3]}</h2>']
     for s in result.shafts:
         parts.append(f"<h3>Shaft {_e(s.shaft.id)}</h3>")
         parts.append(_figure(figures.shaft_drawing(s),
                              f"Shaft {s.shaft.id}: steps, bearings (boxes, support point "
-                             "triangle) and elements (diamonds), to scale, mm."))
-        step(f"shaft {s.shaft.id}")
+                             "triangle) and elements (diamonds), to scale, mm.", ctx))
+        ctx.step(f"shaft {s.shaft.id}")
     parts.append("</section>")
     return "".join(parts)
 
 
-def _cases(result: Result, step: Step) -> str:
+def _cases(result: Result, ctx: _Render) -> str:
     parts = [f'<section id="cases"><h2>{SECTION_TITLES[4]}</h2>']
     for case in result.model.cases:
         parts.append(f'<h3 id="case-{_e(case.id)}">Case {_e(case.id)} '
                      f'<span class="note">({_e(case.kind.value)})</span></h3>')
         for s in result.shafts:
             cs = s.case(case.id)
-            rows = [[_e(a.source), _n(a.x_mm, 6), *(_n(v, 5) for v in a.force_N),
-                     *(_n(v / 1e3, 5) for v in a.moment_Nmm)] for a in cs.applied]
+            f_scale = max((abs(v) for a in cs.applied for v in a.force_N), default=0.0)
+            m_scale = max((abs(v) for a in cs.applied for v in a.moment_Nmm), default=0.0)
+            rows = [[_e(a.source), _n(a.x_mm, 6),
+                     *(_n(_snap(v, f_scale), 5) for v in a.force_N),
+                     *(_n(_snap(v, m_scale) / 1e3, 5) for v in a.moment_Nmm)]
+                    for a in cs.applied]
             parts.append(f"<p class=note>Shaft {_e(s.shaft.id)}: loads applied to the shaft "
                          "axis (shaft frame; bearing reactions and shaft weight not listed)."
                          "</p>")
@@ -301,11 +345,11 @@ def _cases(result: Result, step: Step) -> str:
                                  "My N*m", "Mz N*m"], rows))
             parts.append(_figure(figures.diagrams(cs),
                                  f"Shaft {s.shaft.id}, case {case.id}: shear, bending "
-                                 "moment, torque and radial deflection."))
+                                 "moment, torque and radial deflection.", ctx))
             if cs.warnings:
                 parts.append("<ul class=warn>" + "".join(f"<li>{_e(w)}</li>"
                                                          for w in cs.warnings) + "</ul>")
-            step(f"case {case.id}, shaft {s.shaft.id}")
+            ctx.step(f"case {case.id}, shaft {s.shaft.id}")
     parts.append("</section>")
     return "".join(parts)
 
@@ -336,12 +380,14 @@ def _verdicts(result: Result) -> str:
 
 
 def _bearing_loads_table(b: BearingResult) -> str:
-    rows = [[_e(ld.case), _n(ld.speed_rpm, 5), _n(ld.Fy_N, 5), _n(ld.Fz_N, 5),
-             _n(ld.Fx_N, 5), _n(ld.Fr_N, 5), _n(ld.Fa_N, 5)] for ld in b.loads]
+    scale = max((max(abs(ld.Fr_N), abs(ld.Fa_N)) for ld in b.loads), default=0.0)
+    rows = [[_e(ld.case), _n(ld.speed_rpm, 5),
+             *(_n(_snap(v, scale), 5) for v in (ld.Fy_N, ld.Fz_N, ld.Fx_N, ld.Fr_N,
+                                                  ld.Fa_N))] for ld in b.loads]
     return _table(["case", "n rpm", "Fy N", "Fz N", "Fx N", "Fr N", "Fa N"], rows)
 
 
-def _bearings(result: Result, step: Step) -> str:
+def _bearings(result: Result, ctx: _Render) -> str:
     parts = [f'<section id="bearings"><h2>{SECTION_TITLES[6]}</h2>']
     for b in result.bearings:
         parts.append(f'<div class="bearing" id="bearing-{_e(b.bearing.id)}">'
@@ -351,10 +397,10 @@ def _bearings(result: Result, step: Step) -> str:
         if b.life is not None:
             parts.append(_figure(figures.load_life_chart(b),
                                  f"Bearing {b.bearing.id}: load against basic life, rating "
-                                 "line through (1, C), duty cases, Pm and the target."))
+                                 "line through (1, C), duty cases, Pm and the target.", ctx))
             parts.append(explain_bearing_html(result, b.bearing.id))
         parts.append("</div>")
-        step(f"bearing {b.bearing.id}")
+        ctx.step(f"bearing {b.bearing.id}")
     parts.append("</section>")
     return "".join(parts)
 
@@ -411,7 +457,7 @@ def render_report(result: Result, date: str | None = None,
     """
     if date is None:
         date = _dt.datetime.now(_dt.UTC).date().isoformat()
-    step = _no_step if progress is None else progress
+    ctx = _Render(_no_step if progress is None else progress)
     m = result.model
     title = f"shaftsys report - {m.name}"
     stamp = "PASS" if result.ok else "FAIL"
@@ -423,8 +469,8 @@ def render_report(result: Result, date: str | None = None,
         f'bearing and shaft check by shaftsys {_e(__version__)} - '
         f'<span class="stamp {"ok" if result.ok else "bad"}">{stamp}</span></div></header>',
         _provenance(result, date), _inputs(result), _summary(result),
-        _shafts(result, step), _cases(result, step), _verdicts(result),
-        _bearings(result, step), _warnings(result), _cautions(),
+        _shafts(result, ctx), _cases(result, ctx), _verdicts(result),
+        _bearings(result, ctx), _warnings(result), _cautions(),
     ])
     return ("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"
             f"<title>{_e(title)}</title>"

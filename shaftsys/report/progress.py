@@ -30,6 +30,10 @@ __all__ = ["ProgressBar", "progress_wanted", "track"]
 
 T = TypeVar("T")
 
+#: Bar of a fixed 24 characters, so that a changing label does not make it jump.
+_BAR_FORMAT = ("{desc}: {percentage:3.0f}% |{bar:24}| {n_fmt}/{total_fmt} "
+               "[{elapsed}<{remaining}{postfix}]")
+
 
 def progress_wanted(quiet: bool = False, stream: TextIO | None = None) -> bool:
     """Whether a progress bar should be drawn on ``stream`` (default: standard error).
@@ -61,18 +65,23 @@ class ProgressBar:
     stream:
         Where to draw; ``None`` = ``sys.stderr`` at construction time.
     unit:
-        Name of one step in the rate display.
+        Name of one step.
+    min_interval_s:
+        Shortest time between two redraws [s] (tqdm's ``mininterval``); 0 redraws on
+        every step.
 
     Notes
     -----
     When the bar is not wanted (quiet, not a terminal) every method is a cheap no-op,
-    so callers never need their own ``if``. ``advance(label)`` shows ``label`` (the
-    step just finished) after the bar. Use it as a context manager or call
-    :meth:`close`.
+    so callers never need their own ``if``. ``advance(label)`` counts a finished
+    step and shows ``label`` after the bar; ``status(label)`` shows what runs now.
+    ``count`` and ``total`` are kept whether or not the bar is drawn. Use it as a
+    context manager or call :meth:`close`.
     """
 
     def __init__(self, total: int | None, desc: str = "", *, quiet: bool = False,
-                 stream: TextIO | None = None, unit: str = "step") -> None:
+                 stream: TextIO | None = None, unit: str = "step",
+                 min_interval_s: float = 0.1) -> None:
         if total is not None and total < 0:
             raise ValueError(f"total must be >= 0 or None, got {total}")
         self.total = None if total is None else int(total)
@@ -82,9 +91,11 @@ class ProgressBar:
         if self.enabled:
             from tqdm import tqdm
 
+            fmt = None if self.total is None else _BAR_FORMAT
             self._bar = tqdm(total=self.total, desc=desc, unit=unit, leave=False,
                              file=sys.stderr if stream is None else stream,
-                             dynamic_ncols=True)
+                             dynamic_ncols=True, bar_format=fmt,
+                             mininterval=min_interval_s, miniters=1)
 
     def advance(self, label: str | None = None, n: int = 1) -> None:
         """Count ``n`` finished steps; ``label`` names the last one on the bar."""
@@ -93,6 +104,20 @@ class ProgressBar:
             if label is not None:
                 self._bar.set_postfix_str(label, refresh=False)
             self._bar.update(n)
+
+    def status(self, label: str) -> None:
+        """Show ``label`` (what is running now) after the bar without counting."""
+        if self._bar is not None:
+            self._bar.set_postfix_str(label)
+
+    def add_total(self, n: int) -> None:
+        """Raise the expected number of steps by ``n`` (work found on the way)."""
+        if n < 0:
+            raise ValueError(f"n must be >= 0, got {n}")
+        self.total = (self.total or 0) + n
+        if self._bar is not None:
+            self._bar.total = self.total
+            self._bar.refresh()
 
     def close(self) -> None:
         """Remove the bar from the terminal (idempotent)."""
@@ -109,7 +134,8 @@ class ProgressBar:
 
 
 def track(items: Iterable[T], desc: str = "", *, total: int | None = None,
-          quiet: bool = False, stream: TextIO | None = None) -> Iterator[T]:
+          quiet: bool = False, stream: TextIO | None = None,
+          min_interval_s: float = 0.1) -> Iterator[T]:
     """Yield ``items`` unchanged while a :class:`ProgressBar` counts them.
 
     ``total`` defaults to ``len(items)`` when the iterable has a length, else the bar
@@ -117,7 +143,8 @@ def track(items: Iterable[T], desc: str = "", *, total: int | None = None,
     """
     if total is None and hasattr(items, "__len__"):
         total = len(items)  # type: ignore[arg-type]
-    with ProgressBar(total, desc, quiet=quiet, stream=stream) as bar:
+    with ProgressBar(total, desc, quiet=quiet, stream=stream,
+                     min_interval_s=min_interval_s) as bar:
         for item in items:
             yield item
             bar.advance()

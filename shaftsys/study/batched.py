@@ -118,7 +118,7 @@ def prepare(model: Model) -> Prepared:
     ------
     ValueError: the model has more than one shaft or links (use the per-variant path).
     """
-    if len(model.shafts) != 1 or getattr(model, "links", ()):
+    if len(model.shafts) != 1 or getattr(model, "links", None):
         raise ValueError("the batched evaluator handles one-shaft models without links")
     shaft = model.shafts[0]
     m = len(model.cases)
@@ -308,8 +308,11 @@ def evaluate_geometry(prep: Prepared, geom: Geometry) -> BatchArrays:
     srt = np.take_along_axis(pv, order, axis=1)
     newc = np.diff(srt, axis=1) > STATION_TOL_MM
     sig = np.concatenate([order, newc.astype(order.dtype)], axis=1)
-    _, inverse = np.unique(sig, axis=0, return_inverse=True)
-    inverse = np.asarray(inverse).ravel()
+    inverse = np.zeros(valid.size, dtype=np.intp)
+    other = np.flatnonzero(np.any(sig != sig[0], axis=1))  # most share the first topology
+    if other.size:
+        _, inv = np.unique(sig[other], axis=0, return_inverse=True)
+        inverse[other] = 1 + np.asarray(inv).ravel()
     for g in range(int(inverse.max()) + 1):
         members = valid[inverse == g]
         first = int(np.flatnonzero(inverse == g)[0])
@@ -323,6 +326,13 @@ def evaluate_geometry(prep: Prepared, geom: Geometry) -> BatchArrays:
 def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], pts: Array,
                        order: NDArray[np.intp], newc: NDArray[np.bool_], ns: int,
                        out: BatchArrays) -> None:
+    """Solve the variants ``rows`` that share one topology and store their results.
+
+    Superposition: the stiffness is factored once per variant and solved for one unit
+    load per loaded DOF (force and moment at each element node) plus the shaft weight
+    of each plane; the cases of both planes are then linear combinations of these few
+    solutions, evaluated only where results are needed (support and element nodes).
+    """
     shaft = prep.shaft
     model = prep.model
     m = len(prep.case_ids)
@@ -343,8 +353,8 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
     step = np.clip(np.searchsorted(edges0, mid0, side="right") - 1, 0, ns - 1)
     mat = shaft.material
     A, Iz, _, k = circular_section_arrays(geom.step_d_mm[rows], geom.step_bore_mm[rows],
-                                         mat.poisson)
-    EI = (mat.E_MPa * Iz[:, step]).T                      # (n_e, b)
+                                          mat.poisson)
+    EI = (mat.E_MPa * Iz[:, step]).T                     # (n_e, b)
     L = np.diff(x, axis=1).T                             # (n_e, b)
     if model.solver.shear_deformation:
         kGA = (k * mat.G_MPa * A)[:, step].T
@@ -362,6 +372,7 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
                 rigid[dof] = True
             else:
                 springs[dof] += kk
+    # --- loads of both planes and every case on the nodes: F0 (ndof, 2m), shared
     F0 = np.zeros((ndof, 2 * m))
     for j in range(ne):
         nd = int(enode[j])
@@ -369,78 +380,93 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
         F0[2 * nd + 1, :m] += prep.el_moment[j, :, 2]
         F0[2 * nd, m:] += prep.el_force[j, :, 2]
         F0[2 * nd + 1, m:] -= prep.el_moment[j, :, 1]
-    Ft = np.repeat(F0[:, :, None], b, axis=2)            # (2n, 2m, b)
+    loaded = np.flatnonzero(np.any(F0 != 0.0, axis=1))
+    planes = [(0, prep.gravity[1]), (1, prep.gravity[2])] if prep.weight else []
+    planes = [(pl, gc) for pl, gc in planes if gc != 0.0]
+    nc = loaded.size + len(planes)
+    Fu = np.zeros((ndof, nc, b))                         # unit loads and weights
+    Fu[loaded, np.arange(loaded.size)] = 1.0
+    coef = np.zeros((nc, 2 * m))                         # case columns from unit columns
+    coef[: loaded.size] = F0[loaded]
     mass_total = np.zeros(b)
     if prep.weight:
         lm = (mat.density_kg_m3 * DENSITY_KG_PER_MM3 * A)[:, step].T   # kg/mm (n_e, b)
         mass_total = (lm * L).sum(axis=0)
         n_e = n - 1
-        for plane, gc in ((slice(0, m), prep.gravity[1]), (slice(m, 2 * m), prep.gravity[2])):
-            if gc == 0.0:
-                continue
+        for c, (pl, gc) in enumerate(planes, start=loaded.size):
             q = lm * gc
-            qL = (0.5 * q * L)[:, None, :]
-            qL2 = (q * L * L / 12.0)[:, None, :]
-            Ft[0 : 2 * n_e : 2, plane] += qL
-            Ft[1 : 2 * n_e : 2, plane] += qL2
-            Ft[2 : 2 * n_e + 2 : 2, plane] += qL
-            Ft[3 : 2 * n_e + 2 : 2, plane] -= qL2
-    u, piv = _solve(ab, rigid, springs, Ft)
-    Ku = ab[3][:, None, :] * u
-    for d in range(1, 4):
-        off = ab[3 - d, d:][:, None, :]
-        Ku[:-d] += off * u[d:]
-        Ku[d:] += off * u[:-d]
-    Rr = Ku - Ft                                         # reactions at rigid DOFs
+            qL = 0.5 * q * L
+            qL2 = q * L * L / 12.0
+            Fu[0 : 2 * n_e : 2, c] += qL
+            Fu[1 : 2 * n_e : 2, c] += qL2
+            Fu[2 : 2 * n_e + 2 : 2, c] += qL
+            Fu[3 : 2 * n_e + 2 : 2, c] -= qL2
+            coef[c, pl * m : (pl + 1) * m] = 1.0
+    U, piv = _solve(ab, rigid, springs, Fu)              # (ndof, nc, b)
     reason = np.full(b, "", dtype=object)
-    bad = ~(piv >= DEFAULT_PIVOT_TOL)
-    reason[bad] = ("NumericalError: stiffness not positive definite or (nearly) a "
-                   "mechanism")
-    # --- reactions per bearing: (b, m) arrays; thrust bearings carry no radial load
-    ry = np.zeros((nb, m, b))
-    rz = np.zeros((nb, m, b))
-    tm = np.zeros((nb, 2 * m, b))                        # moments [xy | xz] for balance
-    for j, kt, kr in prep.supports:
-        node = int(bnode[j])
-        fdof, mdof = 2 * node, 2 * node + 1
-        rf = Rr[fdof] if math.isinf(kt) else -kt * u[fdof]
-        rm = Rr[mdof] if math.isinf(kr) else -kr * u[mdof]
-        ry[j] = rf[:m]
-        rz[j] = rf[m:]
-        tm[j] = rm
-    # --- global balance of each plane (force, and moment about x = 0)
+    reason[~(piv >= DEFAULT_PIVOT_TOL)] = ("NumericalError: stiffness not positive definite "
+                                           "or (nearly) a mechanism")
+    # --- support reactions of the unit columns: K U - Fu (rigid) or -k U (spring)
+    sup_nodes = np.array([int(bnode[j]) for j, _, _ in prep.supports], dtype=np.intp)
+    Rf = np.zeros((len(prep.supports), nc, b))
+    Rm = np.zeros((len(prep.supports), nc, b))
+    for s_i, (_, kt, kr) in enumerate(prep.supports):
+        for dof, kk, dest in ((2 * sup_nodes[s_i], kt, Rf), (2 * sup_nodes[s_i] + 1, kr, Rm)):
+            if math.isinf(kk):
+                ku = ab[3, dof][None, :] * U[dof]
+                for d in range(1, 4):
+                    if dof - d >= 0:
+                        ku = ku + ab[3 - d, dof][None, :] * U[dof - d]
+                    if dof + d < ndof:
+                        ku = ku + ab[3 - d, dof + d][None, :] * U[dof + d]
+                dest[s_i] = ku - Fu[dof]
+            else:
+                dest[s_i] = -kk * U[dof]
+    # --- global balance of every unit column (force, moment about x = 0)
     xn = x.T                                             # (n, b)
-    Fy_all = np.concatenate([ry, rz], axis=1)            # (nb, 2m, b)
-    xs = x[:, bnode].T                                # (nb, b)
-    fsum = Ft[0::2].sum(axis=0) + Fy_all.sum(axis=0)
-    msum = ((xn[:, None, :] * Ft[0::2]).sum(axis=0) + Ft[1::2].sum(axis=0)
-            + (xs[:, None, :] * Fy_all).sum(axis=0) + tm.sum(axis=0))
-    absF = np.abs(Ft[0::2]).sum(axis=0)
-    scale_m = absF * np.abs(xn).max(axis=0)[None, :] + np.abs(Ft[1::2]).sum(axis=0)
+    xs = xn[sup_nodes]                                   # (n_sup, b)
+    fsum = Fu[0::2].sum(axis=0) + Rf.sum(axis=0)
+    msum = ((xn[:, None, :] * Fu[0::2]).sum(axis=0) + Fu[1::2].sum(axis=0)
+            + (xs[:, None, :] * Rf).sum(axis=0) + Rm.sum(axis=0))
+    absF = np.abs(Fu[0::2]).sum(axis=0)
+    scale_m = absF * np.abs(xn).max(axis=0)[None, :] + np.abs(Fu[1::2]).sum(axis=0)
     with np.errstate(invalid="ignore", divide="ignore"):
         rel = np.maximum(np.where(absF > 0, np.abs(fsum) / absF, np.abs(fsum)),
                          np.where(scale_m > 0, np.abs(msum) / scale_m, np.abs(msum)))
-    worst = rel.max(axis=0)
+    worst = rel.max(axis=0) if nc else np.zeros(b)
     tol = model.solver.residual_tolerance
-    unbalanced = ~(worst <= tol) & (reason == "")
-    for i in np.flatnonzero(unbalanced):
+    for i in np.flatnonzero(~(worst <= tol) & (reason == "")):
         reason[i] = (f"NumericalError: equilibrium residual {worst[i]:.3g} of the applied "
                      f"load exceeds the tolerance {tol:.1g}")
+
+    def combine(Z: Array) -> Array:
+        """(r, nc, b) unit-column values -> (r, 2m, b) case values of both planes."""
+        out_ = np.zeros((Z.shape[0], 2 * m, b))
+        for c in range(nc):
+            out_ += Z[:, c][:, None, :] * coef[c][None, :, None]
+        return out_
+
+    Rcase = combine(Rf)                                  # (n_sup, 2m, b)
+    ry = np.zeros((nb, m, b))
+    rz = np.zeros((nb, m, b))
+    for s_i, (j, _, _) in enumerate(prep.supports):
+        ry[j] = Rcase[s_i, :m]
+        rz[j] = Rcase[s_i, m:]
     Fr = np.hypot(ry, rz)                                # (nb, m, b)
-    # --- axial rule
     Ka = prep.fx_elements[:, None] + (mass_total * prep.gravity[0])[None, :]  # (m, b)
     Fa = _axial(shaft, Ka, Fr)                           # (nb, m, b)
-    # --- deflections and slopes at nodes, largest over the cases
-    v, w = u[0::2, :m], u[0::2, m:]
-    tz, ty = u[1::2, :m], u[1::2, m:]
-    defl = np.hypot(v, w).max(axis=1)                    # (n, b)
-    slope = np.hypot(ty, tz).max(axis=1)
+    # --- deflections and slopes at the bearing and element nodes, largest over cases
+    nodes = np.concatenate([bnode, enode])
+    Ud = combine(U[2 * nodes])
+    Us = combine(U[2 * nodes + 1])
+    defl = np.hypot(Ud[:, :m], Ud[:, m:]).max(axis=1)   # (nb + ne, b)
+    slope = np.hypot(Us[:, :m], Us[:, m:]).max(axis=1)
     res = BatchArrays.empty(b, nb, ne)
     res.reason[:] = reason
-    res.deflection_mm[:] = defl[bnode].T
-    res.slope_rad[:] = slope[bnode].T
-    res.el_deflection_mm[:] = defl[enode].T
-    res.el_slope_rad[:] = slope[enode].T
+    res.deflection_mm[:] = defl[:nb].T
+    res.slope_rad[:] = slope[:nb].T
+    res.el_deflection_mm[:] = defl[nb:].T
+    res.el_slope_rad[:] = slope[nb:].T
     res.Fr_max_N[:] = Fr.max(axis=1).T
     res.Fa_max_N[:] = Fa.max(axis=1).T
     ok_rows = np.flatnonzero(reason == "")
@@ -448,9 +474,10 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
         C = geom.bearing_C_N[rows]
         _lives_safe(prep, np.moveaxis(Fr, 2, 0), np.moveaxis(Fa, 2, 0), C, ok_rows, res)
     bad_rows = np.flatnonzero(res.reason != "")
-    for name in ("Fr_max_N", "Fa_max_N", "deflection_mm", "slope_rad", "el_deflection_mm",
-                 "el_slope_rad"):
-        getattr(res, name)[bad_rows] = np.nan
+    if bad_rows.size:
+        for name in ("Fr_max_N", "Fa_max_N", "deflection_mm", "slope_rad",
+                     "el_deflection_mm", "el_slope_rad"):
+            getattr(res, name)[bad_rows] = np.nan
     out.put(rows, res)
 
 

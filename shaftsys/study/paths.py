@@ -241,13 +241,13 @@ def parse_quantity(model: Model, path: str, seat: bool = False) -> Quantity:
             raise _err(path, f"element '{el.id}' is a {el.kind}, not a gear",
                        "a gear or bevel gear id, or element.<id>.<field>")
         spec = ELEMENT_FIELDS.get(parts[2])
-        attr = next((a for a in (spec[0] if spec else ()) if hasattr(el, a)), None)
-        if spec is None or attr is None:
+        found = next((a for a in (spec[0] if spec else ()) if hasattr(el, a)), None)
+        if spec is None or found is None:
             valid = [k for k, (attrs, _, _) in ELEMENT_FIELDS.items()
                      if any(hasattr(el, a) for a in attrs)]
             raise _err(path, f"{el.kind} '{el.id}' has no numeric field '{parts[2]}'",
                        f"one of {valid}")
-        return Quantity(path, "element", (parts[1],), attr, shaft.id, spec[1], spec[2], seat)
+        return Quantity(path, "element", (parts[1],), found, shaft.id, spec[1], spec[2], seat)
     if kind == "case":
         if len(parts) != 3:
             raise _err(path, "a case path has three parts", "case.<id>.<field>")
@@ -505,6 +505,11 @@ def _set_case(case: Case, field_name: str, value: float, first_shaft: str | None
     return dataclasses.replace(case, drives=drives)
 
 
+def _replace(obj: Any, attr: str, value: float) -> Any:
+    """``dataclasses.replace(obj, **{attr: value})``."""
+    return dataclasses.replace(obj, **{attr: value})
+
+
 def model_with(model: Model, quantities: Sequence[Quantity], values: Sequence[float]
                ) -> tuple[Model, str]:
     """The variant model for one row of values, and why it is impossible (``""`` if not).
@@ -543,11 +548,11 @@ def model_with(model: Model, quantities: Sequence[Quantity], values: Sequence[fl
         si = next(i for i, s in enumerate(shafts) if s.id == q.shaft)
         s = shafts[si]
         if q.kind == "bearing":
-            bs = tuple(dataclasses.replace(b, **{q.attr: float(v)}) if b.id == q.target[0] else b
+            bs = tuple(_replace(b, q.attr, float(v)) if b.id == q.target[0] else b
                        for b in s.bearings)
             shafts[si] = dataclasses.replace(s, bearings=bs)
         elif q.kind == "element":
-            es = tuple(dataclasses.replace(e, **{q.attr: float(v)}) if e.id == q.target[0]
+            es = tuple(_replace(e, q.attr, float(v)) if e.id == q.target[0]
                        else e for e in s.elements)
             shafts[si] = dataclasses.replace(s, elements=es)
     return dataclasses.replace(model, shafts=tuple(shafts), cases=tuple(cases)), reason

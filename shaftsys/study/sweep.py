@@ -24,10 +24,10 @@ import hashlib
 import json
 import logging
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, BinaryIO
 
 import numpy as np
 from numpy.typing import NDArray
@@ -124,7 +124,7 @@ class Study:
     @property
     def batched(self) -> bool:
         """True when the batched evaluator covers this study."""
-        return (len(self.model.shafts) == 1 and not getattr(self.model, "links", ())
+        return (len(self.model.shafts) == 1 and not getattr(self.model, "links", None)
                 and all(q.geometric for q in self.quantities))
 
     def values_block(self, lo: int, hi: int) -> NDArray[np.float64]:
@@ -135,9 +135,14 @@ class Study:
         sub = np.unravel_index(idx, self.shape)
         return np.column_stack([v[s] for v, s in zip(self.values, sub, strict=True)])
 
+    @property
+    def id_width(self) -> int:
+        """Digits of the variant ids (at least 6)."""
+        return max(6, len(str(self.n_variants - 1)))
+
     def variant_id(self, i: int) -> str:
-        """Stable id of variant ``i``."""
-        return f"v{i:0{max(6, len(str(self.n_variants - 1)))}d}"
+        """Stable id of variant ``i`` (``v000123``)."""
+        return f"v{i:0{self.id_width}d}"
 
     def prepared(self) -> Prepared:
         """Shared data of the batched evaluator (built once per process)."""
@@ -275,7 +280,7 @@ def _log_fallback(study: Study) -> None:
         return
     _LOGGED.add(key)
     why = ("the model has several shafts or links" if len(study.model.shafts) != 1
-           or getattr(study.model, "links", ()) else
+           or getattr(study.model, "links", None) else
            "quantities " + ", ".join(q.path for q in study.quantities if not q.geometric)
            + " are not geometric")
     log.warning("study: %s; the batched evaluator does not cover this study, so every "
@@ -299,9 +304,10 @@ def results_frame(study: Study, index: NDArray[np.intp], values: NDArray[np.floa
 
     bearings, elements, gears = _names(study.model)
     B = index.size
+    width = study.id_width
     valid = np.asarray(a.reason == "", dtype=bool)
     cols: dict[str, Any] = {
-        "variant": [study.variant_id(int(i)) for i in index],
+        "variant": [f"v{i:0{width}d}" for i in index.tolist()],
         "index": index.astype(np.int64),
     }
     for k, q in enumerate(study.quantities):
@@ -323,8 +329,7 @@ def results_frame(study: Study, index: NDArray[np.intp], values: NDArray[np.floa
         cols[f"{eid}.deflection_mm"] = a.el_deflection_mm[:, j]
         cols[f"{eid}.slope_rad"] = a.el_slope_rad[:, j]
     cols["system_life_h"] = a.system_life_h
-    cols["limiting_bearing"] = np.array(
-        [bearings[k] if k >= 0 else "" for k in a.limiting], dtype=object).astype(str)
+    cols["limiting_bearing"] = np.array([*bearings, ""], dtype=str)[a.limiting]
     if bearings:
         margins = np.where(np.isnan(a.margin), np.inf, a.margin)
         worst = np.argmin(margins, axis=1)
@@ -406,10 +411,17 @@ def write_results(df: pd.DataFrame, out_dir: str | Path, stem: str = "results"
     out = Path(out_dir)
     paths = {"csv": out / f"{stem}.csv", "json": out / f"{stem}.json",
              "parquet": out / f"{stem}.parquet"}
-    atomic_write(paths["csv"], lambda fh: fh.write(df.to_csv(index=False).encode()))
-    text = json.dumps(frame_records(df), allow_nan=False)
-    atomic_write(paths["json"], lambda fh: fh.write(text.encode()))
+    csv = df.to_csv(index=False).encode()
+    text = json.dumps(frame_records(df), allow_nan=False).encode()
     table = pa.Table.from_pandas(df, preserve_index=False)
+
+    def put(data: bytes) -> Callable[[BinaryIO], None]:
+        def write(fh: BinaryIO) -> None:
+            fh.write(data)
+        return write
+
+    atomic_write(paths["csv"], put(csv))
+    atomic_write(paths["json"], put(text))
     atomic_write(paths["parquet"], lambda fh: pq.write_table(table, fh))
     return paths
 
@@ -419,12 +431,15 @@ def study_summary(study: Study, df: pd.DataFrame) -> dict[str, Any]:
     valid = df[df["valid"]]
     passing = valid[valid["ok"]]
     best = passing if len(passing) else valid
-    row = best.loc[best["worst_margin"].idxmax()] if len(best) else None
+    row = None
+    if len(best):
+        wm = best["worst_margin"].to_numpy(dtype=float)
+        row = best.iloc[int(np.nanargmax(wm))] if np.any(~np.isnan(wm)) else best.iloc[0]
     return {
         "variants": int(study.n_variants),
-        "valid": int(len(valid)),
+        "valid": len(valid),
         "invalid": int(study.n_variants - len(valid)),
-        "passing": int(len(passing)),
+        "passing": len(passing),
         "best_variant": None if row is None else str(row["variant"]),
         "best_values": None if row is None else {q.path: float(row[q.path])
                                                  for q in study.quantities},

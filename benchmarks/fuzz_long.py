@@ -1,0 +1,139 @@
+"""Long fuzz campaign of the loader and solver (the generators of tests/test_fuzz_models.py).
+
+Runs at least 10 000 generated model files through ``shaftsys check`` (spread over the
+three generators and over worker processes, each with its own random seed), prints the
+number of examples, the outcome histogram, the first failures (if any) and the time the
+billion-laughs file takes to be refused.
+
+    python benchmarks/fuzz_long.py                 # 10 000 examples, 2 workers
+    python benchmarks/fuzz_long.py -n 30000 -w 4 --seed 7
+
+Exit code 0 when no example broke the contract, 1 otherwise.
+"""
+
+from __future__ import annotations
+
+import argparse
+import multiprocessing as mp
+import random
+import sys
+import tempfile
+import time
+from collections import Counter
+from pathlib import Path
+from typing import Any
+
+ROOT = Path(__file__).resolve().parent.parent
+sys.path[:0] = [str(ROOT), str(ROOT / "tests")]
+
+
+def _worker(job: tuple[str, int, int]) -> tuple[Counter[str], list[str], int]:
+    """Run ``count`` examples of one generator with one seed; (histogram, failures, n)."""
+    import warnings
+
+    import test_fuzz_models as fz
+    from hypothesis import HealthCheck, given, seed, settings
+    from hypothesis import strategies as st
+
+    warnings.simplefilter("ignore")
+    generator, count, run_seed = job
+    failures: list[str] = []
+    calls = 0
+    with tempfile.TemporaryDirectory() as tmp:
+        folder = Path(tmp)
+
+        @seed(run_seed)
+        @settings(max_examples=count, deadline=None, database=None, derandomize=False,
+                  suppress_health_check=list(HealthCheck))
+        @given(st.data())
+        def run(data: st.DataObject) -> None:
+            nonlocal calls
+            calls += 1
+            text = fz.GENERATORS[generator](data)
+            try:
+                outcome = fz.classify(text, folder)
+            except Exception as exc:  # a crash escaping main: record it, go on
+                import traceback
+
+                outcome = fz.Outcome("FAIL", None, "exception escaped main:\n"
+                                     + "".join(traceback.format_exception(exc))[-3000:])
+            fz.HISTOGRAM[f"{generator}:{outcome.kind}"] += 1
+            if outcome.failed and len(failures) < 20:
+                sample = text if isinstance(text, str) else text.decode("utf-8", "replace")
+                failures.append(f"{outcome.detail}\n--- file (first 1500 chars) ---\n"
+                                f"{sample[:1500]}")
+
+        run()
+    return Counter(fz.HISTOGRAM), failures, calls
+
+
+def billion_laughs_seconds() -> tuple[float, str]:
+    """Time [s] to refuse the classic alias bomb, and the message."""
+    from shaftsys.errors import ModelError
+    from shaftsys.io.loader import load_model_text
+
+    lines = ['a0: &a0 ["lol","lol","lol","lol","lol","lol","lol","lol","lol","lol"]']
+    for i in range(1, 10):
+        lines.append(f"a{i}: &a{i} [{','.join([f'*a{i - 1}'] * 10)}]")
+    text = "\n".join(lines) + "\n"
+    start = time.perf_counter()
+    try:
+        load_model_text(text, "bomb.yaml")
+    except ModelError as exc:
+        return time.perf_counter() - start, exc.message
+    return time.perf_counter() - start, "NOT REFUSED"
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Run the campaign and print the count and histogram."""
+    p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    p.add_argument("-n", "--examples", type=int, default=10_000)
+    p.add_argument("-w", "--workers", type=int, default=2)
+    p.add_argument("--seed", type=int, default=None)
+    p.add_argument("--jobs-per-worker", type=int, default=4,
+                   help="split the work in this many seeds per worker and generator")
+    args = p.parse_args(argv)
+    import test_fuzz_models as fz
+
+    rng = random.Random(args.seed)
+    gens = sorted(fz.GENERATORS)
+    n_jobs = len(gens) * args.workers * args.jobs_per_worker
+    per_job = -(-args.examples // n_jobs)
+    jobs = [(g, per_job, rng.randrange(2**32)) for g in gens
+            for _ in range(args.workers * args.jobs_per_worker)]
+    start = time.perf_counter()
+    total: Counter[str] = Counter()
+    failures: list[str] = []
+    calls = 0
+    ctx = mp.get_context("fork")
+    with ctx.Pool(args.workers, maxtasksperchild=1) as pool:
+        for hist, fails, n in pool.imap_unordered(_worker, jobs):
+            total.update(hist)
+            failures.extend(fails)
+            calls += n
+            done = sum(total.values())
+            print(f"... {done} examples, {time.perf_counter() - start:.0f} s", flush=True)
+    elapsed = time.perf_counter() - start
+    examples = sum(total.values())
+    print(f"\nexamples: {examples} (property calls {calls}) in {elapsed:.0f} s "
+          f"with {args.workers} workers")
+    print("outcome histogram (generator:outcome):")
+    for key in sorted(total):
+        print(f"  {key:28s} {total[key]:7d}")
+    kinds: Counter[str] = Counter()
+    for key, n in total.items():
+        kinds[key.split(":", 1)[1]] += n
+    print("by outcome: " + ", ".join(f"{k} {v}" for k, v in sorted(kinds.items())))
+    seconds, message = billion_laughs_seconds()
+    print(f"billion-laughs file refused in {seconds * 1000:.1f} ms: {message}")
+    for i, f in enumerate(failures[:10]):
+        print(f"\n=== failure {i + 1} ===\n{f}")
+    return 1 if kinds.get("FAIL") else 0
+
+
+def _unused(_: Any) -> None:  # pragma: no cover - keeps mypy quiet about Any import
+    return None
+
+
+if __name__ == "__main__":
+    sys.exit(main())
