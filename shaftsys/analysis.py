@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import logging
 import math
+import re
 from dataclasses import dataclass, field, replace
 from typing import TYPE_CHECKING, Any
 
@@ -351,6 +352,7 @@ class ShaftMesh:
     mesh: BeamMesh
     bearing_nodes: dict[str, int]
     element_nodes: dict[str, int]
+    extra_nodes: tuple[int, ...] = ()
 
 
 def snap_stations(stations_mm: list[float], edges_mm: tuple[float, ...],
@@ -374,7 +376,8 @@ def snap_stations(stations_mm: list[float], edges_mm: tuple[float, ...],
     return out
 
 
-def mesh_shaft(shaft: Shaft, max_element_mm: float) -> ShaftMesh:
+def mesh_shaft(shaft: Shaft, max_element_mm: float,
+               extra_stations_mm: Any = ()) -> ShaftMesh:
     """Mesh ``shaft`` with nodes at every step edge, bearing pressure centre and element.
 
     Stations within :data:`STATION_SNAP_MM` of a step edge or of another station share
@@ -391,18 +394,41 @@ def mesh_shaft(shaft: Shaft, max_element_mm: float) -> ShaftMesh:
         poisson=np.full(n, mat.poisson),
         rho_kg_m3=np.full(n, mat.density_kg_m3),
     )
+    extra = list(extra_stations_mm)
     stations = snap_stations([b.support_x_mm for b in shaft.bearings]
-                             + [e.x_mm for e in shaft.elements], shaft.step_edges_mm)
+                             + [e.x_mm for e in shaft.elements] + extra,
+                             shaft.step_edges_mm)
     mesh, nodes = build_mesh(steps, stations, max_element_mm)
     nb = len(shaft.bearings)
+    ne = len(shaft.elements)
     return ShaftMesh(
         mesh=mesh,
         bearing_nodes={b.id: int(nodes[i]) for i, b in enumerate(shaft.bearings)},
         element_nodes={e.id: int(nodes[nb + i]) for i, e in enumerate(shaft.elements)},
+        extra_nodes=tuple(int(nodes[nb + ne + i]) for i in range(len(extra))),
     )
 
 
 # ----------------------------------------------------------------------------- solve
+def shaft_groups(model: Model) -> list[list[str]]:
+    """Shafts joined by bearings between them, as groups solved together (model order)."""
+    parent = {s.id: s.id for s in model.shafts}
+
+    def root(a: str) -> str:
+        while parent[a] != a:
+            a = parent[a]
+        return a
+
+    for s_ in model.shafts:
+        for b in s_.bearings:
+            if b.within is not None and b.within in parent:
+                parent[root(s_.id)] = root(b.within)
+    groups: dict[str, list[str]] = {}
+    for s_ in model.shafts:
+        groups.setdefault(root(s_.id), []).append(s_.id)
+    return list(groups.values())
+
+
 def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = True
             ) -> Result:
     """Solve every shaft in every case and evaluate every bearing.
@@ -414,6 +440,70 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
     NumericalError: a singular or ill-posed system, or an equilibrium residual above
         ``model.solver.residual_tolerance``.
     """
+    try:
+        return _analyse(model, with_life=with_life, with_shaft_checks=with_shaft_checks)
+    except ModelError as exc:
+        located = locate_error(exc, model)
+        if located is exc:
+            raise
+        raise located from exc
+
+
+#: Attribute names of the model's dataclasses -> keys of the model file (for messages).
+_FILE_KEYS = {
+    "C_N": "C", "C0_N": "C0", "Cu_N": "Cu", "limiting_speed_rpm": "limiting_speed",
+    "contact_angle_deg": "contact_angle", "x_mm": "at", "d_mm": "d", "D_mm": "D",
+    "B_mm": "B", "kind": "type", "pressure_centre_offset_mm": "pressure_centre_offset",
+    "radial_stiffness_N_mm": "radial_stiffness", "tilt_stiffness_Nmm_rad": "tilt_stiffness",
+    "target_life_h": "target_life", "target_reliability": "reliability",
+}
+_FIELD_OBJECT = re.compile(r"^(bearings|cases|links|elements|shafts)\[([^\]]*)\](?:\.(\w+))?")
+_CASE_NAMED = re.compile(r"case '([^']*)'")
+
+
+def locate_error(exc: ModelError, model: Model) -> ModelError:
+    """``exc`` with the model file, line and file field path added where it has none.
+
+    Errors of the numerical core name a field by object and attribute (e.g.
+    ``bearings[A].C_N``); this finds the object's line in the model file and writes the
+    path as the file spells it (``shafts[s1].bearings[A].C``). A section-level error
+    (``lubrication``, ``life``) that names a case gets the case's line. Returns ``exc``
+    itself when it is already located or the model has no source file.
+    """
+    if exc.file is not None or model.source is None:
+        return exc
+    field_path, line = exc.field, exc.line
+    found = _FIELD_OBJECT.match(field_path or "")
+    if found is not None:
+        what, ident, attr = found.groups()
+        key = f".{_FILE_KEYS.get(attr, attr)}" if attr else ""
+        for s in model.shafts:
+            owned: list[tuple[Any, str]] = [(s, "shafts"), *((b, "bearings") for b in
+                                                           s.bearings),
+                                            *((e, "elements") for e in s.elements)]
+            for obj, group in owned:
+                if group == what and obj.id == ident:
+                    line = obj.line if obj.line is not None else line
+                    field_path = (f"shafts[{s.id}]{key}" if group == "shafts" else
+                                  f"shafts[{s.id}].{group}[{ident}]{key}")
+        for c in model.cases:
+            if what == "cases" and c.id == ident and c.line is not None:
+                line = c.line
+        for k in model.links:
+            if what == "links" and k.id == ident and k.line is not None:
+                line = k.line
+    elif field_path == "links" and model.links and line is None:
+        line = model.links[0].line
+    if line is None:
+        named = _CASE_NAMED.search(exc.message)
+        case = next((c for c in model.cases if named and c.id == named.group(1)), None)
+        line = case.line if case is not None else None
+    return ModelError(exc.message, file=model.source, line=line, field=field_path,
+                      expected=exc.expected)
+
+
+def _analyse(model: Model, *, with_life: bool, with_shaft_checks: bool) -> Result:
+    """The body of :func:`analyse` (which adds file locations to its errors)."""
     shaft_results: list[ShaftResult] = []
     bearing_results: list[BearingResult] = []
     warnings: list[str] = []
@@ -422,14 +512,34 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
         from shaftsys.machine.flow import case_flow
 
         flows = [case_flow(model, c) for c in model.cases]
+    # bearings held by another shaft (pilot bearings) need a node on that shaft too
+    held: dict[str, list[float]] = {}
+    for s_ in model.shafts:
+        for b in s_.bearings:
+            if b.within is not None and b.within_x_mm is not None:
+                held.setdefault(b.within, []).append(b.within_x_mm)
+    meshes = {s_.id: mesh_shaft(s_, model.solver.max_element_mm, held.get(s_.id, ()))
+              for s_ in model.shafts}
+    applied_by_shaft: dict[str, list[list[AppliedLoad]]] = {}
     for shaft in model.shafts:
-        sm = mesh_shaft(shaft, model.solver.max_element_mm)
         applied_all: list[list[AppliedLoad]] = []
         for case, flow in zip(model.cases, flows, strict=True):
             applied, w = element_loads(model, shaft, case, flow)
             applied_all.append(applied)
             warnings.extend(w)
-        bending = solve_shaft_bending(shaft, sm, model, applied_all)
+        applied_by_shaft[shaft.id] = applied_all
+    bendings: dict[str, Any] = {}
+    for group in shaft_groups(model):
+        if len(group) == 1:
+            shaft = model.shaft(group[0])
+            bendings[shaft.id] = solve_shaft_bending(shaft, meshes[shaft.id], model,
+                                                     applied_by_shaft[shaft.id])
+        else:
+            bendings.update(solve_coupled_group(model, group, meshes, applied_by_shaft))
+    for shaft in model.shafts:
+        sm = meshes[shaft.id]
+        applied_all = applied_by_shaft[shaft.id]
+        bending = bendings[shaft.id]
         cases: list[CaseSolution] = []
         per_bearing: dict[str, list[BearingCaseLoad]] = {b.id: [] for b in shaft.bearings}
         for k, case in enumerate(model.cases):
@@ -449,8 +559,6 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
 
         result = attach_life(result)
     if with_shaft_checks:
-        from dataclasses import replace
-
         from shaftsys.shaft_checks import check_shafts
 
         result = replace(result, checks=check_shafts(result))
@@ -523,6 +631,8 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
         for b in shaft.bearings
     ]
     at_nodes = [replace(a, x_mm=float(x[_node_of(sm, a.source, a.x_mm)])) for a in applied]
+    for bid, x_b, f_b, m_b in getattr(bending, "external", lambda _k: [])(k):
+        reactions.append(AppliedLoad(f"bearing {bid} (outer ring)", x_b, f_b, m_b))
     weight = shaft_weight_loads(model, shaft)
     f_res, m_res, rel = equilibrium_residual([*at_nodes, *weight], reactions)
     tol = model.solver.residual_tolerance
@@ -542,9 +652,12 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
         ry, rz, my, mz = radial[b.id]
         node = sm.bearing_nodes[b.id]
         fxb = -axial_on_shaft[b.id]
+        ring_speed = speed
+        if b.within is not None:
+            ring_speed = speed - shaft_speed(model.shaft(b.within), case, flow)
         loads[b.id] = BearingCaseLoad(
             case=case.id, Fy_N=-ry, Fz_N=-rz, Fx_N=fxb, Fr_N=math.hypot(ry, rz),
-            Fa_N=abs(fxb), speed_rpm=speed, induced_N=induced.get(b.id, 0.0),
+            Fa_N=abs(fxb), speed_rpm=ring_speed, induced_N=induced.get(b.id, 0.0),
             My_Nmm=-my, Mz_Nmm=-mz, deflection_mm=float(math.hypot(disp[node, 1],
                                                                     disp[node, 2])),
             slope_rad=float(math.hypot(disp[node, 4], disp[node, 5])))
@@ -747,6 +860,76 @@ class BendingSolution:
         Vz = fxz.Q_N[:, :, 0].ravel()
         My = -fxz.M_Nmm[:, :, 0].ravel()
         return stations, Vy, Mz, Vz, My
+
+
+def _nodal_loads(sm: ShaftMesh, model: Model, applied_all: list[list[AppliedLoad]]
+                 ) -> tuple[NDArray[np.float64], NDArray[np.float64],
+                            NDArray[np.float64] | None, NDArray[np.float64] | None,
+                            NDArray[np.float64]]:
+    """Nodal load vectors of both planes (Fy, Mz) and (Fz, -My) for every case, the
+    shaft's weight per length in y and z [N/mm] and its axial weight per node [N].
+    """
+    mesh = sm.mesh
+    n = mesh.n_nodes
+    m = len(applied_all)
+    F_xy = np.zeros((2 * n, m))
+    F_xz = np.zeros((2 * n, m))
+    for k, applied in enumerate(applied_all):
+        for a in applied:
+            node = _node_of(sm, a.source, a.x_mm)
+            F_xy[2 * node, k] += a.force_N[1]
+            F_xy[2 * node + 1, k] += a.moment_Nmm[2]
+            F_xz[2 * node, k] += a.force_N[2]
+            F_xz[2 * node + 1, k] -= a.moment_Nmm[1]
+    g = np.asarray(model.gravity_m_s2, dtype=float)
+    axial_weight = np.zeros(n)
+    q_y = q_z = None
+    if model.solver.include_shaft_weight and np.any(g):
+        line_mass = mesh.rho_kg_m3 * DENSITY_KG_PER_MM3 * mesh.A_mm2   # kg/mm
+        q_y = line_mass * g[1]
+        q_z = line_mass * g[2]
+        px = line_mass * g[0] * mesh.L_mm
+        axial_weight[:-1] += px / 2
+        axial_weight[1:] += px / 2
+    return F_xy, F_xz, q_y, q_z, axial_weight
+
+
+def solve_coupled_group(model: Model, group: list[str], meshes: dict[str, ShaftMesh],
+                        applied_by_shaft: dict[str, list[list[AppliedLoad]]]
+                        ) -> dict[str, Any]:
+    """Bending of shafts joined by bearings between them, solved as one system."""
+    from shaftsys.machine.coupled import CoupledBending, Joint, Member, solve_plane
+
+    members = []
+    joints: list[Joint] = []
+    joint_x: dict[str, float] = {}
+    axial: dict[str, NDArray[np.float64]] = {}
+    for sid in group:
+        shaft = model.shaft(sid)
+        sm = meshes[sid]
+        F_xy, F_xz, q_y, q_z, ax = _nodal_loads(sm, model, applied_by_shaft[sid])
+        axial[sid] = ax
+        mesh = sm.mesh
+        members.append(Member(sid, mesh.x_mm, mesh.EI_Nmm2, mesh.kGA_N, F_xy, F_xz, q_y, q_z,
+                              ax))
+        for b in shaft.bearings:
+            if b.kind is BearingKind.THRUST_BALL:
+                continue
+            outer = None
+            if b.within is not None and b.within_x_mm is not None:
+                osm = meshes[b.within]
+                onode = int(np.argmin(np.abs(osm.mesh.x_mm - b.within_x_mm)))
+                outer = (b.within, onode)
+                joint_x[b.id] = float(osm.mesh.x_mm[onode])
+            joints.append(Joint(b.id, (sid, sm.bearing_nodes[b.id]), outer,
+                                b.radial_stiffness_N_mm or math.inf,
+                                b.tilt_stiffness_Nmm_rad))
+    label = "shafts " + ", ".join(f"'{g}'" for g in group)
+    shear = model.solver.shear_deformation
+    xy = solve_plane(members, joints, "xy", shear, label)
+    xz = solve_plane(members, joints, "xz", shear, label)
+    return {sid: CoupledBending(sid, meshes[sid].mesh.x_mm, xy, xz, joints, joint_x,
+                                axial[sid]) for sid in group}
 
 
 def _backward_error(system: Any, u: NDArray[np.float64], F: NDArray[np.float64],

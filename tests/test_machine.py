@@ -337,3 +337,64 @@ def test_belt_link_efficiency_loss_torque():
     assert len(loss) == 1 and loss[0].shaft == "fan_side"
     # the loss torque opposes the driven shaft's rotation (+500 rpm about +X)
     assert loss[0].moment_Nmm[0] == pytest.approx(-0.05 * 40000.0, rel=REL)
+
+
+PILOT = """
+shaftsys: 1
+gravity: [0, 0, 0]
+materials: {steel: {E: 210 GPa, nu: 0.3}}
+shafts:
+  - id: inner
+    material: steel
+    steps: [{length: 200 mm, d: 30 mm}]
+    bearings:
+      - {id: A1, type: deep_groove_ball, at: 20 mm, d: 30 mm, D: 62 mm, C: 20 kN, C0: 11 kN,
+         axial: both}
+      - {id: P, type: needle_roller, at: 190 mm, d: 30 mm, D: 40 mm, C: 15 kN, C0: 18 kN,
+         within: outer}
+    elements:
+      - {id: F, type: load, at: 100 mm, force: [0, -1000 N, 0]}
+      - {id: in, type: coupling, at: 0 mm}
+      - {id: out_a, type: coupling, at: 150 mm}
+  - id: outer
+    material: steel
+    origin: [180 mm, OFFSET, 0]
+    steps: [{length: 300 mm, d: 60 mm, bore: 40 mm}]
+    bearings:
+      - {id: B1, type: deep_groove_ball, at: 100 mm, d: 60 mm, D: 95 mm, C: 30 kN, C0: 20 kN,
+         axial: both}
+      - {id: B2, type: deep_groove_ball, at: 280 mm, d: 60 mm, D: 95 mm, C: 30 kN, C0: 20 kN}
+    elements:
+      - {id: in_b, type: coupling, at: 150 mm}
+      - {id: out_b, type: coupling, at: 290 mm}
+cases:
+  - id: run
+    share: 1
+    shafts:
+      inner: {speed: 1000 rpm, input: {element: in, torque: 10 N*m}, outputs: {out_a: 1}}
+      outer: {speed: 300 rpm, input: {element: in_b, torque: 30 N*m}, outputs: {out_b: 1}}
+"""
+
+
+def test_pilot_bearing_between_coaxial_shafts():
+    """Statics (free bodies worked by hand): the inner shaft rests on A1 (x = 20) and on the
+    pilot bearing P (x = 190) inside the outer shaft; a 1000 N load at x = 100 gives
+    R_P = 1000*80/170 = 470.588235 N, R_A1 = 1000*90/170 = 529.411765 N. The outer shaft
+    (B1 at its x = 100, B2 at 280) carries R_P downward at its station 10 (overhang 90 to
+    the left of B1): R_B2 = -R_P*90/180 = -235.294118 N, R_B1 = R_P*270/180 = 705.882353 N.
+    The pilot bearing runs at the relative speed 1000 - 300 = 700 rpm."""
+    m = load_model_text(PILOT.replace("OFFSET", "0"), "pilot.yaml")
+    r = analyse(m, with_shaft_checks=False)
+    loads = {b.bearing.id: b.loads[0] for b in r.bearings}
+    assert loads["P"].Fy_N == pytest.approx(-470.588235294, rel=REL)
+    assert loads["A1"].Fy_N == pytest.approx(-529.411764706, rel=REL)
+    assert loads["B1"].Fy_N == pytest.approx(-705.882352941, rel=REL)
+    assert loads["B2"].Fy_N == pytest.approx(235.294117647, rel=REL)
+    assert loads["P"].speed_rpm == pytest.approx(700.0, rel=REL)
+    for s in r.shafts:
+        assert s.cases[0].residual_relative < 1e-9
+
+
+def test_pilot_bearing_needs_coaxial_shafts():
+    with pytest.raises(ModelError, match="not coaxial"):
+        load_model_text(PILOT.replace("OFFSET", "5 mm"), "pilot.yaml")

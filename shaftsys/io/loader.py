@@ -102,6 +102,7 @@ def build_model(raw: Any, file: str | None = None) -> Model:
                                   linked))
     if not shafts:
         raise top.error("shafts", "the model has no shaft", "at least one shaft")
+    shafts = _place_inner_bearings(Where(file, "shafts", shafts_raw), shafts)
     life = _read_life(top, raw.get("life"))
     lubrication = _read_lubrication(top, raw.get("lubrication"))
     solver = _read_solver(top, raw.get("solver"))
@@ -160,6 +161,53 @@ def _claim_id(where: Where, key: str | int, ident: str, what: str, ids: dict[str
         raise where.error(key, f"id '{ident}' is used twice (already a {ids[ident]})",
                           "ids that are unique in the model")
     ids[ident] = what
+
+
+def _place_inner_bearings(where: Where, shafts: list[Shaft]) -> list[Shaft]:
+    """Check bearings held by another shaft (``within``) and find their station there."""
+    from dataclasses import replace
+
+    import numpy as np
+
+    by_id = {s.id: s for s in shafts}
+    out = []
+    for shaft in shafts:
+        bearings = list(shaft.bearings)
+        for bi, b in enumerate(bearings):
+            if b.within is None:
+                continue
+            bw = Where(where.file, f"shafts[{shaft.id}].bearings[{b.id}]", None)
+
+            def fail(msg: str, expected: str, bw: Where = bw, b: Bearing = b) -> ModelError:
+                return ModelError(msg, file=bw.file, line=b.line, field=f"{bw.path}.within",
+                                  expected=expected)
+
+            outer = by_id.get(b.within)
+            if outer is None or outer.id == shaft.id:
+                raise fail(f"'{b.within}' is not another shaft of the model",
+                           "the id of the shaft that holds the outer ring")
+            if b.axial is not AxialRole.FLOAT or b.kind is BearingKind.THRUST_BALL:
+                raise fail("a bearing between two shafts carries radial load only here",
+                           "axial: float and a radial bearing type")
+            a_ax = np.asarray(shaft.axis)
+            b_ax = np.asarray(outer.axis)
+            if float(np.dot(a_ax, b_ax)) < 1 - 1e-9:
+                raise fail(f"shafts '{shaft.id}' and '{outer.id}' do not run in the same "
+                           "direction", "coaxial shafts with the same axis")
+            p = np.asarray(shaft.origin_mm) + b.support_x_mm * a_ax - np.asarray(
+                outer.origin_mm)
+            x_outer = float(np.dot(p, b_ax))
+            off = float(np.linalg.norm(p - x_outer * b_ax))
+            if off > 0.01:
+                raise fail(f"shafts '{shaft.id}' and '{outer.id}' are not coaxial (axes "
+                           f"{off:.3g} mm apart)", "coaxial shafts")
+            if not -_TOL_MM <= x_outer <= outer.length_mm + _TOL_MM:
+                raise fail(f"the bearing lies at {x_outer:g} mm of shaft '{outer.id}', "
+                           f"outside it (0 to {outer.length_mm:g} mm)",
+                           "a station inside the outer shaft")
+            bearings[bi] = replace(b, within_x_mm=x_outer)
+        out.append(replace(shaft, bearings=tuple(bearings)))
+    return out
 
 
 def _linked_elements(raw: Any) -> set[str]:
@@ -290,7 +338,7 @@ def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[
         radial_stiffness_N_mm=v["radial_stiffness"],
         tilt_stiffness_Nmm_rad=v["tilt_stiffness"], ribs=v["ribs"],
         target_life_h=v["target_life"], target_reliability=v["reliability"],
-        s0_min=v["s0_min"], ec=v["ec"], line=here.line_of(None),
+        s0_min=v["s0_min"], ec=v["ec"], line=here.line_of(None), within=v["within"],
     )
 
 

@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from shaftsys.errors import ModelError
-from shaftsys.io.quantities import QuantityProblem, to_internal
+from shaftsys.io.quantities import MAX_MAGNITUDE, QuantityProblem, to_internal
 from shaftsys.io.yamlsource import LocatedDict, LocatedList
 
 
@@ -128,6 +128,8 @@ BEARING = {
                      dim="dimensionless", minimum=0.0, maximum=1.0),
     "s0_min": F("number", "required static safety", positive=True),
     "ec": F("number", "contamination factor for this bearing", minimum=0.0, maximum=1.0),
+    "within": F("id", "shaft that holds the outer ring (pilot bearing, idler on a pin); "
+                "the housing when missing"),
 }
 
 _ELEMENT_COMMON = {
@@ -447,6 +449,10 @@ def read_value(where: Where, key: str | int, raw: Any, spec: Field) -> Any:
         if isinstance(raw, bool) or not isinstance(raw, int):
             raise where.error(key, f"expected a whole number, got {_describe(raw)}",
                               "a whole number")
+        if abs(raw) > MAX_MAGNITUDE:
+            raise where.error(key, f"a whole number of about {raw.bit_length() * 0.30103:.0f} "
+                              "digits is outside the range shaftsys computes with",
+                              f"a whole number of magnitude up to {MAX_MAGNITUDE:g}")
         _check_range(where, key, float(raw), spec)
         return int(raw)
     if kind in {"str", "id"}:

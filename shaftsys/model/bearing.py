@@ -101,6 +101,10 @@ class Bearing:
     s0_min: required static safety (``None`` = common-practice default for the type).
     ec: contamination factor override for this bearing (``None`` = model lubrication).
     line: 1-based line of the bearing in its model file (for messages), or ``None``.
+    within: id of the shaft that holds the outer ring (a pilot bearing between coaxial
+        shafts, an idler on a pin); ``None`` = the housing. Such a bearing runs at the
+        relative speed and carries radial load only.
+    within_x_mm: station of the bearing on the ``within`` shaft [mm] (from the geometry).
     """
 
     id: str
@@ -134,6 +138,8 @@ class Bearing:
     s0_min: float | None = None
     ec: float | None = None
     line: int | None = None
+    within: str | None = None
+    within_x_mm: float | None = None
 
     @property
     def mean_diameter_mm(self) -> float:
