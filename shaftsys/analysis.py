@@ -68,6 +68,9 @@ STATION_SNAP_MM = 1e-3
 #: computed from the solution, whose relative error grows like eps * condition number,
 #: so the accepted relative residual is max(tolerance, ROUNDOFF_FACTOR * eps * cond).
 ROUNDOFF_FACTOR = 1000.0
+#: Most beam elements a shaft is meshed into (the dense modal analysis of the shaft
+#: checks grows with the cube of it: some 30 s at 2000 elements).
+MAX_ELEMENTS = 2000
 
 
 # ----------------------------------------------------------------------------- results
@@ -383,6 +386,14 @@ def mesh_shaft(shaft: Shaft, max_element_mm: float,
     Stations within :data:`STATION_SNAP_MM` of a step edge or of another station share
     its node (:func:`snap_stations`).
     """
+    if not shaft.length_mm / max_element_mm <= MAX_ELEMENTS:
+        raise ModelError(
+            f"shaft '{shaft.id}' ({shaft.length_mm:g} mm long) would need "
+            f"{shaft.length_mm / max_element_mm:.3g} beam elements of at most "
+            f"{max_element_mm:g} mm; shaftsys meshes a shaft into at most {MAX_ELEMENTS}",
+            line=shaft.line, field=f"shafts[{shaft.id}].steps",
+            expected=f"solver max_element of at least {shaft.length_mm / MAX_ELEMENTS:.3g} mm "
+            "or a shorter shaft")
     mat = shaft.material
     n = len(shaft.steps)
     steps = Steps.from_diameters(

@@ -68,12 +68,12 @@ STARTER_MODEL = "data/starter_model.yaml"
 Handler = Callable[[argparse.Namespace], int]
 
 
-def _command(sub: Any, name: str, help_text: str, description: str, example: str,
-             exit_codes: bool = True) -> argparse.ArgumentParser:
+def _command(sub: Any, name: str, help_text: str, description: str, example: str
+             ) -> argparse.ArgumentParser:
     """A sub-command whose ``--help`` ends with ``example`` and the exit codes."""
-    epilog = example + ("\n\n" + EXIT_CODES_TEXT if exit_codes else "")
     p: argparse.ArgumentParser = sub.add_parser(
-        name, help=help_text, description=description, epilog=epilog,
+        name, help=help_text, description=description,
+        epilog=example + "\n\n" + EXIT_CODES_TEXT,
         formatter_class=argparse.RawDescriptionHelpFormatter)
     return p
 
@@ -96,6 +96,18 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
     p.add_argument("--version", action="version", version=f"shaftsys {__version__}")
     sub = p.add_subparsers(dest="command", metavar="COMMAND")
     handlers: dict[str, Handler] = {}
+
+    n = _command(sub, "new", "write a commented starter model to edit into your own",
+                 "Write a commented, working model file (the head shaft of a chain "
+                 "conveyor, every number invented) to start a new model from. It solves "
+                 "as written; replace its shaft, bearings, elements and cases with yours.",
+                 NEW_EXAMPLE)
+    n.add_argument("path", nargs="?", default=NEW_DEFAULT_PATH, metavar="PATH",
+                   help=f"file to write (default: {NEW_DEFAULT_PATH}; '-' = standard "
+                   "output)")
+    n.add_argument("--force", action="store_true", help="overwrite an existing file")
+    _quiet(n)
+    handlers["new"] = _new
 
     c = _command(sub, "check", "solve a model and check every bearing against its targets",
                  "Solve every shaft in every operating case, print the reactions of every "
@@ -145,17 +157,6 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
     _quiet(v)
     handlers["validate"] = _validate
 
-    n = _command(sub, "new", "write a commented starter model to edit into your own",
-                 "Write a commented, working model file (the head shaft of a chain "
-                 "conveyor, every number invented) to start a new model from. It solves "
-                 "as written; replace its shaft, bearings, elements and cases with yours.",
-                 NEW_EXAMPLE)
-    n.add_argument("path", nargs="?", default=NEW_DEFAULT_PATH, metavar="PATH",
-                   help=f"file to write (default: {NEW_DEFAULT_PATH}; '-' = standard "
-                   "output)")
-    n.add_argument("--force", action="store_true", help="overwrite an existing file")
-    _quiet(n)
-    handlers["new"] = _new
 
     s = _command(sub, "schema", "print the JSON Schema of the model file",
                  "Print the JSON Schema that editors can use to check a model file while "
@@ -165,17 +166,10 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
     handlers["schema"] = _schema
 
     # ---- design studies ------------------------------------------------------------
-    # The sweep command of the studies issue plugs in here once shaftsys/study/cli.py
-    # exists (not before: this module must import without it):
-    #
-    #     from shaftsys.study.cli import add_sweep_parser, run_sweep
-    #     add_sweep_parser(sub)
-    #     handlers["sweep"] = run_sweep
-    #
-    # Conventions its parser should follow: an epilog with a worked example and
-    # EXIT_CODES_TEXT, --quiet/-q, --json PATH|-, a ProgressBar from
-    # shaftsys.report.progress over the variants. tests/test_cli.py checks the --help
-    # of every registered command by itself.
+    from shaftsys.study.cli import add_sweep_parser, run_sweep
+
+    add_sweep_parser(sub)
+    handlers["sweep"] = run_sweep
     return p, handlers
 
 
@@ -183,14 +177,17 @@ def main(argv: Sequence[str] | None = None) -> int:
     """Entry point of the ``shaftsys`` console script; returns the exit code."""
     parser, handlers = _parser()
     args = parser.parse_args(argv)
-    logging.basicConfig(level=logging.WARNING, format="warning: %(message)s")
-    # the life engine returns its warnings in the results; the CLI prints them once
-    logging.getLogger("shaftsys.bearings").setLevel(logging.ERROR)
-    if getattr(args, "quiet", False):
-        logging.getLogger("shaftsys").setLevel(logging.ERROR)
     if args.command is None:
         parser.print_help()
         return EXIT_OK
+    logging.basicConfig(level=logging.WARNING, format="warning: %(message)s")
+    # the life engine returns its warnings in the results; the CLI prints them once.
+    # Logger levels are put back afterwards, so that main() can be called in-process.
+    loggers = [logging.getLogger("shaftsys.bearings"), logging.getLogger("shaftsys")]
+    levels = [lg.level for lg in loggers]
+    loggers[0].setLevel(logging.ERROR)
+    if getattr(args, "quiet", False):
+        loggers[1].setLevel(logging.ERROR)
     try:
         return handlers[args.command](args)
     except ShaftsysError as exc:
@@ -199,6 +196,9 @@ def main(argv: Sequence[str] | None = None) -> int:
     except KeyboardInterrupt:
         print("shaftsys: interrupted", file=sys.stderr)
         return 130
+    finally:
+        for lg, level in zip(loggers, levels, strict=True):
+            lg.setLevel(level)
 
 
 # ------------------------------------------------------------------------ helpers
@@ -364,11 +364,8 @@ def _report(args: argparse.Namespace) -> int:
     _json_out(args, result)
     if not args.quiet:
         out = sys.stderr if args.json == "-" else sys.stdout
-        verdict = "all supports pass" if result.ok else "a target is missed"
-        from shaftsys.report.terminal import colour_wanted, paint
-
-        if colour_wanted(out):
-            verdict = paint(verdict, "good" if result.ok else "bad")
+        verdict = _tag("every check passes", "good", out) if result.ok else \
+            _tag("a target or limit is missed", "bad", out)
         print(f"wrote {args.output}: {verdict}", file=out)
         for w in _all_warnings(result):
             _warn(w)

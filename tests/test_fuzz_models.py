@@ -276,6 +276,7 @@ DOCUMENT_ERRORS = ("invalid YAML", "not UTF-8", "is empty", "larger than",
 #: What an exit-3 message must say to count as a genuinely ill-posed system.
 ILL_POSED = re.compile(r"rigid body|mechanism|singular|not positive definite|"
                        r"no stiffness")
+_MISSING = re.compile(r"missing|needs|needed|give ")
 _PATH_TOKEN = re.compile(r"([^.\[\]]+)|\[([^\]]*)\]")
 
 
@@ -293,20 +294,28 @@ def _spellings(key: str) -> set[str]:
     return {s for s in out if s}
 
 
+def _occurs(key: str, text: str) -> bool:
+    """``key`` is written in ``text`` (as is, escaped, or folded over lines)."""
+    if any(s in text for s in _spellings(key)):
+        return True
+    squeeze = re.compile(r"\s+")
+    return squeeze.sub("", key) in squeeze.sub("", text)
+
+
 def field_problem(field: str, message: str, text: str) -> str | None:
     """Why ``field`` does not point into ``text`` (None when it does).
 
-    The last key of the path must occur in the text; for a missing key, the key above
-    it (the mapping that lacks it).
+    The last key of the path must occur in the text; when the message says a key is
+    missing, the key above it (the mapping that lacks it) will do.
     """
     keys = [m.group(1) for m in _PATH_TOKEN.finditer(field) if m.group(1) is not None]
-    if "is missing" in message or "needs" in message:
-        keys = keys[:-1]
     if not keys:
         return f"field path {field!r} names no key"
-    if not any(s in text for s in _spellings(keys[-1])):
-        return f"key {keys[-1]!r} of field path {field!r} does not occur in the file"
-    return None
+    if _occurs(keys[-1], text):
+        return None
+    if _MISSING.search(message) and (len(keys) == 1 or _occurs(keys[-2], text)):
+        return None  # a missing key, in a mapping that is in the file (or the top level)
+    return f"key {keys[-1]!r} of field path {field!r} does not occur in the file"
 
 
 def run_check(path: Path) -> tuple[int, str]:

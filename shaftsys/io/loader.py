@@ -248,6 +248,19 @@ def _read_shaft(where: Where, index: int, item: Any, materials: dict[str, Materi
     else:
         material = _material(here, "material", mat_raw, f"{sid} material")
     steps = _read_steps(here, v["steps"])
+    if material.Su_MPa is not None and material.Sy_MPa is not None:
+        # the fatigue check then runs at every step; Marin's size factor kb (Shigley)
+        # is fitted from 2.79 mm up and refused below (shaftsys.checks.fatigue)
+        from shaftsys.checks.fatigue import KB_D_MIN_MM
+
+        sw = here.child("steps", v["steps"])
+        for i, step in enumerate(steps):
+            if step.d_mm < KB_D_MIN_MM:
+                raise sw.child(i, v["steps"][i]).error(
+                    "d", f"diameter {step.d_mm:g} mm is below {KB_D_MIN_MM} mm, where the "
+                    "fatigue check's size factor (Shigley) is defined; it runs because "
+                    "the material gives Su and Sy", f"d >= {KB_D_MIN_MM} mm, or a material "
+                    "without Su and Sy")
     length = sum(s.length_mm for s in steps)
     bearings_raw = v["bearings"]
     bw = here.child("bearings", bearings_raw)

@@ -52,6 +52,12 @@ class QuantityProblem(Exception):
         self.expected = expected
 
 
+#: Magnitudes a model value may have in internal units (0 is always allowed): beyond
+#: them products such as E*I, F*x or (C/P)^p leave the range of floating point.
+MAX_MAGNITUDE = 1e15
+MIN_MAGNITUDE = 1e-15
+
+
 def to_internal(value: object, dimension: str) -> float:
     """Convert ``value`` to a float in the internal unit of ``dimension``.
 
@@ -60,14 +66,33 @@ def to_internal(value: object, dimension: str) -> float:
     value: a number (default unit) or a string ``"<number> <unit>"``.
     dimension: a key of :data:`DEFAULT_UNITS`.
 
+    Returns
+    -------
+    The value in the internal unit, 0 or of magnitude within
+    [:data:`MIN_MAGNITUDE`, :data:`MAX_MAGNITUDE`].
+
     Raises
     ------
-    QuantityProblem: the value is not a finite quantity of that dimension.
+    QuantityProblem: the value is not a finite quantity of that dimension, or its
+        magnitude is outside the range above.
     """
+    number = _to_internal(value, dimension)
+    if number != 0.0 and not MIN_MAGNITUDE <= abs(number) <= MAX_MAGNITUDE:
+        unit = DEFAULT_UNITS[dimension] or "(no unit)"
+        raise QuantityProblem(
+            f"{value!r} is {number:.3g} {unit}, outside the range shaftsys computes with",
+            f"0 or a magnitude from {MIN_MAGNITUDE:g} to {MAX_MAGNITUDE:g} {unit}")
+    return number
+
+
+def _to_internal(value: object, dimension: str) -> float:
     unit = DEFAULT_UNITS[dimension]
     expected = f"a {dimension.replace('_', ' ')} such as '{_example(dimension)}'"
     if isinstance(value, bool) or value is None:
         raise QuantityProblem(f"{value!r} is not a {dimension}", expected)
+    if isinstance(value, int) and abs(value) > 10**300:
+        raise QuantityProblem(f"a whole number of about {value.bit_length() * 0.30103:.0f} "
+                              "digits is not a finite number", expected)
     if isinstance(value, int | float):
         number = float(value)
         if not math.isfinite(number):
@@ -77,7 +102,7 @@ def to_internal(value: object, dimension: str) -> float:
         raise QuantityProblem(f"{type(value).__name__} given, not a {dimension}", expected)
     text = value.strip()
     if _NUMBER.match(text):
-        return to_internal(float(text), dimension)
+        return _to_internal(float(text), dimension)
     if text.lower() in {"nan", "inf", "-inf", "+inf", "infinity"}:
         raise QuantityProblem(f"{value!r} is not a finite number", expected)
     text = text.replace("%", " percent")
@@ -88,7 +113,11 @@ def to_internal(value: object, dimension: str) -> float:
         raise QuantityProblem(f"cannot read {value!r} as a quantity", expected) from None
     if not hasattr(q, "magnitude") or not isinstance(q.magnitude, int | float):
         raise QuantityProblem(f"cannot read {value!r} as a quantity", expected)
-    if not math.isfinite(float(q.magnitude)):
+    try:
+        finite = math.isfinite(float(q.magnitude))
+    except OverflowError:  # an integer too large for a float
+        finite = False
+    if not finite:
         raise QuantityProblem(f"{value!r} is not a finite number", expected)
     try:
         if dimension == "speed":

@@ -183,7 +183,9 @@ def shaft_drawing(shaft_result_or_shaft: ShaftResult | Shaft, ax: Axes | None = 
                                    edgecolor=COOL, linewidth=0.8, linestyle=":", zorder=3))
         ax.plot([el.x_mm], [0.0], marker="D", markersize=6, color=COOL, zorder=7)
         ax.annotate(el.id, (el.x_mm, 0.0), xytext=(0, -14 - 9 * k), textcoords="offset points",
-                    ha="center", va="top", fontsize=7, color=COOL)
+                    ha="center", va="top", fontsize=7, color=COOL, zorder=8,
+                    bbox={"boxstyle": "round,pad=0.15", "facecolor": "white",
+                          "edgecolor": "none", "alpha": 0.85})
     ax.set_xlim(-0.05 * length, 1.05 * length)
     ax.set_ylim(-1.35 * r_max, 1.35 * r_max)
     ax.set_aspect("equal", adjustable="box")
