@@ -364,7 +364,11 @@ def test_every_command_help_has_a_worked_example_and_exit_codes(
         out = capsys.readouterr().out
         assert "example" in out, name
         assert f"shaftsys {name} " in out, name     # the example runs this command
-        assert EXIT_CODES_TEXT in out, name
+        if name == "sweep":
+            # a study exits 0 whenever it ran, whatever the verdicts (studies issue)
+            assert "exit codes:" in out and "0  the study ran" in out
+        else:
+            assert EXIT_CODES_TEXT in out, name
         assert "--quiet" in out and "-q" in out, name
 
 

@@ -431,6 +431,41 @@ def damaged_text(data: st.DataObject) -> str | bytes:
     return damage_bytes(data, text.encode("utf-8"))
 
 
+_QUANTITY_TEXT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*)$")
+
+
+def scaled_numbers_text(data: st.DataObject) -> str:
+    """A seed model whose numbers (in their own units) are scaled, zeroed, negated or
+    nudged by micrometres: the file stays well-formed, the solver meets extreme
+    stiffness ratios, coincident stations and degenerate values."""
+    tree = copy.deepcopy(SEED_TREES[data.draw(st.sampled_from(SEED_NAMES))])
+    leaves = [p for p in tree_paths(tree) if isinstance(get_at(tree, p), int | float)
+              and not isinstance(get_at(tree, p), bool)
+              or isinstance(get_at(tree, p), str) and _QUANTITY_TEXT.match(get_at(tree, p))]
+    for _ in range(data.draw(st.integers(1, 4))):
+        path = data.draw(st.sampled_from(leaves))
+        parent = get_at(tree, path[:-1])
+        value = parent[path[-1]]
+        if isinstance(value, str):
+            found = _QUANTITY_TEXT.match(value)
+            if found is None:  # already replaced by an earlier draw
+                continue
+            number, unit = float(found.group(1)), found.group(2)
+        else:
+            number, unit = float(value), ""
+        how = data.draw(st.sampled_from(["scale", "scale", "zero", "negate", "nudge"]))
+        if how == "scale":
+            number *= 10.0 ** data.draw(st.integers(-12, 12))
+        elif how == "zero":
+            number = 0.0
+        elif how == "negate":
+            number = -number
+        else:
+            number += data.draw(st.sampled_from([1e-9, 1e-6, 1e-4, 2e-3, -1e-6, -1e-4]))
+        parent[path[-1]] = f"{number!r} {unit}".strip() if unit else number
+    return dump_tree(tree)
+
+
 def mixed_text(data: st.DataObject) -> str:
     """Structural mutation followed by character damage."""
     return damage_text(data, mutated_tree_text(data))
@@ -438,6 +473,7 @@ def mixed_text(data: st.DataObject) -> str:
 
 GENERATORS: dict[str, Callable[[st.DataObject], str | bytes]] = {
     "tree": mutated_tree_text,
+    "numbers": scaled_numbers_text,
     "text": damaged_text,
     "mixed": mixed_text,
 }
