@@ -352,13 +352,15 @@ def _check(args: argparse.Namespace) -> int:
 
 def _report(args: argparse.Namespace) -> int:
     from shaftsys.io.output import write_text
-    from shaftsys.report.html import render_report, report_steps
+    from shaftsys.report.html import render_report, report_steps, study_fragment
     from shaftsys.report.progress import ProgressBar
 
     with ProgressBar(2, "report", quiet=args.quiet) as bar:
         result = _solve(args, bar)
-        bar.add_total(report_steps(result))
-        html_text = render_report(result, progress=bar.advance)
+        bar.add_total(report_steps(result) + 1)
+        study = study_fragment(args.model, result.model)
+        bar.advance("design study")
+        html_text = render_report(result, progress=bar.advance, study=study)
         bar.status("writing")
         write_text(args.output, html_text)
     _json_out(args, result)

@@ -439,9 +439,9 @@ def scaled_numbers_text(data: st.DataObject) -> str:
     nudged by micrometres: the file stays well-formed, the solver meets extreme
     stiffness ratios, coincident stations and degenerate values."""
     tree = copy.deepcopy(SEED_TREES[data.draw(st.sampled_from(SEED_NAMES))])
-    leaves = [p for p in tree_paths(tree) if isinstance(get_at(tree, p), int | float)
-              and not isinstance(get_at(tree, p), bool)
-              or isinstance(get_at(tree, p), str) and _QUANTITY_TEXT.match(get_at(tree, p))]
+    leaves = [p for p in tree_paths(tree) if (isinstance(get_at(tree, p), int | float)
+              and not isinstance(get_at(tree, p), bool))
+              or (isinstance(get_at(tree, p), str) and _QUANTITY_TEXT.match(get_at(tree, p)))]
     for _ in range(data.draw(st.integers(1, 4))):
         path = data.draw(st.sampled_from(leaves))
         parent = get_at(tree, path[:-1])

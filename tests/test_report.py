@@ -360,3 +360,18 @@ def test_stubby_shaft_drawing_is_narrower_not_taller(result: Any) -> None:
     stubby = dc.replace(shaft, steps=stubby_steps, bearings=(), elements=())
     w2, h2 = figures.shaft_drawing(stubby).get_size_inches()
     assert h2 == pytest.approx(4.4) and w2 < 9.0
+
+
+def test_report_holds_the_study_plot_when_the_model_has_a_study(tmp_path):
+    """A model with a 'study:' section gets a 'Design study' section with its plot."""
+    from shaftsys.cli import main
+
+    root = Path(__file__).resolve().parent.parent
+    out = tmp_path / "spindle.html"
+    assert main(["report", str(root / "models" / "spindle_3brg.yaml"), "-o", str(out),
+                 "-q"]) in (0, 1)
+    text = out.read_text()
+    start = text.index('<section id="study">')
+    section = text[start:text.index("</section>", start)]
+    assert "<h2>Design study</h2>" in section and "<svg" in section
+    assert "variants of bearing.B.at" in section

@@ -434,7 +434,8 @@ def report_steps(result: Result) -> int:
 
 
 def render_report(result: Result, date: str | None = None,
-                  progress: Callable[[str], None] | None = None) -> str:
+                  progress: Callable[[str], None] | None = None,
+                  study: tuple[str, str] | None = None) -> str:
     """Render the whole report of ``result`` as one self-contained HTML document.
 
     Parameters
@@ -444,6 +445,9 @@ def render_report(result: Result, date: str | None = None,
     date:
         Date text for the header; ``None`` = today's date (UTC, ISO 8601). Pass a fixed
         value for byte-reproducible reports.
+    study:
+        ``(summary text, HTML fragment with the study's figure)`` when the model has a
+        design study (see :func:`study_fragment`), else ``None``.
     progress:
         Called with a short label after each slow part is rendered (see
         :func:`report_steps` for how many calls to expect); ``None`` = no calls. The
@@ -470,9 +474,42 @@ def render_report(result: Result, date: str | None = None,
         f'<span class="stamp {"ok" if result.ok else "bad"}">{stamp}</span></div></header>',
         _provenance(result, date), _inputs(result), _summary(result),
         _shafts(result, ctx), _cases(result, ctx), _verdicts(result),
-        _bearings(result, ctx), _warnings(result), _cautions(),
+        _bearings(result, ctx),
+        "" if study is None else (f'<section id="study"><h2>Design study</h2>'
+                                  f"<p class=note>{_e(study[0])}</p>{study[1]}</section>"),
+        _warnings(result), _cautions(),
     ])
     return ("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"
             f"<title>{_e(title)}</title>"
             '<meta name="viewport" content="width=device-width, initial-scale=1">'
             f"<style>{_CSS}</style></head><body><main>{body}</main></body></html>\n")
+
+
+def study_fragment(model_path: str, model: object) -> tuple[str, str] | None:
+    """Run the model file's ``study:`` section in-process and return its summary text and
+    an HTML fragment with the study plot (inline SVG) and the best variants; ``None``
+    when the file has no study section.
+    """
+    from shaftsys.report.figures import to_svg
+    from shaftsys.study.plots import plot_contour, plot_life
+    from shaftsys.study.spec import read_study_section, study_from_section
+    from shaftsys.study.sweep import study_summary, sweep
+
+    section, name = read_study_section(model_path)
+    if section is None:
+        return None
+    st = study_from_section(model, section, name)  # type: ignore[arg-type]
+    df = sweep(st)
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=(7.5, 4.6))
+    ax = fig.add_subplot()
+    if len(st.quantities) == 1:
+        plot_life(ax, df, st)
+    else:
+        plot_contour(ax, df, st)
+    summary = study_summary(st, df)
+    text = (f"{summary['variants']} variants of {', '.join(q.path for q in st.quantities)}: "
+            f"{summary['valid']} valid, {summary['passing']} pass every target and limit; "
+            f"best {summary['best_variant']} with {summary['best_values']}.")
+    return text, f'<figure>{to_svg(fig)}</figure>'
