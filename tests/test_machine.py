@@ -398,3 +398,69 @@ def test_pilot_bearing_between_coaxial_shafts():
 def test_pilot_bearing_needs_coaxial_shafts():
     with pytest.raises(ModelError, match="not coaxial"):
         load_model_text(PILOT.replace("OFFSET", "5 mm"), "pilot.yaml")
+
+
+BEVEL = """
+shaftsys: 1
+gravity: [0, 0, 0]
+materials: {{steel: {{E: 210 GPa, nu: 0.3}}}}
+shafts:
+  - id: a
+    material: steel
+    origin: [-300 mm, 0, 0]
+    axis: [1, 0, 0]
+    steps: [{{length: 280 mm, d: 30 mm}}]
+    bearings:
+      - {{id: a1, type: deep_groove_ball, at: 100 mm, d: 30 mm, D: 62 mm, C: 20 kN, C0: 11 kN,
+          axial: both}}
+      - {{id: a2, type: deep_groove_ball, at: 200 mm, d: 30 mm, D: 62 mm, C: 20 kN, C0: 11 kN}}
+    elements:
+      - {{id: drive, type: coupling, at: 20 mm}}
+      - {{id: ga, type: bevel_gear, at: 230.7179676972449 mm, mean_pitch_diameter: 80 mm,
+          pitch_cone_angle: {cone_a} deg, apex: +x}}
+  - id: b
+    material: steel
+    origin: [0, -300 mm, 0]
+    axis: [0, 1, 0]
+    up: [0, 0, 1]
+    steps: [{{length: 290 mm, d: 30 mm}}]
+    bearings:
+      - {{id: b1, type: deep_groove_ball, at: 100 mm, d: 30 mm, D: 62 mm, C: 20 kN, C0: 11 kN,
+          axial: both}}
+      - {{id: b2, type: deep_groove_ball, at: 200 mm, d: 30 mm, D: 62 mm, C: 20 kN, C0: 11 kN}}
+    elements:
+      - {{id: gb, type: bevel_gear, at: 260 mm, mean_pitch_diameter: 138.5640646055102 mm,
+          pitch_cone_angle: 60 deg, apex: +x}}
+      - {{id: out, type: coupling, at: 20 mm}}
+links:
+  - {{id: bevel, type: bevel_mesh, members: [ga, gb]}}
+cases:
+  - {{id: run, share: 1, speed: 1000 rpm, input: {{element: drive, torque: 40 N*m}},
+      outputs: {{out: 1.0}}}}
+"""
+
+
+def test_bevel_pair_on_crossed_axes():
+    """Straight bevel pair at 90 deg (Shigley, bevel gear forces): pinion r_a = 40 mm,
+    cone 30 deg; wheel r_b = 80 sin 60 = 69.282 mm, cone 60 deg; the pitch points meet at
+    (-69.282, -40, 0). Ratio n_b/n_a = -r_a/r_b (equal pitch-line velocities; the sign
+    from the frames: a turns about +X, the contact moves toward -Z, which b reaches
+    turning about -Y). W_t = 40 000/40 = 1000 N; on the driving pinion: W_a = W_t tan20
+    sin30 away from the apex (-X), W_r = W_t tan20 cos30 toward its axis (+Y), tangential
+    against its motion (+Z); the wheel takes the opposite force."""
+    m = load_model_text(BEVEL.format(cone_a=30), "bevel.yaml")
+    flow = case_flow(m, m.cases[0])
+    assert flow.speed_rpm["b"] == pytest.approx(-1000.0 * 40 / 69.2820323027551, rel=REL)
+    lf = flow.links[0]
+    t20 = math.tan(math.radians(20))
+    expected = [-1000 * t20 * 0.5, 1000 * t20 * math.cos(math.radians(30)), 1000.0]
+    assert list(lf.force_housing_N[0]) == pytest.approx(expected, rel=REL)
+    assert np.add(lf.force_housing_N[0], lf.force_housing_N[1]) == pytest.approx(
+        [0, 0, 0], abs=1e-9)
+    r = analyse(m, with_shaft_checks=False)
+    assert all(c.residual_relative < 1e-9 for s in r.shafts for c in s.cases)
+
+
+def test_bevel_cone_angles_must_match_the_shaft_angle():
+    with pytest.raises(ModelError, match="cone angles add up"):
+        load_model_text(BEVEL.format(cone_a=35), "bevel.yaml")
