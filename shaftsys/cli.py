@@ -173,6 +173,14 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
     return p, handlers
 
 
+class _LowerLevelFormatter(logging.Formatter):
+    """``warning: message`` (level in lower case, like the CLI's own messages)."""
+
+    def format(self, record: logging.LogRecord) -> str:
+        record.levelname = record.levelname.lower()
+        return super().format(record)
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Entry point of the ``shaftsys`` console script; returns the exit code."""
     parser, handlers = _parser()
@@ -180,14 +188,23 @@ def main(argv: Sequence[str] | None = None) -> int:
     if args.command is None:
         parser.print_help()
         return EXIT_OK
-    logging.basicConfig(level=logging.WARNING, format="warning: %(message)s")
+    if not logging.getLogger().handlers:
+        handler = logging.StreamHandler()
+        handler.setFormatter(_LowerLevelFormatter("%(levelname)s: %(message)s"))
+        logging.getLogger().addHandler(handler)
+        logging.getLogger().setLevel(logging.WARNING)
     # the life engine returns its warnings in the results; the CLI prints them once.
+    # dask's scheduler and workers chatter at INFO: only their warnings are shown.
     # Logger levels are put back afterwards, so that main() can be called in-process.
-    loggers = [logging.getLogger("shaftsys.bearings"), logging.getLogger("shaftsys")]
+    loggers = [logging.getLogger("shaftsys.bearings"), logging.getLogger("shaftsys"),
+               logging.getLogger("distributed"), logging.getLogger("tornado")]
     levels = [lg.level for lg in loggers]
     loggers[0].setLevel(logging.ERROR)
+    loggers[2].setLevel(logging.WARNING)
+    loggers[3].setLevel(logging.WARNING)
     if getattr(args, "quiet", False):
-        loggers[1].setLevel(logging.ERROR)
+        for lg in loggers[1:]:
+            lg.setLevel(logging.ERROR)
     try:
         return handlers[args.command](args)
     except ShaftsysError as exc:
