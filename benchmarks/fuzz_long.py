@@ -16,19 +16,30 @@ from __future__ import annotations
 import argparse
 import multiprocessing as mp
 import random
+import re
 import sys
 import tempfile
 import time
 from collections import Counter
 from pathlib import Path
-from typing import Any
 
 ROOT = Path(__file__).resolve().parent.parent
 sys.path[:0] = [str(ROOT), str(ROOT / "tests")]
 
 
-def _worker(job: tuple[str, int, int]) -> tuple[Counter[str], list[str], int]:
-    """Run ``count`` examples of one generator with one seed; (histogram, failures, n)."""
+def _signature(message: str) -> str:
+    """A message with numbers, paths and quoted names blanked (to group alike ones)."""
+    message = re.sub(r"'[^']*'", "'_'", message)
+    message = re.sub(r"\S*fuzzed\.yaml(:\d+)?", "FILE", message)
+    return re.sub(r"[-+]?\d[\d.e+-]*", "#", message)[:160]
+
+
+def _worker(job: tuple[str, int, int]) -> tuple[Counter[str], list[str], int, Counter[str]]:
+    """Run ``count`` examples of one generator with one seed.
+
+    Returns the outcome histogram, the first failures, the number of calls and the
+    signatures of the exit-3 (ill-posed) and known-open messages.
+    """
     import warnings
 
     import test_fuzz_models as fz
@@ -39,6 +50,7 @@ def _worker(job: tuple[str, int, int]) -> tuple[Counter[str], list[str], int]:
     generator, count, run_seed = job
     failures: list[str] = []
     calls = 0
+    notes: Counter[str] = Counter()
     with tempfile.TemporaryDirectory() as tmp:
         folder = Path(tmp)
 
@@ -58,13 +70,15 @@ def _worker(job: tuple[str, int, int]) -> tuple[Counter[str], list[str], int]:
                 outcome = fz.Outcome("FAIL", None, "exception escaped main:\n"
                                      + "".join(traceback.format_exception(exc))[-3000:])
             fz.HISTOGRAM[f"{generator}:{outcome.kind}"] += 1
+            if outcome.kind in {"ill_posed", "known_open"}:
+                notes[f"{outcome.kind}: {_signature(outcome.detail)}"] += 1
             if outcome.failed and len(failures) < 20:
                 sample = text if isinstance(text, str) else text.decode("utf-8", "replace")
                 failures.append(f"{outcome.detail}\n--- file (first 1500 chars) ---\n"
                                 f"{sample[:1500]}")
 
         run()
-    return Counter(fz.HISTOGRAM), failures, calls
+    return Counter(fz.HISTOGRAM), failures, calls, notes
 
 
 def billion_laughs_seconds() -> tuple[float, str]:
@@ -105,9 +119,11 @@ def main(argv: list[str] | None = None) -> int:
     total: Counter[str] = Counter()
     failures: list[str] = []
     calls = 0
+    notes: Counter[str] = Counter()
     ctx = mp.get_context("fork")
     with ctx.Pool(args.workers, maxtasksperchild=1) as pool:
-        for hist, fails, n in pool.imap_unordered(_worker, jobs):
+        for hist, fails, n, seen in pool.imap_unordered(_worker, jobs):
+            notes.update(seen)
             total.update(hist)
             failures.extend(fails)
             calls += n
@@ -124,15 +140,15 @@ def main(argv: list[str] | None = None) -> int:
     for key, n in total.items():
         kinds[key.split(":", 1)[1]] += n
     print("by outcome: " + ", ".join(f"{k} {v}" for k, v in sorted(kinds.items())))
+    if notes:
+        print("exit-3 (ill-posed) and known-open messages, grouped:")
+        for sig, n in notes.most_common(15):
+            print(f"  {n:6d}  {sig}")
     seconds, message = billion_laughs_seconds()
     print(f"billion-laughs file refused in {seconds * 1000:.1f} ms: {message}")
     for i, f in enumerate(failures[:10]):
         print(f"\n=== failure {i + 1} ===\n{f}")
     return 1 if kinds.get("FAIL") else 0
-
-
-def _unused(_: Any) -> None:  # pragma: no cover - keeps mypy quiet about Any import
-    return None
 
 
 if __name__ == "__main__":

@@ -66,8 +66,12 @@ TRB_INDUCED_FACTOR = 0.5
 STATION_SNAP_MM = 1e-3
 #: Round-off allowance of the global force and moment balance: the reactions are
 #: computed from the solution, whose relative error grows like eps * condition number,
-#: so the accepted relative residual is max(tolerance, ROUNDOFF_FACTOR * eps * cond).
+#: so the accepted relative residual is
+#: max(tolerance, min(ROUNDOFF_FACTOR * eps * cond, MAX_ROUNDOFF_RESIDUAL)).
 ROUNDOFF_FACTOR = 1000.0
+#: Largest relative residual round-off may excuse (bearing loads to about four digits);
+#: beyond it the system is too ill-conditioned to trust (NumericalError, exit 3).
+MAX_ROUNDOFF_RESIDUAL = 1e-4
 #: Most beam elements a shaft is meshed into (the dense modal analysis of the shaft
 #: checks grows with the cube of it: some 30 s at 2000 elements).
 MAX_ELEMENTS = 2000
@@ -647,17 +651,22 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
     weight = shaft_weight_loads(model, shaft)
     f_res, m_res, rel = equilibrium_residual([*at_nodes, *weight], reactions)
     tol = model.solver.residual_tolerance
-    accepted = max(tol, ROUNDOFF_FACTOR * float(np.finfo(float).eps) * bending.condition)
+    roundoff = ROUNDOFF_FACTOR * float(np.finfo(float).eps) * bending.condition
+    accepted = max(tol, min(roundoff, MAX_ROUNDOFF_RESIDUAL))
     nodal_rel = float(bending.nodal_residual[k])
     if not (rel <= accepted and nodal_rel <= tol):
         what = (f"equilibrium residual {rel:.3g} of the applied load exceeds the accepted "
                 f"{accepted:.2g} (tolerance {tol:.1g}, round-off allowance for the "
-                f"condition estimate {bending.condition:.3g})" if not rel <= accepted else
+                f"condition estimate {bending.condition:.3g} of the bending stiffness)"
+                if not rel <= accepted else
                 f"nodal residual {nodal_rel:.3g} (backward error of the solve) exceeds the "
                 f"tolerance {tol:.1g}")
+        why = ("the bending stiffness is too ill-conditioned to trust the reactions (look "
+               "for very soft bearing springs or extreme stiffness ratios between steps)"
+               if roundoff > MAX_ROUNDOFF_RESIDUAL else "the reactions cannot be trusted")
         raise NumericalError(
             f"shaft '{shaft.id}', case '{case.id}': {what} (force {f_res:.3g} N, moment "
-            f"{m_res:.3g} N*mm): the reactions cannot be trusted")
+            f"{m_res:.3g} N*mm): {why}")
     loads: dict[str, BearingCaseLoad] = {}
     for b in shaft.bearings:
         ry, rz, my, mz = radial[b.id]

@@ -243,3 +243,12 @@ def test_notch_factors_other_features() -> None:
     assert (pf.Kf, pf.Kfs) == (2.0, 1.5)
     plain = notch_factors("plain", 700.0, d_mm=50.0)
     assert (plain.Kf, plain.Kfs, plain.Kf_axial) == (1.0, 1.0, 1.0)
+
+
+def test_notch_sensitivity_is_full_where_the_neuber_fit_runs_out():
+    """q lies in (0, 1] by definition (Shigley, notch sensitivity): where the Kuhn-Hardrath
+    torsion fit for sqrt(a) reaches zero (Sut above about 1650 MPa) q = 1 is taken."""
+    from shaftsys.checks.stress_concentration import notch_sensitivity
+
+    assert notch_sensitivity(1.0, 1700.0, "torsion") == 1.0
+    assert 0.0 < notch_sensitivity(1.0, 600.0, "torsion") < 1.0

@@ -15,13 +15,16 @@ Every file goes through ``shaftsys.cli.main(["check", path, "--quiet"])``. The c
   (1 <= line <= number of lines) and a field path whose keys occur in the file (for a
   missing key: the keys above it); only errors about the document as a whole (YAML
   syntax, encoding, empty file, size) may omit the field;
-* exit 3: allowed only for a genuinely ill-posed system (a mechanism, a singular
-  stiffness) and the message must name the shaft; an equilibrium residual above
-  tolerance on a file that loaded is a failure;
+* exit 3: allowed only for a genuinely ill-posed system (a mechanism, a singular or
+  hopelessly ill-conditioned stiffness) and the message must name the shaft; an
+  equilibrium residual above tolerance on a well-conditioned shaft is a failure;
 * anything escaping ``main`` (a traceback) is a failure.
 
+Bugs found here in modules the owner of this file may not change are listed in
+``KNOWN_OPEN`` (with the module) and counted, not failed, until their owners fix them.
+
 The contract is this project's own (README "Exit codes"); no outside reference applies.
-CI runs a modest number of examples (``SHAFTSYS_FUZZ_EXAMPLES``, default 60 per test,
+CI runs a modest number of examples (``SHAFTSYS_FUZZ_EXAMPLES``, default 120 per test,
 deterministic); ``benchmarks/fuzz_long.py`` runs the long campaign with the same
 generators.
 """
@@ -57,7 +60,7 @@ ROOT = Path(__file__).resolve().parent.parent
 MODEL_FILES = sorted((ROOT / "models").glob("*.yaml"))
 
 #: Examples per fuzz test in CI (the long campaign sets its own).
-CI_EXAMPLES = int(os.environ.get("SHAFTSYS_FUZZ_EXAMPLES", "60"))
+CI_EXAMPLES = int(os.environ.get("SHAFTSYS_FUZZ_EXAMPLES", "120"))
 
 # ----------------------------------------------------------------------------- seeds
 SEED_TEXTS: dict[str, str] = {p.name: p.read_text(encoding="utf-8") for p in MODEL_FILES}
@@ -215,7 +218,7 @@ def damage_text(data: st.DataObject, text: str) -> str:
                                         "long_run"]))
         pos = data.draw(st.integers(0, len(text)))
         char = data.draw(st.sampled_from(DAMAGE_CHARS) | st.characters(
-            blacklist_categories=("Cs",)))
+            exclude_categories=["Cs"]))
         lines = text.split("\n")
         row = data.draw(st.integers(0, max(len(lines) - 1, 0)))
         if op == "insert":
@@ -259,7 +262,7 @@ def damage_bytes(data: st.DataObject, raw: bytes) -> bytes:
 class Outcome:
     """What ``check`` did with one file: ``kind`` and, for a failure, why."""
 
-    kind: str          # ok | target_missed | bad_input | ill_posed | FAIL
+    kind: str          # ok | target_missed | bad_input | ill_posed | known_open | FAIL
     code: int | None
     detail: str = ""
 
@@ -272,10 +275,16 @@ class Outcome:
 #: Errors about the document as a whole, which have a line but no field.
 DOCUMENT_ERRORS = ("invalid YAML", "not UTF-8", "is empty", "larger than",
                    "a model file is a mapping", "not allowed in a model file",
-                   "nesting deeper than")
+                   "nesting deeper than", "a mapping key is empty")
+#: Bugs found by this fuzzing in modules this test's owner may not change, reported to
+#: their owners and counted as ``known_open`` until fixed (each names its module).
+KNOWN_OPEN: dict[str, re.Pattern[str]] = {
+    # (empty: the notch-sensitivity case, q > 1 above Sut ~ 1650 MPa in torsion, now
+    # takes q = 1 with a warning)
+}
 #: What an exit-3 message must say to count as a genuinely ill-posed system.
 ILL_POSED = re.compile(r"rigid body|mechanism|singular|not positive definite|"
-                       r"no stiffness")
+                       r"no stiffness|too ill-conditioned")
 _MISSING = re.compile(r"missing|needs|needed|give ")
 _PATH_TOKEN = re.compile(r"([^.\[\]]+)|\[([^\]]*)\]")
 
@@ -369,6 +378,9 @@ def judge(code: int, err: str, path: Path, text: str, exc: ShaftsysError | None
         return Outcome("FAIL", code, f"exit 3 on a system that is not ill-posed: {message}")
     if code != 2 or not isinstance(exc, ModelError):
         return Outcome("FAIL", code, f"unexpected exit code {code}: {exc}")
+    for name, pattern in KNOWN_OPEN.items():
+        if pattern.match(exc.message):
+            return Outcome("known_open", code, f"{name}: {exc}")
     if exc.file != str(path):
         return Outcome("FAIL", code, f"message does not name the file: {exc}")
     n = number_of_lines(text)

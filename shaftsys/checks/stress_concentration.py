@@ -377,6 +377,11 @@ def notch_sensitivity(r_mm: float, Sut_MPa: float, mode: LoadMode | str) -> floa
     if not (math.isfinite(r_mm) and r_mm > 0.0):
         raise ModelError(f"notch radius {r_mm:g} mm", expected="r > 0 mm")
     sqrt_a = neuber_sqrt_a_sqrt_in(Sut_MPa, mode)
+    if sqrt_a <= 0.0:
+        # the Kuhn-Hardrath fits reach zero for very high Sut: full notch sensitivity
+        _log.warning("notch sensitivity: Neuber constant <= 0 at Sut = %g MPa (%s); "
+                       "q = 1 used (full notch sensitivity, conservative)", Sut_MPa, mode)
+        return 1.0
     return 1.0 / (1.0 + sqrt_a / math.sqrt(r_mm / MM_PER_INCH))
 
 

@@ -7,10 +7,12 @@ core receives only checked, converted, frozen values.
 from __future__ import annotations
 
 import hashlib
+import itertools
 import math
 from pathlib import Path
 from typing import Any
 
+from shaftsys.analysis import STATION_SNAP_MM
 from shaftsys.errors import ModelError
 from shaftsys.io import spec as S
 from shaftsys.io.spec import Where, read_section, read_value, require_list, require_mapping
@@ -150,6 +152,10 @@ def _read_materials(top: Where, raw: Any) -> dict[str, Material]:
 def _material(where: Where, key: str | int, item: Any, name: str) -> Material:
     v = read_section(where, item, S.MATERIAL, key)
     E, nu = v["E"], v["nu"]
+    if v["Su"] is not None and v["Sy"] is not None and v["Sy"] > v["Su"]:
+        raise where.child(key, item).error(
+            "Sy", f"yield strength {v['Sy']:g} MPa is above the ultimate strength "
+            f"{v['Su']:g} MPa", "Sy <= Su")
     G = v["G"] if v["G"] is not None else E / (2.0 * (1.0 + nu))
     return Material(name=name, E_MPa=E, G_MPa=G, poisson=nu, density_kg_m3=v["density"],
                     Su_MPa=v["Su"], Sy_MPa=v["Sy"])
@@ -299,6 +305,11 @@ def _read_steps(where: Where, raw: LocatedList) -> list[Step]:
         if length <= 0:
             raise iw.error("to", f"step ends at {v['to']:g} mm, not after its start "
                            f"{x:g} mm", f"a station beyond {x:g} mm")
+        if length < STATION_SNAP_MM:  # stations closer than this share one node
+            key = "length" if v["length"] is not None else "to"
+            raise iw.error(key, f"a step {length:.3g} mm long is shorter than "
+                           f"{STATION_SNAP_MM:g} mm", f"a step of at least "
+                           f"{STATION_SNAP_MM:g} mm (or none: join it to its neighbour)")
         if v["bore"] >= v["d"]:
             raise iw.error("bore", f"bore {v['bore']:g} mm is not smaller than the "
                            f"diameter {v['d']:g} mm", "bore < d")
@@ -452,10 +463,24 @@ def _check_support(where: Where, shaft: Shaft, raw: LocatedList) -> None:
                           "support(s) and no tilting stiffness: it cannot be held",
                           "at least two radial bearings, or one with tilt_stiffness")
     positions = sorted(b.support_x_mm for b in radial)
-    if len(radial) >= 2 and positions[-1] - positions[0] < 1e-6 and not tilt:
+    if len(radial) >= 2 and positions[-1] - positions[0] <= STATION_SNAP_MM and not tilt:
         raise where.error("bearings", f"the radial supports of shaft '{shaft.id}' all "
                           "act at one station: the shaft can tilt",
                           "supports at two different stations")
+    # two rigid supports within STATION_SNAP_MM share a node: their split is undetermined
+    rigid = sorted((i for i, b in enumerate(shaft.bearings)
+                    if b.kind is not BearingKind.THRUST_BALL
+                    and b.radial_stiffness_N_mm is None
+                    and getattr(b, "within", None) is None),
+                   key=lambda i: shaft.bearings[i].support_x_mm)
+    for i, j in itertools.pairwise(rigid):
+        first, second = shaft.bearings[i], shaft.bearings[j]
+        if second.support_x_mm - first.support_x_mm <= STATION_SNAP_MM:
+            raise at(j).error("at", f"bearings '{first.id}' and '{second.id}' support the "
+                              f"shaft at one station ({second.support_x_mm:g} mm): how "
+                              "the load splits between two rigid supports there is "
+                              "undetermined", f"supports more than {STATION_SNAP_MM:g} mm "
+                              "apart, or a radial_stiffness on one of them")
     for i, b in enumerate(shaft.bearings):
         if not -_TOL_MM <= b.support_x_mm <= shaft.length_mm + _TOL_MM:
             raise at(i).error("pressure_centre_offset",
@@ -478,9 +503,11 @@ def _check_support(where: Where, shaft: Shaft, raw: LocatedList) -> None:
             f"'{both[0].id}' already locates in both",
             "either one bearing with axial: both, or one +x and one -x")
     if not both and not (plus and minus):
-        raise where.error("bearings", f"shaft '{shaft.id}' can slide axially: no bearing "
-                          "takes axial load" + (" toward -x" if plus else
-                                                 " toward +x" if minus else ""),
+        # a +x bearing stops motion toward +x: the shaft then slides freely toward -x
+        free = "-x" if plus else "+x" if minus else "+x and -x"
+        raise where.error("bearings", f"shaft '{shaft.id}' can slide axially toward {free}: "
+                          "no bearing takes axial load" + (" toward -x" if plus else
+                                                           " toward +x" if minus else ""),
                           "one bearing with axial: both, or one with +x and one with -x")
     if len(plus) > 1 or len(minus) > 1:
         b = plus[1] if len(plus) > 1 else minus[1]
@@ -510,6 +537,13 @@ def _read_life(top: Where, raw: Any) -> LifeSettings:
     if raw is None:
         return LifeSettings()
     v = read_section(top, raw, S.LIFE, "life")
+    from shaftsys.bearings.reliability import life_factor
+
+    try:  # the reliability must lie where the method is defined (ISO 281: 0.90..0.9995)
+        life_factor(v["reliability"], v["reliability_method"], "life.reliability")
+    except ModelError as exc:
+        raise top.child("life", raw).error("reliability", exc.message,
+                                           exc.expected) from None
     return LifeSettings(target_life_h=v["target"], target_reliability=v["reliability"],
                         reliability_method=v["reliability_method"],
                         application_factor=v["application_factor"],

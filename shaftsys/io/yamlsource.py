@@ -141,6 +141,9 @@ class _Walker:
             # the key as written ('yes', '0x1F', '~' stay words; YAML would make them
             # a bool, an int or None), so messages name the key the file shows
             key = str(key_node.value)
+            if not key.strip():
+                raise self.error(key_node, "a mapping key is empty",
+                                 "a word before the ':'", path)
             key_path = f"{path}.{key}" if path else key
             if key in out:
                 raise self.error(key_node, f"key {key!r} appears twice in this mapping",
