@@ -981,7 +981,6 @@ def solve_shaft_bending(shaft: Shaft, sm: ShaftMesh, model: Model,
     from shaftsys.fe.solve import PlanarBending, Support
 
     mesh = sm.mesh
-    n = mesh.n_nodes
     m = len(applied_all)
     supports: list[Support] = []
     support_index: dict[str, int] = {}
@@ -997,25 +996,7 @@ def solve_shaft_bending(shaft: Shaft, sm: ShaftMesh, model: Model,
                                  label=f"shaft '{shaft.id}', bending in the x-y plane")
     xz = PlanarBending.from_mesh(mesh, supports, shear=shear,
                                  label=f"shaft '{shaft.id}', bending in the x-z plane")
-    F_xy = np.zeros((2 * n, m))
-    F_xz = np.zeros((2 * n, m))
-    for k, applied in enumerate(applied_all):
-        for a in applied:
-            node = _node_of(sm, a.source, a.x_mm)
-            F_xy[2 * node, k] += a.force_N[1]
-            F_xy[2 * node + 1, k] += a.moment_Nmm[2]
-            F_xz[2 * node, k] += a.force_N[2]
-            F_xz[2 * node + 1, k] -= a.moment_Nmm[1]
-    g = np.asarray(model.gravity_m_s2, dtype=float)
-    axial_weight = np.zeros(n)
-    q_y = q_z = None
-    if model.solver.include_shaft_weight and np.any(g):
-        line_mass = mesh.rho_kg_m3 * DENSITY_KG_PER_MM3 * mesh.A_mm2   # kg/mm
-        q_y = line_mass * g[1]
-        q_z = line_mass * g[2]
-        px = line_mass * g[0] * mesh.L_mm
-        axial_weight[:-1] += px / 2
-        axial_weight[1:] += px / 2
+    F_xy, F_xz, q_y, q_z, axial_weight = _nodal_loads(sm, model, applied_all)
     qy_cols = None if q_y is None else np.repeat(q_y[:, None], m, axis=1)
     qz_cols = None if q_z is None else np.repeat(q_z[:, None], m, axis=1)
     u_xy = xy.solve(F_xy, qy_cols)
