@@ -19,61 +19,22 @@ import time
 from pathlib import Path
 
 import numpy as np
+from pynite_reference import pynite_solve
 
 import shaftsys
-from shaftsys.analysis import analyse, element_loads, mesh_shaft
+from shaftsys.analysis import analyse
 
 MODEL = Path(__file__).resolve().parent.parent / "models" / "fan_drive.yaml"
 
 
 def pynite_reactions(model, shaft) -> tuple[dict[str, np.ndarray], float]:
-    """Solve the shaft in PyNiteFEA, all cases as load combinations; (reactions, seconds)."""
-    from Pynite import FEModel3D
+    """Reactions per bearing from PyNiteFEA (build + analyse) and the seconds it took."""
+    import Pynite  # noqa: F401 - imported before the clock starts, as for shaftsys
 
     t0 = time.perf_counter()
-    sm = mesh_shaft(shaft, model.solver.max_element_mm)
-    mesh = sm.mesh
-    fe = FEModel3D()
-    mat = shaft.material
-    fe.add_material("steel", mat.E_MPa, mat.G_MPa, mat.poisson, 0.0)
-    for i, x in enumerate(mesh.x_mm):
-        fe.add_node(f"N{i}", float(x), 0.0, 0.0)
-    for e in range(mesh.n_elements):
-        name = f"S{e}"
-        fe.add_section(name, float(mesh.A_mm2[e]), float(mesh.I_mm4[e]),
-                       float(mesh.I_mm4[e]), float(mesh.J_mm4[e]))
-        fe.add_member(f"M{e}", f"N{e}", f"N{e + 1}", "steel", name)
-    drive_ref = None
-    for b in shaft.bearings:
-        node = f"N{sm.bearing_nodes[b.id]}"
-        fe.def_support(node, support_DX=b.axial.value == "both", support_DY=True,
-                       support_DZ=True)
-    for case in model.cases:
-        drive = case.drives[shaft.id]
-        drive_ref = sm.element_nodes.get(drive.input_element or "", 0)
-        applied, _ = element_loads(model, shaft, case)
-        for a in applied:
-            node = f"N{sm.element_nodes[a.source.removesuffix(' weight')]}"
-            for comp, value in zip(("FX", "FY", "FZ"), a.force_N, strict=True):
-                if value:
-                    fe.add_node_load(node, comp, value, case=case.id)
-            for comp, value in zip(("MX", "MY", "MZ"), a.moment_Nmm, strict=True):
-                if value:
-                    fe.add_node_load(node, comp, value, case=case.id)
-        fe.add_load_combo(case.id, {case.id: 1.0})
-    fe.def_support(f"N{drive_ref or 0}", support_DX=False, support_DY=False,
-                   support_DZ=False, support_RX=True)
-    # keep the supports of the bearings (def_support replaces flags of that node only)
-    for b in shaft.bearings:
-        node = f"N{sm.bearing_nodes[b.id]}"
-        fe.def_support(node, support_DX=b.axial.value == "both", support_DY=True,
-                       support_DZ=True, support_RX=node == f"N{drive_ref or 0}")
-    fe.analyze_linear(check_statics=False)
-    out = {}
-    for b in shaft.bearings:
-        n = fe.nodes[f"N{sm.bearing_nodes[b.id]}"]
-        out[b.id] = np.array([[n.RxnFY[c.id], n.RxnFZ[c.id]] for c in model.cases])
-    return out, time.perf_counter() - t0
+    out = pynite_solve(model, shaft)
+    seconds = time.perf_counter() - t0
+    return {b.id: out[j] for j, b in enumerate(shaft.bearings)}, seconds
 
 
 def main() -> None:

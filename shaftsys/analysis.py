@@ -80,12 +80,17 @@ MAX_ELEMENTS = 2000
 # ----------------------------------------------------------------------------- results
 @dataclass(frozen=True)
 class AppliedLoad:
-    """A load applied at a station in one case (shaft frame, N and N*mm)."""
+    """A load applied at a station in one case (shaft frame, N and N*mm).
+
+    ``element`` is the id of the element that applies it (its node carries the load), or
+    ``None`` for loads placed by station only.
+    """
 
     source: str
     x_mm: float
     force_N: tuple[float, float, float]
     moment_Nmm: tuple[float, float, float]
+    element: str | None = None
 
 
 @dataclass(frozen=True)
@@ -283,7 +288,7 @@ def element_loads(model: Model, shaft: Shaft, case: Case, flow: CaseFlow | None 
                 linked.add(act.element)
                 out.append(AppliedLoad(act.element if act.label == act.element else
                                        f"{act.element} {act.label}", act.x_mm, act.force_N,
-                                       act.moment_Nmm))
+                                       act.moment_Nmm, element=act.element))
         if shaft is model.shafts[0]:
             warnings.extend(flow.warnings)
     else:
@@ -295,21 +300,17 @@ def element_loads(model: Model, shaft: Shaft, case: Case, flow: CaseFlow | None 
     overrides = {ld.element: ld for ld in case.loads}
     g = np.asarray(model.gravity_m_s2, dtype=float)
     for el in shaft.elements:
-        if el.id in linked:
-            if el.mass_kg > 0 and np.any(g):
-                w = L.weight_load(el.mass_kg, g)
-                out.append(AppliedLoad(f"{el.id} weight", el.x_mm, _vec(w.force_N),
-                                       _vec(w.moment_Nmm)))
-            continue
-        t = torque.get(el.id, 0.0)
-        axis = _element_axis_load(el, t, speed, overrides)
-        if axis is not None:
-            out.append(AppliedLoad(el.id, el.x_mm, _vec(axis.force_N), _vec(axis.moment_Nmm)))
-            warnings.extend(f"case '{case.id}', element '{el.id}': {w}" for w in axis.warnings)
+        if el.id not in linked:   # linked elements carry the link forces added above
+            axis = _element_axis_load(el, torque.get(el.id, 0.0), speed, overrides)
+            if axis is not None:
+                out.append(AppliedLoad(el.id, el.x_mm, _vec(axis.force_N),
+                                       _vec(axis.moment_Nmm), element=el.id))
+                warnings.extend(f"case '{case.id}', element '{el.id}': {w}"
+                                for w in axis.warnings)
         if el.mass_kg > 0 and np.any(g):
             w = L.weight_load(el.mass_kg, g)
             out.append(AppliedLoad(f"{el.id} weight", el.x_mm, _vec(w.force_N),
-                                   _vec(w.moment_Nmm)))
+                                   _vec(w.moment_Nmm), element=el.id))
     return out, warnings
 
 
@@ -524,9 +525,10 @@ def _analyse(model: Model, *, with_life: bool, with_shaft_checks: bool) -> Resul
     warnings: list[str] = []
     flows: list[CaseFlow | None] = [None] * len(model.cases)
     if model.links:
-        from shaftsys.machine.flow import case_flow
+        from shaftsys.machine.flow import case_flow, machine_graph
 
-        flows = [case_flow(model, c) for c in model.cases]
+        graph = machine_graph(model)
+        flows = [case_flow(model, c, graph) for c in model.cases]
     # bearings held by another shaft (pilot bearings) need a node on that shaft too
     held: dict[str, list[float]] = {}
     for s_ in model.shafts:
@@ -594,7 +596,7 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
     fx = np.zeros(n)
     mx = np.zeros(n)
     for a in applied:
-        node = _node_of(sm, a.source, a.x_mm)
+        node = _node_of(sm, a)
         fx[node] += a.force_N[0]
         mx[node] += a.moment_Nmm[0]
     fx += bending.axial_weight_nodal
@@ -645,7 +647,7 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
                     (0.0, radial[b.id][2], radial[b.id][3]))
         for b in shaft.bearings
     ]
-    at_nodes = [replace(a, x_mm=float(x[_node_of(sm, a.source, a.x_mm)])) for a in applied]
+    at_nodes = [replace(a, x_mm=float(x[_node_of(sm, a)])) for a in applied]
     for bid, x_b, f_b, m_b in getattr(bending, "external", lambda _k: [])(k):
         reactions.append(AppliedLoad(f"bearing {bid} (outer ring)", x_b, f_b, m_b))
     weight = shaft_weight_loads(model, shaft)
@@ -689,11 +691,11 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
     return sol, loads
 
 
-def _node_of(sm: ShaftMesh, source: str, x_mm: float) -> int:
-    name = source.split(" ", maxsplit=1)[0]
-    if name in sm.element_nodes:
-        return sm.element_nodes[name]
-    return int(np.argmin(np.abs(sm.mesh.x_mm - x_mm)))
+def _node_of(sm: ShaftMesh, load: AppliedLoad) -> int:
+    """Node that carries ``load``: its element's node, else the node nearest its station."""
+    if load.element is not None and load.element in sm.element_nodes:
+        return sm.element_nodes[load.element]
+    return int(np.argmin(np.abs(sm.mesh.x_mm - load.x_mm)))
 
 
 def _axial_reference_node(shaft: Shaft, sm: ShaftMesh, axial: dict[str, float]) -> int:
@@ -712,9 +714,10 @@ def _torsion_reference_node(sm: ShaftMesh, drive: Any) -> int:
     return 0
 
 
-def induced_axial_force(b: Bearing, Fr_N: float) -> float:
+def induced_axial_force(b: Bearing, Fr_N: Any) -> Any:
     """Axial force [N] a single-row angular-contact or tapered bearing induces under Fr.
 
+    ``Fr_N`` may be a number or an array (design studies evaluate many variants at once).
     Tapered roller: 0.5*Fr/Y with the maker's Y (common practice). Angular-contact
     ball: 1.32*Fr*tan(alpha) (half load zone, point contact; Harris, from memory).
     Zero clearance and no preload are assumed.
@@ -730,9 +733,12 @@ def induced_axial_force(b: Bearing, Fr_N: float) -> float:
     return 0.0
 
 
-def axial_reactions(shaft: Shaft, Ka_N: float, Fr_N: dict[str, float]
-                    ) -> tuple[dict[str, float], dict[str, float]]:
+def axial_reactions(shaft: Shaft, Ka_N: Any, Fr_N: dict[str, Any]
+                    ) -> tuple[dict[str, Any], dict[str, Any]]:
     """Axial force each bearing puts on the shaft [N] for a net external thrust Ka_N.
+
+    ``Ka_N`` and the radial loads may be numbers (one case) or arrays of one shape (many
+    cases or variants at once); the results have the same form.
 
     Rules (the trade's, stated in DEVELOPERS.md):
 
@@ -745,8 +751,8 @@ def axial_reactions(shaft: Shaft, Ka_N: float, Fr_N: dict[str, float]
 
     Returns the axial force on the shaft of every bearing and the induced forces used.
     """
-    on_shaft = {b.id: 0.0 for b in shaft.bearings}
-    induced: dict[str, float] = {}
+    on_shaft: dict[str, Any] = {b.id: 0.0 for b in shaft.bearings}
+    induced: dict[str, Any] = {}
     both = [b for b in shaft.bearings if b.axial is AxialRole.BOTH]
     if both:
         on_shaft[both[0].id] = -Ka_N
@@ -754,21 +760,24 @@ def axial_reactions(shaft: Shaft, Ka_N: float, Fr_N: dict[str, float]
     plus = next(b for b in shaft.bearings if b.axial is AxialRole.PLUS_X)
     minus = next(b for b in shaft.bearings if b.axial is AxialRole.MINUS_X)
     if plus.pair is None:
-        if Ka_N >= 0:
-            on_shaft[plus.id] = -Ka_N
-        else:
-            on_shaft[minus.id] = -Ka_N
+        on_shaft[plus.id] = _where(Ka_N >= 0, -Ka_N, 0.0)
+        on_shaft[minus.id] = _where(Ka_N >= 0, 0.0, -Ka_N)
         return on_shaft, induced
     fi_p = induced_axial_force(plus, Fr_N[plus.id])
     fi_n = induced_axial_force(minus, Fr_N[minus.id])
     induced = {plus.id: fi_p, minus.id: fi_n}
-    if fi_n + Ka_N >= fi_p:
-        fa_p, fa_n = fi_n + Ka_N, fi_n
-    else:
-        fa_p, fa_n = fi_p, fi_p - Ka_N
+    first = fi_n + Ka_N >= fi_p
+    fa_p = _where(first, fi_n + Ka_N, fi_p)
+    fa_n = _where(first, fi_n, fi_p - Ka_N)
     on_shaft[plus.id] = -fa_p   # P stops +x motion: pushes the shaft toward -x
     on_shaft[minus.id] = fa_n
     return on_shaft, induced
+
+
+def _where(condition: Any, a: Any, b: Any) -> Any:
+    """``np.where`` that gives a plain float for scalar arguments."""
+    out = np.where(condition, a, b)
+    return float(out) if out.ndim == 0 else out
 
 
 def shaft_weight_loads(model: Model, shaft: Shaft) -> list[AppliedLoad]:
@@ -896,7 +905,7 @@ def _nodal_loads(sm: ShaftMesh, model: Model, applied_all: list[list[AppliedLoad
     F_xz = np.zeros((2 * n, m))
     for k, applied in enumerate(applied_all):
         for a in applied:
-            node = _node_of(sm, a.source, a.x_mm)
+            node = _node_of(sm, a)
             F_xy[2 * node, k] += a.force_N[1]
             F_xy[2 * node + 1, k] += a.moment_Nmm[2]
             F_xz[2 * node, k] += a.force_N[2]

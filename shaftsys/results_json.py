@@ -13,6 +13,9 @@ def result_to_dict(result: Result) -> dict[str, Any]:
     """The JSON-ready dictionary of a result (public contract, schema ``SCHEMA_VERSION``)."""
     model = result.model
     shares = model.shares()
+    checks = result.checks.to_dict() if result.checks is not None else None
+    shaft_checks = {c["id"]: c for c in checks["shafts"]} if checks else {}
+    bearing_checks = {c["id"]: c for c in checks["bearings"]} if checks else {}
     data: dict[str, Any] = {
         "schema_version": SCHEMA_VERSION,
         "tool_version": __version__,
@@ -49,8 +52,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
             ],
             "system": {"life_h": s.system_life_h, "limiting_bearing": s.limiting_bearing},
         }
-        if result.checks is not None:
-            sc = result.checks.shaft(s.shaft.id).to_dict()
+        if checks is not None:
+            sc = shaft_checks[s.shaft.id]
             entry["first_critical_rpm"] = sc.get("first_critical_rpm")
             entry["first_torsional_rpm"] = sc.get("first_torsional_rpm")
             entry["min_fatigue_safety"] = sc.get("min_fatigue_safety")
@@ -74,10 +77,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         }
         if b.life is not None:
             item["life"] = b.life.to_dict()
-        if result.checks is not None:
-            for bc in result.checks.to_dict()["bearings"]:
-                if bc["id"] == br.id:
-                    item["misalignment"] = bc
+        if checks is not None and br.id in bearing_checks:
+            item["misalignment"] = bearing_checks[br.id]
         item["ok"] = b.ok
         data["bearings"].append(item)
     if result.flows:
@@ -85,8 +86,7 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         data["power_balance"] = [
             {"case": f.case, "power_in_W": f.power_in_W, "power_out_W": f.power_out_W,
              "loss_W": f.loss_W} for f in result.flows]
-    if result.checks is not None:
-        checks = result.checks.to_dict()
+    if checks is not None:
         data["gears"] = checks["gears"]
         data["shaft_checks"] = checks
     data["system"] = {"life_h": result.system_life_h,

@@ -36,6 +36,7 @@ __all__ = [
     "CHUNK",
     "BatchSolution",
     "cholesky_banded_batch",
+    "planar_band",
     "solve_banded_batch",
     "solve_planar_batch",
 ]
@@ -43,8 +44,10 @@ __all__ = [
 Array = NDArray[np.float64]
 
 
-def _planar_band(EI: Array, L: Array, Phi: Array | float) -> Array:
-    """Upper band (4, 2n, B) of the shaft stiffness; EI, Phi (n_e, B), L (n_e, 1)."""
+def planar_band(EI: Array, L: Array, Phi: Array | float) -> Array:
+    """Upper band (4, 2n, B) of the shaft stiffness; EI, Phi (n_e, B), L (n_e, 1) or
+    (n_e, B) (one length per element and variant).
+    """
     n_e, B = EI.shape
     c = EI / ((1.0 + Phi) * L**3)
     k00 = 12.0 * c
@@ -239,7 +242,7 @@ def solve_planar_batch(
         hi = min(B, lo + CHUNK)
         EIc = EI[lo:hi].T  # (n_e, b)
         Phi = 0.0 if kGA is None else 12.0 * EIc / (kGA[lo:hi].T * L[:, None] ** 2)
-        ab_shaft = _planar_band(EIc, L[:, None], Phi)  # (4, n, b)
+        ab_shaft = planar_band(EIc, L[:, None], Phi)  # (4, n, b)
         Ft = np.array(
             np.broadcast_to(Fa[:, :, None], (n, m, hi - lo))
             if shared_F

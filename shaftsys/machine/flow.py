@@ -93,9 +93,14 @@ def machine_graph(model: Model) -> tuple[nx.Graph, dict[str, LinkGeometry]]:
     return g, geos
 
 
-def case_flow(model: Model, case: Case) -> CaseFlow:
-    """Speeds, torques and link forces of every shaft in ``case`` (machine models)."""
-    graph, geos = machine_graph(model)
+def case_flow(model: Model, case: Case,
+              machine: tuple[nx.Graph, dict[str, LinkGeometry]] | None = None) -> CaseFlow:
+    """Speeds, torques and link forces of every shaft in ``case`` (machine models).
+
+    ``machine`` is :func:`machine_graph` of the model, built once for all cases by a
+    caller that has it (built here otherwise).
+    """
+    graph, geos = machine if machine is not None else machine_graph(model)
     own = owners(model)
     (root, drive), = case.drives.items()
     if drive.input_element is None:

@@ -45,20 +45,16 @@ from dataclasses import dataclass, field
 import numpy as np
 from numpy.typing import NDArray
 
-from shaftsys.analysis import (
-    ACBB_INDUCED_FACTOR,
-    TRB_INDUCED_FACTOR,
-    element_loads,
-)
+from shaftsys.analysis import axial_reactions, element_loads
 from shaftsys.bearings.engine import LIFE_BASIS_MODIFIED, LoadSpectrum, evaluate_bearing
 from shaftsys.bearings.equivalent import equivalent_dynamic_load
 from shaftsys.bearings.lubrication import a_iso_with_ep
 from shaftsys.bearings.static import equivalent_static_load, static_safety
 from shaftsys.errors import ModelError, NumericalError
-from shaftsys.fe.batch import cholesky_banded_batch, solve_banded_batch
+from shaftsys.fe.batch import cholesky_banded_batch, planar_band, solve_banded_batch
 from shaftsys.fe.sections import circular_section_arrays
 from shaftsys.fe.solve import DEFAULT_PIVOT_TOL
-from shaftsys.model import AxialRole, Bearing, BearingKind, CaseKind, Model, Shaft
+from shaftsys.model import Bearing, BearingKind, CaseKind, Model, Shaft
 from shaftsys.study.paths import STATION_TOL_MM, Geometry
 from shaftsys.units import DENSITY_KG_PER_MM3, MEGA_REVOLUTIONS
 
@@ -130,7 +126,7 @@ def prepare(model: Model) -> Prepared:
     for k, case in enumerate(model.cases):
         applied, _ = element_loads(model, shaft, case)
         for a in applied:
-            j = eidx[a.source.removesuffix(" weight")]
+            j = eidx[a.element or ""]
             F[j, k] += a.force_N
             M[j, k] += a.moment_Nmm
         net = float(M[:, k, 0].sum())
@@ -235,29 +231,6 @@ class BatchArrays:
 
 
 # ------------------------------------------------------------------------------ solve
-def _band(EI: Array, L: Array, Phi: Array | float) -> Array:
-    """Upper band (4, 2n, b) of the planar shaft stiffness; EI, L, Phi (n_e, b)."""
-    n_e, b = EI.shape
-    c = EI / ((1.0 + Phi) * L**3)
-    k00 = 12.0 * c
-    k01 = 6.0 * c * L
-    k11 = (4.0 + Phi) * c * L * L
-    k13 = (2.0 - Phi) * c * L * L
-    ab = np.zeros((4, 2 * (n_e + 1), b))
-    s = 2 * n_e
-    ab[3, 0:s:2] += k00
-    ab[2, 1 : s + 1 : 2] += k01
-    ab[1, 2 : s + 2 : 2] -= k00
-    ab[0, 3 : s + 3 : 2] += k01
-    ab[3, 1 : s + 1 : 2] += k11
-    ab[2, 2 : s + 2 : 2] -= k01
-    ab[1, 3 : s + 3 : 2] += k13
-    ab[3, 2 : s + 2 : 2] += k00
-    ab[2, 3 : s + 3 : 2] -= k01
-    ab[3, 3 : s + 3 : 2] += k11
-    return ab
-
-
 def _solve(ab_shaft: Array, rigid: NDArray[np.bool_], springs: Array, Ft: Array
            ) -> tuple[Array, Array]:
     """Eliminate, scale, factor (banded Cholesky, batched) and solve; (u, min pivot)."""
@@ -361,7 +334,7 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
         Phi: Array | float = 12.0 * EI / (kGA * L**2)
     else:
         Phi = 0.0
-    ab = _band(EI, L, Phi)
+    ab = planar_band(EI, L, Phi)
     ndof = 2 * n
     rigid = np.zeros(ndof, dtype=bool)
     springs = np.zeros(ndof)
@@ -481,39 +454,12 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
     out.put(rows, res)
 
 
-def _induced(b: Bearing, Fr: Array) -> Array:
-    """Induced axial force [N] (as :func:`shaftsys.analysis.induced_axial_force`)."""
-    if b.kind is BearingKind.TAPERED_ROLLER:
-        if not b.Y:
-            raise ModelError(f"bearing '{b.id}' needs the maker's Y for its induced axial force",
-                             line=b.line, field=f"bearings[{b.id}].Y")
-        return TRB_INDUCED_FACTOR * Fr / b.Y
-    if b.kind is BearingKind.ANGULAR_CONTACT_BALL:
-        return ACBB_INDUCED_FACTOR * Fr * math.tan(math.radians(b.contact_angle_deg or 0.0))
-    return np.zeros_like(Fr)
-
-
 def _axial(shaft: Shaft, Ka: Array, Fr: Array) -> Array:
-    """|axial load| each bearing carries (nb, m, b) by the rule of ``axial_reactions``."""
-    Fa = np.zeros_like(Fr)
-    idx = {b.id: j for j, b in enumerate(shaft.bearings)}
-    both = [b for b in shaft.bearings if b.axial is AxialRole.BOTH]
-    if both:
-        Fa[idx[both[0].id]] = np.abs(Ka)
-        return Fa
-    plus = next(b for b in shaft.bearings if b.axial is AxialRole.PLUS_X)
-    minus = next(b for b in shaft.bearings if b.axial is AxialRole.MINUS_X)
-    jp, jn = idx[plus.id], idx[minus.id]
-    if plus.pair is None:
-        Fa[jp] = np.where(Ka >= 0, np.abs(Ka), 0.0)
-        Fa[jn] = np.where(Ka >= 0, 0.0, np.abs(Ka))
-        return Fa
-    fi_p = _induced(plus, Fr[jp])
-    fi_n = _induced(minus, Fr[jn])
-    first = fi_n + Ka >= fi_p
-    Fa[jp] = np.abs(np.where(first, fi_n + Ka, fi_p))
-    Fa[jn] = np.abs(np.where(first, fi_n, fi_p - Ka))
-    return Fa
+    """|axial load| each bearing carries (nb, m, b), by :func:`analysis.axial_reactions`."""
+    radial = {b.id: Fr[j] for j, b in enumerate(shaft.bearings)}
+    on_shaft, _ = axial_reactions(shaft, Ka, radial)
+    return np.stack([np.broadcast_to(np.abs(on_shaft[b.id]), Ka.shape)
+                     for b in shaft.bearings])
 
 
 # ------------------------------------------------------------------------------ lives
