@@ -25,7 +25,7 @@ How it is done:
    formula, X0 = 0.6) and override X, Y, e (and Y0) with the maker's values: a given
    ``X`` replaces the built-in X/Y table.
 3. Evaluate it with :func:`shaftsys.bearings.evaluate_bearing` on the spectrum of seat
-   A taken from the solved model (:func:`shaftsys.life_check.spectrum_of`), with the
+   A taken from the solved model (:func:`shaftsys.analysis.life.spectrum_of`), with the
    model's own life settings and lubrication.
 """
 
@@ -37,7 +37,7 @@ from typing import Any
 
 import shaftsys
 from shaftsys.bearings import evaluate_bearing
-from shaftsys.life_check import spectrum_of
+from shaftsys.analysis.life import spectrum_of
 from shaftsys.model import Bearing, BearingKind
 
 MODEL = Path(__file__).resolve().parent.parent / "models" / "fan_drive.yaml"

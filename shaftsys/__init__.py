@@ -17,7 +17,7 @@ from typing import TYPE_CHECKING, Any
 __version__ = "0.1.0"
 
 if TYPE_CHECKING:
-    from shaftsys.analysis import Result
+    from shaftsys.analysis.results import Result
     from shaftsys.model import Model
 
 
@@ -29,10 +29,22 @@ def load_model(path: str) -> Model:
 
 
 def analyse(model: Model, **kwargs: Any) -> Result:
-    """Solve and check a model (see :func:`shaftsys.analysis.analyse`)."""
-    from shaftsys.analysis import analyse as _analyse
+    """Solve and check a model (see :func:`shaftsys.analysis.analyse`).
 
-    return _analyse(model, **kwargs)
+    Errors of the numerical core are given the model file's line and key
+    (:func:`shaftsys.io.locate.locate_error`).
+    """
+    from shaftsys.analysis.pipeline import analyse as _analyse
+    from shaftsys.errors import ModelError
+    from shaftsys.io.locate import locate_error
+
+    try:
+        return _analyse(model, **kwargs)
+    except ModelError as exc:
+        located = locate_error(exc, model)
+        if located is exc:
+            raise
+        raise located from exc
 
 
 __all__ = ["__version__", "analyse", "load_model"]

@@ -36,6 +36,9 @@ class ModelError(ShaftsysError, ValueError):
         Dotted path of the offending field, e.g. ``shafts[input].bearings[A].C``.
     expected:
         What would have been valid.
+    case:
+        Id of the operating case the error concerns (lets the model file's line of that
+        case be found when the field itself has none), or ``None``.
     """
 
     exit_code = 2
@@ -48,8 +51,10 @@ class ModelError(ShaftsysError, ValueError):
         line: int | None = None,
         field: str | None = None,
         expected: str | None = None,
+        case: str | None = None,
     ) -> None:
         self.message = message
+        self.case = case
         self.file = file
         self.line = line
         self.field = field

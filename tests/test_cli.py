@@ -29,9 +29,9 @@ import yaml
 import shaftsys
 from shaftsys.cli import main
 
-HAS_LIFE = importlib.util.find_spec("shaftsys.life_check") is not None
+HAS_LIFE = importlib.util.find_spec("shaftsys.analysis.life") is not None
 needs_life = pytest.mark.skipif(
-    not HAS_LIFE, reason="shaftsys.life_check (attach_life) is not written yet")
+    not HAS_LIFE, reason="shaftsys.analysis.life (attach_life) is not written yet")
 
 
 
@@ -149,7 +149,7 @@ def test_json_contract_from_python(demo_path: Path) -> None:
     from shaftsys.analysis import analyse
     from shaftsys.io.loader import load_model
     from shaftsys.io.output import json_ready
-    from shaftsys.results_json import result_to_dict
+    from shaftsys.io.results_json import result_to_dict
 
     data = result_to_dict(analyse(load_model(demo_path), with_life=False))
     text = json.dumps(json_ready(data), allow_nan=False)
@@ -159,7 +159,7 @@ def test_json_contract_from_python(demo_path: Path) -> None:
 def test_hours_are_normalised_to_shares(model_yaml: Any) -> None:
     from shaftsys.analysis import analyse
     from shaftsys.io.loader import load_model
-    from shaftsys.results_json import result_to_dict
+    from shaftsys.io.results_json import result_to_dict
 
     path, _ = model_yaml(edit=_hours_edit)
     data = result_to_dict(analyse(load_model(path), with_life=False))
@@ -313,9 +313,9 @@ def test_python_dash_m(demo_path: Path) -> None:
 import io  # noqa: E402
 
 from shaftsys.cli import EXIT_CODES_TEXT, _parser  # noqa: E402
+from shaftsys.cli import progress as progress_mod  # noqa: E402
+from shaftsys.cli.terminal import colour_wanted, paint_verdicts  # noqa: E402
 from shaftsys.errors import NumericalError  # noqa: E402
-from shaftsys.report import progress as progress_mod  # noqa: E402
-from shaftsys.report.terminal import colour_wanted, paint_verdicts  # noqa: E402
 
 ROOT = Path(__file__).resolve().parent.parent
 ANSI = "\x1b["
@@ -462,12 +462,12 @@ def test_exit_3_when_the_solver_reports_numerical_trouble(
         monkeypatch: pytest.MonkeyPatch, demo_path: Path, tmp_path: Path,
         capsys: pytest.CaptureFixture[str]) -> None:
     """Any NumericalError raised inside the solve ends as exit 3 with one message."""
-    import shaftsys.analysis
+    import shaftsys.analysis.pipeline
 
     def broken(*args: Any, **kwargs: Any) -> Any:
         raise NumericalError("equilibrium residual 1e-3 above tolerance 1e-9")
 
-    monkeypatch.setattr(shaftsys.analysis, "analyse", broken)
+    monkeypatch.setattr(shaftsys.analysis.pipeline, "analyse", broken)
     for argv in (["check", str(demo_path)], ["report", str(demo_path), "-o",
                                               str(tmp_path / "r.html")]):
         assert main(argv) == 3

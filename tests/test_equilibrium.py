@@ -22,11 +22,11 @@ from hypothesis import strategies as st
 from shaftsys.analysis import (
     AppliedLoad,
     analyse,
-    axial_reactions,
     element_loads,
     equilibrium_residual,
     shaft_weight_loads,
 )
+from shaftsys.bearings.axial import axial_reactions
 from shaftsys.errors import ModelError, NumericalError
 from shaftsys.io.loader import load_model
 from shaftsys.model import (
@@ -261,7 +261,7 @@ def test_weight_only_case_on_a_fine_mesh_is_not_a_numerical_failure() -> None:
 # ----------------------------------------------------------------- (c) axial rules
 def test_locating_bearing_takes_all_thrust() -> None:
     shaft = _shaft([_bearing("A", 50.0, AxialRole.BOTH), _bearing("B", 350.0)])
-    on_shaft, induced = axial_reactions(shaft, 750.0, {"A": 1000.0, "B": 2000.0})
+    on_shaft, induced = axial_reactions(shaft.bearings, 750.0, {"A": 1000.0, "B": 2000.0})
     assert on_shaft == {"A": -750.0, "B": 0.0}
     assert induced == {}
 
@@ -276,7 +276,7 @@ def test_cross_locating_bearing_facing_the_thrust_takes_it(
         Ka: float, expected: dict[str, float]) -> None:
     shaft = _shaft([_bearing("P", 50.0, AxialRole.PLUS_X),
                     _bearing("N", 350.0, AxialRole.MINUS_X)])
-    on_shaft, _ = axial_reactions(shaft, Ka, {"P": 1000.0, "N": 1000.0})
+    on_shaft, _ = axial_reactions(shaft.bearings, Ka, {"P": 1000.0, "N": 1000.0})
     assert on_shaft == pytest.approx(expected)
 
 
@@ -305,7 +305,7 @@ def _tapered_pair() -> Shaft:
     (0.0, 1562.5, 1562.5),
 ])
 def test_adjusted_tapered_pair_symmetric(Ka: float, fa_p: float, fa_n: float) -> None:
-    on_shaft, induced = axial_reactions(_tapered_pair(), Ka, {"P": 5000.0, "N": 5000.0})
+    on_shaft, induced = axial_reactions(_tapered_pair().bearings, Ka, {"P": 5000.0, "N": 5000.0})
     assert induced == pytest.approx({"P": 1562.5, "N": 1562.5})
     assert on_shaft == pytest.approx({"P": -fa_p, "N": fa_n})
     assert on_shaft["P"] + on_shaft["N"] == pytest.approx(-Ka)
@@ -316,7 +316,7 @@ def test_adjusted_tapered_pair_unequal_radial_loads() -> None:
     Fi_P = 2500 N, Fi_N = 625 N; Fi_N + Ka = 1125 < Fi_P, so Fa_P = 2500 N and
     Fa_N = Fi_P - Ka = 2000 N: the thrust toward +x is carried, but the larger induced
     force of P loads N beyond the external thrust."""
-    on_shaft, induced = axial_reactions(_tapered_pair(), 500.0, {"P": 8000.0, "N": 2000.0})
+    on_shaft, induced = axial_reactions(_tapered_pair().bearings, 500.0, {"P": 8000.0, "N": 2000.0})
     assert induced == pytest.approx({"P": 2500.0, "N": 625.0})
     assert on_shaft == pytest.approx({"P": -2500.0, "N": 2000.0})
 

@@ -8,7 +8,7 @@ import numpy as np
 import pytest
 
 from shaftsys.errors import NumericalError
-from shaftsys.fe.batch import cholesky_banded_batch, solve_banded_batch, solve_planar_batch
+from shaftsys.fe.banded_batch import cholesky_banded_batch, solve_banded_batch, solve_planar_batch
 from shaftsys.fe.sections import circular_section_arrays
 from shaftsys.fe.solve import PlanarBending, Support, planar_stiffness_banded
 

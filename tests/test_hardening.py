@@ -32,7 +32,7 @@ import numpy as np
 import pytest
 from conftest import base_model, dump_model
 
-import shaftsys.analysis as analysis_mod
+import shaftsys.analysis.solve as analysis_mod
 import shaftsys.io.output as output_mod
 from shaftsys.analysis import (
     MAX_ROUNDOFF_RESIDUAL,
@@ -45,6 +45,7 @@ from shaftsys.analysis import (
 from shaftsys.cli import main
 from shaftsys.errors import ModelError, NumericalError, OutputError
 from shaftsys.io.loader import load_model, load_model_text
+from shaftsys.io.locate import locate_error
 from shaftsys.io.output import atomic_write, write_json, write_text
 from shaftsys.io.yamlsource import MAX_DEPTH, MAX_FILE_BYTES, parse_yaml
 from shaftsys.model import AxialRole, Bearing, BearingKind, Material, Shaft, Step
@@ -467,7 +468,7 @@ def test_core_errors_get_the_file_line_and_field() -> None:
     text = dump_model(base_model())
     model = load_model_text(text, "m.yaml")
     model = replace(model, source="m.yaml")
-    exc = analysis_mod.locate_error(
+    exc = locate_error(
         ModelError("C must be positive", field="bearings[B].C_N"), model)
     assert exc.file == "m.yaml"
     assert exc.field == "shafts[s1].bearings[B].C"

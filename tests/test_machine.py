@@ -18,8 +18,8 @@ import pytest
 from shaftsys.analysis import analyse, element_loads, mesh_shaft
 from shaftsys.errors import ModelError
 from shaftsys.io.loader import load_model, load_model_text
+from shaftsys.io.results_json import result_to_dict
 from shaftsys.machine.flow import case_flow
-from shaftsys.results_json import result_to_dict
 
 MODEL = Path(__file__).resolve().parent.parent / "models" / "belt_reducer.yaml"
 REL = 1e-6

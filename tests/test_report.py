@@ -20,9 +20,9 @@ import numpy as np
 import pytest
 
 import shaftsys
+from shaftsys.io.results_json import result_to_dict
 from shaftsys.report import calcsheet, figures
 from shaftsys.report.html import render_report
-from shaftsys.results_json import result_to_dict
 
 ROOT = Path(__file__).resolve().parent.parent
 MODEL = ROOT / "models" / "fan_drive.yaml"

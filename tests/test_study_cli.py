@@ -9,7 +9,7 @@ from pathlib import Path
 
 import pytest
 
-from shaftsys.study.cli import add_sweep_parser, run_sweep
+from shaftsys.cli.sweep import add_sweep_parser, run_sweep
 
 SPINDLE = Path(__file__).resolve().parent.parent / "models" / "spindle_3brg.yaml"
 

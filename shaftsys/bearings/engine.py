@@ -456,6 +456,7 @@ def evaluate_bearing(
                 f"below {KAPPA_MIN}: outside ISO 281:2007 modified life",
                 field="lubrication.viscosity",
                 expected="a more viscous oil, lower temperature, or use_modified_life: false",
+                case=ids[int(idx[j])],
             )
         for jj in np.nonzero(kappa_raw > KAPPA_MAX)[0]:
             notes.append(

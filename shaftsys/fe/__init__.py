@@ -3,7 +3,7 @@
 Units follow :mod:`shaftsys.units`: N, mm, N*mm, MPa, kg/m^3 (converted where used).
 """
 
-from shaftsys.fe.batch import (
+from shaftsys.fe.banded_batch import (
     BatchSolution,
     cholesky_banded_batch,
     solve_banded_batch,

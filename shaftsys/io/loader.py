@@ -12,7 +12,7 @@ import math
 from pathlib import Path
 from typing import Any
 
-from shaftsys.analysis import STATION_SNAP_MM
+from shaftsys.analysis.solve import STATION_SNAP_MM
 from shaftsys.errors import ModelError
 from shaftsys.io import spec as S
 from shaftsys.io.spec import Where, read_section, read_value, require_list, require_mapping

@@ -18,7 +18,7 @@ import math
 
 import numpy as np
 
-from shaftsys.analysis import BearingResult, Result
+from shaftsys.analysis.results import BearingResult, Result
 from shaftsys.bearings.static import static_factors
 from shaftsys.model import AxialRole
 from shaftsys.units import MEGA_REVOLUTIONS

@@ -23,7 +23,7 @@ from typing import TYPE_CHECKING, Any, overload
 
 import numpy as np
 
-from shaftsys.analysis import BearingResult, CaseSolution, ShaftResult
+from shaftsys.analysis.results import BearingResult, CaseSolution, ShaftResult
 from shaftsys.model import Shaft
 from shaftsys.units import MEGA_REVOLUTIONS
 

@@ -21,13 +21,19 @@ import os
 import re
 from collections.abc import Callable, Collection, Iterable, Sequence
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 from shaftsys import __version__
-from shaftsys.analysis import BearingResult, Result
-from shaftsys.life_check import worst_case
+from shaftsys.analysis.life import worst_case
+from shaftsys.analysis.results import BearingResult, Result
 from shaftsys.model import Case, CaseKind
 from shaftsys.report import figures
 from shaftsys.report.calcsheet import explain_bearing_html, format_value
+
+if TYPE_CHECKING:
+    import pandas as pd
+
+    from shaftsys.study.sweep import Study
 
 __all__ = ["SECTION_TITLES", "render_report", "report_steps"]
 
@@ -451,7 +457,7 @@ def render_report(result: Result, date: str | None = None,
     progress:
         Called with a short label after each slow part is rendered (see
         :func:`report_steps` for how many calls to expect); ``None`` = no calls. The
-        CLI passes :meth:`shaftsys.report.progress.ProgressBar.advance`.
+        CLI passes :meth:`shaftsys.cli.progress.ProgressBar.advance`.
 
     Returns
     -------
@@ -485,21 +491,15 @@ def render_report(result: Result, date: str | None = None,
             f"<style>{_CSS}</style></head><body><main>{body}</main></body></html>\n")
 
 
-def study_fragment(model_path: str, model: object) -> tuple[str, str] | None:
-    """Run the model file's ``study:`` section in-process and return its summary text and
-    an HTML fragment with the study plot (inline SVG) and the best variants; ``None``
-    when the file has no study section.
+def study_fragment(study: Study, frame: pd.DataFrame) -> tuple[str, str]:
+    """Summary text and an HTML fragment (inline SVG plot) of a design study that has
+    been run (its results ``frame``, :func:`shaftsys.study.sweep.sweep`).
     """
     from shaftsys.report.figures import to_svg
     from shaftsys.study.plots import plot_contour, plot_life
-    from shaftsys.study.spec import read_study_section, study_from_section
-    from shaftsys.study.sweep import study_summary, sweep
+    from shaftsys.study.sweep import study_summary
 
-    section, name = read_study_section(model_path)
-    if section is None:
-        return None
-    st = study_from_section(model, section, name)  # type: ignore[arg-type]
-    df = sweep(st)
+    st, df = study, frame
     from matplotlib.figure import Figure
 
     fig = Figure(figsize=(7.5, 4.6))

@@ -5,8 +5,9 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 
-from shaftsys.analysis import Result
-from shaftsys.life_check import worst_case
+from shaftsys.analysis.check_results import ShaftChecks
+from shaftsys.analysis.life import worst_case
+from shaftsys.analysis.results import Result
 
 
 def format_table(headers: Sequence[str], rows: Sequence[Sequence[str]],
@@ -78,4 +79,59 @@ def verdict_table(result: Result) -> str:
     failing = [b.bearing.id for b in result.bearings if not b.ok]
     lines.append("all supports pass" if not failing else
                  "FAILING: " + ", ".join(failing))
+    return "\n".join(lines)
+
+
+def _fmt(v: float | None, spec: str) -> str:
+    if v is None:
+        return "-"
+    if not math.isfinite(v):
+        return "inf"
+    return format(v, spec)
+
+
+def shaft_checks_table(sc: ShaftChecks) -> str:
+    """Plain-text tables: slopes/deflections, critical speeds, fatigue sections."""
+    lines = ["Slopes and deflections (worst case)",
+             f"{'shaft':<10} {'what':<8} {'id':<14} {'x mm':>8} {'defl mm':>9} "
+             f"{'lim mm':>7} {'slope rad':>10} {'lim rad':>9} {'case':<12} verdict"]
+    for c in (*sc.bearings, *sc.gears):
+        worst = max(c.cases, key=lambda k: k.slope_rad / c.slope_limit_rad + (
+            k.deflection_mm / c.deflection_limit_mm if c.deflection_limit_mm else 0.0),
+            default=None)
+        if worst is None:
+            continue
+        verdict = "ok" if c.ok else "EXCEEDED"
+        if c.ok and any(k.status == "marginal" for k in c.cases):
+            verdict = "marginal"
+        lines.append(f"{c.shaft:<10} {c.kind:<8} {c.id:<14} {c.x_mm:>8.1f} "
+                     f"{worst.deflection_mm:>9.4f} {_fmt(c.deflection_limit_mm, '7.3f'):>7} "
+                     f"{worst.slope_rad:>10.2e} {c.slope_limit_rad:>9.2e} {worst.case:<12} "
+                     f"{verdict}")
+    lines += ["", "Critical speeds (non-rotating shaft, no gyroscopic effects)",
+              f"{'shaft':<10} {'bending rpm':>12} {'torsion rpm':>12} {'max rpm':>9} "
+              f"{'ratio':>7} verdict"]
+    for s in sc.shafts:
+        ratio = s.first_critical_rpm / s.max_speed_rpm if s.max_speed_rpm > 0 else math.inf
+        verdict = ("supercritical" if s.supercritical else "ok") if s.critical_speed_ok \
+            else "TOO CLOSE"
+        lines.append(f"{s.id:<10} {_fmt(s.first_critical_rpm, '12.0f'):>12} "
+                     f"{_fmt(s.first_torsional_rpm, '12.0f'):>12} {s.max_speed_rpm:>9.0f} "
+                     f"{_fmt(ratio, '7.2f'):>7} {verdict}")
+    lines += ["", "Fatigue sections",
+              f"{'shaft':<10} {'x mm':>8} {'feature':<20} {'d mm':>6} {'Kt':>5} {'Kf':>5} "
+              f"{'Kfs':>5} {'Se MPa':>7} {'sa MPa':>7} {'sm MPa':>7} {'n_f':>6} {'n_y':>6} "
+              "verdict"]
+    for s in sc.shafts:
+        if not s.sections:
+            lines.append(f"{s.id:<10} (no fatigue sections: see notes)")
+        for x in s.sections:
+            lines.append(f"{s.id:<10} {x.x_mm:>8.1f} {x.feature:<20} {x.d_mm:>6.1f} "
+                         f"{x.Kt:>5.2f} {x.Kf:>5.2f} {x.Kfs:>5.2f} {x.Se_MPa:>7.1f} "
+                         f"{x.sigma_a_MPa:>7.1f} {x.sigma_m_MPa:>7.1f} "
+                         f"{_fmt(x.n_fatigue, '6.2f'):>6} {_fmt(x.n_yield, '6.2f'):>6} "
+                         f"{'ok' if x.ok else 'LOW'}")
+    notes = [f"{s.id}: {n}" for s in sc.shafts for n in s.notes]
+    if notes:
+        lines += ["", "Notes", *notes]
     return "\n".join(lines)

@@ -33,7 +33,6 @@ from numpy.typing import NDArray
 
 from shaftsys.errors import ModelError
 from shaftsys.model import Model
-from shaftsys.study.batched import BatchArrays
 from shaftsys.study.sweep import (
     Limit,
     Study,
@@ -43,6 +42,7 @@ from shaftsys.study.sweep import (
     make_study,
     sweep,
 )
+from shaftsys.study.variant_batch import BatchArrays
 
 log = logging.getLogger(__name__)
 

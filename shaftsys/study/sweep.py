@@ -10,7 +10,7 @@ stable id ``v{i:06d}`` (more digits above a million variants) and its values fol
 ``i`` alone, so any block ``[lo, hi)`` can be evaluated anywhere (worker processes,
 resumed runs) with identical numbers.
 
-:func:`evaluate_block` uses the batched evaluator (:mod:`shaftsys.study.batched`) when
+:func:`evaluate_block` uses the batched evaluator (:mod:`shaftsys.study.variant_batch`) when
 the model has one shaft and every quantity is geometric (bearing and element stations,
 spacings, step diameters, bores and lengths, bearing C); otherwise it runs
 :func:`shaftsys.analyse` per variant (logged once per study). Shaft strength checks
@@ -34,13 +34,13 @@ from numpy.typing import NDArray
 
 from shaftsys.errors import ModelError, NumericalError
 from shaftsys.model import Model
-from shaftsys.study.batched import BatchArrays, error_text, evaluate_geometry, prepare
 from shaftsys.study.paths import Quantity, geometry_of, model_with, parse_quantity, parse_values
+from shaftsys.study.variant_batch import BatchArrays, error_text, evaluate_geometry, prepare
 
 if TYPE_CHECKING:
     import pandas as pd
 
-    from shaftsys.study.batched import Prepared
+    from shaftsys.study.variant_batch import Prepared
 
 log = logging.getLogger(__name__)
 

@@ -8,7 +8,7 @@ edge (CLI, report, studies) can use it.
 
 Typical use::
 
-    from shaftsys.report.progress import ProgressBar, track
+    from shaftsys.cli.progress import ProgressBar, track
 
     with ProgressBar(total=len(jobs), desc="sweep", quiet=args.quiet) as bar:
         for job in jobs:

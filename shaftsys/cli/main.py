@@ -9,8 +9,8 @@ Options every command shares: ``--quiet/-q`` (print nothing but errors) and ``--
 ``--json PATH`` (``-`` = standard output, for pipelines; the human-readable text then
 goes to standard error). Verdict words are coloured only when the stream they are
 written to is a terminal and ``NO_COLOR`` is unset; progress bars are drawn only on a
-terminal's standard error (see :mod:`shaftsys.report.terminal` and
-:mod:`shaftsys.report.progress`).
+terminal's standard error (see :mod:`shaftsys.cli.terminal` and
+:mod:`shaftsys.cli.progress`).
 """
 
 from __future__ import annotations
@@ -166,7 +166,7 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
     handlers["schema"] = _schema
 
     # ---- design studies ------------------------------------------------------------
-    from shaftsys.study.cli import add_sweep_parser, run_sweep
+    from shaftsys.cli.sweep import add_sweep_parser, run_sweep
 
     add_sweep_parser(sub)
     handlers["sweep"] = run_sweep
@@ -221,14 +221,14 @@ def main(argv: Sequence[str] | None = None) -> int:
 # ------------------------------------------------------------------------ helpers
 def _tag(text: str, role: str, stream: TextIO) -> str:
     """``text`` in the colour of ``role`` when ``stream`` takes colour, else plain."""
-    from shaftsys.report.terminal import colour_wanted, paint
+    from shaftsys.cli.terminal import colour_wanted, paint
 
     return paint(text, role) if colour_wanted(stream) else text
 
 
 def _emit(text: str, stream: TextIO) -> None:
     """Print a block of table text, verdict words coloured on a terminal."""
-    from shaftsys.report.terminal import colour_wanted, paint_verdicts
+    from shaftsys.cli.terminal import colour_wanted, paint_verdicts
 
     print(paint_verdicts(text) if colour_wanted(stream) else text, file=stream)
 
@@ -239,7 +239,7 @@ def _warn(text: str) -> None:
 
 def _solve(args: argparse.Namespace, bar: Any) -> Any:
     """Read and solve ``args.model``, counting two steps on ``bar``."""
-    from shaftsys.analysis import analyse
+    from shaftsys import analyse
     from shaftsys.io.loader import load_model
 
     bar.status("reading the model")
@@ -256,7 +256,7 @@ def _json_out(args: argparse.Namespace, result: Any) -> None:
     if not args.json:
         return
     from shaftsys.io.output import json_ready, write_json
-    from shaftsys.results_json import result_to_dict
+    from shaftsys.io.results_json import result_to_dict
 
     data = result_to_dict(result)
     if args.json == "-":
@@ -335,8 +335,8 @@ def _new(args: argparse.Namespace) -> int:
 
 
 def _check(args: argparse.Namespace) -> int:
-    from shaftsys.report.progress import ProgressBar
-    from shaftsys.report.tables import loads_table, verdict_table
+    from shaftsys.cli.progress import ProgressBar
+    from shaftsys.report.tables import loads_table, shaft_checks_table, verdict_table
 
     with ProgressBar(2, "check", quiet=args.quiet) as bar:
         result = _solve(args, bar)
@@ -354,7 +354,7 @@ def _check(args: argparse.Namespace) -> int:
             _emit(verdict_table(result), out)
             if result.checks is not None:
                 print(file=out)
-                _emit(result.checks.table(), out)
+                _emit(shaft_checks_table(result.checks), out)
         out.flush()
         for w in _all_warnings(result):
             _warn(w)
@@ -368,14 +368,20 @@ def _check(args: argparse.Namespace) -> int:
 
 
 def _report(args: argparse.Namespace) -> int:
+    from shaftsys.cli.progress import ProgressBar
     from shaftsys.io.output import write_text
     from shaftsys.report.html import render_report, report_steps, study_fragment
-    from shaftsys.report.progress import ProgressBar
+    from shaftsys.study.section import read_study_section, study_from_section
+    from shaftsys.study.sweep import sweep
 
     with ProgressBar(2, "report", quiet=args.quiet) as bar:
         result = _solve(args, bar)
         bar.add_total(report_steps(result) + 1)
-        study = study_fragment(args.model, result.model)
+        section, name = read_study_section(args.model)
+        study = None
+        if section is not None:
+            st = study_from_section(result.model, section, name)
+            study = study_fragment(st, sweep(st))
         bar.advance("design study")
         html_text = render_report(result, progress=bar.advance, study=study)
         bar.status("writing")
@@ -392,9 +398,9 @@ def _report(args: argparse.Namespace) -> int:
 
 
 def _plot(args: argparse.Namespace) -> int:
+    from shaftsys.cli.progress import ProgressBar
     from shaftsys.io.output import atomic_write
     from shaftsys.report import figures
-    from shaftsys.report.progress import ProgressBar
 
     suffix = Path(args.output).suffix.lower().lstrip(".")
     if suffix not in {"png", "svg"}:

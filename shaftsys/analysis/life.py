@@ -1,4 +1,4 @@
-"""Glue between the solved shafts and the ISO 281 life engine.
+"""Lives: the solved bearing loads through the ISO 281 life engine.
 
 Builds every bearing's load spectrum straight from the solver (nobody types a bearing
 load), evaluates it, and combines the bearings of each shaft and of the whole machine
@@ -8,11 +8,11 @@ into a system life (Weibull survival, Lundberg-Palmgren slopes).
 from __future__ import annotations
 
 import math
-from dataclasses import replace
+from dataclasses import dataclass, replace
 
 import numpy as np
 
-from shaftsys.analysis import BearingResult, Result
+from shaftsys.analysis.results import BearingResult
 from shaftsys.bearings.engine import LoadSpectrum, evaluate_bearing, system_life
 from shaftsys.model import CaseKind, Model
 
@@ -38,38 +38,47 @@ def spectrum_of(model: Model, result: BearingResult) -> LoadSpectrum:
     )
 
 
-def attach_life(result: Result) -> Result:
-    """A copy of ``result`` with every bearing's life verdict and the system lives.
+@dataclass(frozen=True, eq=False)
+class Lives:
+    """Every bearing's life verdict and the system lives of each shaft and the machine.
+
+    ``bearings``: the bearing results with their life; ``shaft_system``: shaft id ->
+    (system life [h], limiting bearing id); ``system_life_h``, ``limiting_bearing``: the
+    whole machine. A system life is ``math.inf`` when no bearing wears (no dynamic case).
+    """
+
+    bearings: tuple[BearingResult, ...]
+    shaft_system: dict[str, tuple[float, str | None]]
+    system_life_h: float
+    limiting_bearing: str | None
+
+
+def evaluate_lives(model: Model, bearings: tuple[BearingResult, ...]) -> Lives:
+    """Life verdict of every bearing from its solved loads, and the system lives.
 
     System life combines the bearings' lives at 90 % reliability on the verdict's basis
     (basic L10 when the verdict uses a1*L10, aISO*L10 when it uses Lnm) and is stated
     at the model's default target reliability.
     """
-    model = result.model
-    bearings = []
-    for b in result.bearings:
-        life = evaluate_bearing(b.bearing, spectrum_of(model, b), model.life,
-                                model.lubrication)
-        bearings.append(replace(b, life=life))
-    shafts = []
+    done = tuple(replace(b, life=evaluate_bearing(b.bearing, spectrum_of(model, b),
+                                                  model.life, model.lubrication))
+                 for b in bearings)
+    per_shaft: dict[str, tuple[float, str | None]] = {}
     all_l90: list[float] = []
     all_kinds: list[str] = []
     all_ids: list[str] = []
     reliability = model.life.target_reliability
-    for s in result.shafts:
-        mine = [b for b in bearings if b.shaft_id == s.shaft.id]
+    for s in model.shafts:
+        mine = [b for b in done if b.shaft_id == s.id]
         l90 = [_life90_h(b) for b in mine]
         kinds = [b.bearing.kind.value for b in mine]
         life_h, idx = _system(l90, kinds, reliability)
-        shafts.append(replace(s, system_life_h=life_h,
-                              limiting_bearing=None if idx is None else mine[idx].bearing.id))
+        per_shaft[s.id] = (life_h, None if idx is None else mine[idx].bearing.id)
         all_l90 += l90
         all_kinds += kinds
         all_ids += [b.bearing.id for b in mine]
     life_h, idx = _system(all_l90, all_kinds, reliability)
-    return replace(result, bearings=tuple(bearings), shafts=tuple(shafts),
-                   system_life_h=life_h,
-                   limiting_bearing=None if idx is None else all_ids[idx])
+    return Lives(done, per_shaft, life_h, None if idx is None else all_ids[idx])
 
 
 def _life90_h(b: BearingResult) -> float:

@@ -5,7 +5,7 @@ from __future__ import annotations
 from typing import Any
 
 from shaftsys import __version__
-from shaftsys.analysis import SCHEMA_VERSION, Result
+from shaftsys.analysis.results import SCHEMA_VERSION, Result
 from shaftsys.units import OUTPUT_UNITS
 
 
@@ -33,6 +33,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         "shafts": [],
         "bearings": [],
         "ok": result.ok,
+        "verdict": result.verdict,
+        "not_evaluated": list(result.not_evaluated),
         "warnings": list(result.warnings),
     }
     for s in result.shafts:
@@ -80,6 +82,7 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         if checks is not None and br.id in bearing_checks:
             item["misalignment"] = bearing_checks[br.id]
         item["ok"] = b.ok
+        item["verdict"] = b.verdict
         data["bearings"].append(item)
     if result.flows:
         data["links"] = _links(result)

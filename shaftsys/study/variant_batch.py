@@ -17,7 +17,7 @@ over variants, elements or cases):
    Element Method*, beam chapter). The tests compare with :func:`shaftsys.analyse`.
 2. **Bending.** Band stiffness assembled per variant; rigid DOFs eliminated (identity
    rows), springs on the diagonal, Jacobi scaling, banded Cholesky and solves by
-   :func:`shaftsys.fe.batch.cholesky_banded_batch` / ``solve_banded_batch``; both
+   :func:`shaftsys.fe.banded_batch.cholesky_banded_batch` / ``solve_banded_batch``; both
    planes and every case are right-hand sides of one factorisation. Reactions as
    K u - F at rigid DOFs and -k u at springs. Pivots below
    ``shaftsys.fe.solve.DEFAULT_PIVOT_TOL`` and a global force/moment balance of each
@@ -45,13 +45,14 @@ from dataclasses import dataclass, field
 import numpy as np
 from numpy.typing import NDArray
 
-from shaftsys.analysis import axial_reactions, element_loads
+from shaftsys.analysis.element_forces import element_loads
+from shaftsys.bearings.axial import axial_reactions
 from shaftsys.bearings.engine import LIFE_BASIS_MODIFIED, LoadSpectrum, evaluate_bearing
 from shaftsys.bearings.equivalent import equivalent_dynamic_load
 from shaftsys.bearings.lubrication import a_iso_with_ep
 from shaftsys.bearings.static import equivalent_static_load, static_safety
 from shaftsys.errors import ModelError, NumericalError
-from shaftsys.fe.batch import cholesky_banded_batch, planar_band, solve_banded_batch
+from shaftsys.fe.banded_batch import cholesky_banded_batch, planar_band, solve_banded_batch
 from shaftsys.fe.sections import circular_section_arrays
 from shaftsys.fe.solve import DEFAULT_PIVOT_TOL
 from shaftsys.model import Bearing, BearingKind, CaseKind, Model, Shaft
@@ -457,7 +458,7 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
 def _axial(shaft: Shaft, Ka: Array, Fr: Array) -> Array:
     """|axial load| each bearing carries (nb, m, b), by :func:`analysis.axial_reactions`."""
     radial = {b.id: Fr[j] for j, b in enumerate(shaft.bearings)}
-    on_shaft, _ = axial_reactions(shaft, Ka, radial)
+    on_shaft, _ = axial_reactions(shaft.bearings, Ka, radial)
     return np.stack([np.broadcast_to(np.abs(on_shaft[b.id]), Ka.shape)
                      for b in shaft.bearings])
 

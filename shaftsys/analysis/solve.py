@@ -1,64 +1,42 @@
-"""Orchestration: model -> element loads -> beam solve -> bearing spectra -> life.
+"""The solve: mesh each shaft, factor its bending stiffness once, solve every case as a
+right-hand side, apply the axial arrangement rule, integrate axial force and torque,
+and prove equilibrium. Units: N, mm, N*mm, rad, rpm.
 
-``analyse(model) -> Result`` is the one entry point. Each shaft is meshed and its
-bending stiffness factored once; every case is a right-hand side of that factorisation
-(two bending planes share the stiffness of a round shaft). Axial and torsion are bars
-held at one node each: statically determinate once the axial arrangement rule of the
-case has decided which bearing carries how much thrust, so they are solved per case by
-integration from that node. Nothing is written back onto the model.
+Axial and torsion are bars held at one node each: statically determinate once the
+axial rule of the case has decided which bearing carries how much thrust, so they are
+solved per case by integration from that node. Shafts joined by bearings between them
+are solved as one coupled bending system (:mod:`shaftsys.machine.coupled`).
 """
 
 from __future__ import annotations
 
 import logging
 import math
-import re
 from dataclasses import dataclass, field, replace
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
 from numpy.typing import NDArray
 
-from shaftsys import loads as L
+from shaftsys.analysis.element_forces import element_loads, shaft_speed, vec3
+from shaftsys.analysis.results import (
+    AppliedLoad,
+    BearingCaseLoad,
+    BearingResult,
+    CaseSolution,
+    ShaftResult,
+)
+from shaftsys.bearings.axial import axial_reactions
 from shaftsys.errors import ModelError, NumericalError
 from shaftsys.fe.mesh import BeamMesh, Steps, build_mesh
-from shaftsys.model import (
-    AxialRole,
-    Bearing,
-    BearingKind,
-    BevelGear,
-    Case,
-    Coupling,
-    Element,
-    Gear,
-    LumpedMass,
-    Model,
-    ProcessLoad,
-    Pulley,
-    Shaft,
-    Sprocket,
-    Unbalance,
-)
+from shaftsys.model import AxialRole, BearingKind, Case, Model, Shaft
 from shaftsys.units import DENSITY_KG_PER_MM3
 
 if TYPE_CHECKING:
-    import pandas as pd
-
-    from shaftsys.bearings.engine import BearingLife
     from shaftsys.machine.flow import CaseFlow
 
 log = logging.getLogger(__name__)
 
-SCHEMA_VERSION = "1.1"
-
-#: Induced axial force of a single-row angular-contact ball bearing under radial load,
-#: Fi = K * Fr * tan(alpha), K = Ja/Jr of Sjoevall's integrals at a half load zone
-#: (epsilon = 0.5) for point contact (Harris, Rolling Bearing Analysis, load
-#: distribution chapter; from memory). Zero clearance, no preload.
-ACBB_INDUCED_FACTOR = 1.32
-#: Tapered roller bearings: Fi = 0.5 * Fr / Y with the maker's Y (common practice,
-#: the same half-load-zone assumption for line contact).
-TRB_INDUCED_FACTOR = 0.5
 #: Stations (bearing pressure centres, elements) closer than this [mm] to a step edge or
 #: to another station share its node (:func:`snap_stations`): a gap of micrometres would
 #: make an element a million times shorter than its neighbours and ruin the
@@ -77,282 +55,7 @@ MAX_ROUNDOFF_RESIDUAL = 1e-4
 MAX_ELEMENTS = 2000
 
 
-# ----------------------------------------------------------------------------- results
-@dataclass(frozen=True)
-class AppliedLoad:
-    """A load applied at a station in one case (shaft frame, N and N*mm).
 
-    ``element`` is the id of the element that applies it (its node carries the load), or
-    ``None`` for loads placed by station only.
-    """
-
-    source: str
-    x_mm: float
-    force_N: tuple[float, float, float]
-    moment_Nmm: tuple[float, float, float]
-    element: str | None = None
-
-
-@dataclass(frozen=True)
-class BearingCaseLoad:
-    """The load the shaft puts on one bearing in one case.
-
-    ``Fy_N, Fz_N, Fx_N``: components in the shaft frame of the force the shaft puts on
-    the bearing [N]; ``Fr_N``: resultant radial load; ``Fa_N``: |axial load| the bearing
-    carries, induced forces of adjusted pairs included [N]; ``Mt_Nmm``: tilting moment
-    taken by a bearing with tilt stiffness [N*mm].
-    """
-
-    case: str
-    Fy_N: float
-    Fz_N: float
-    Fx_N: float
-    Fr_N: float
-    Fa_N: float
-    speed_rpm: float
-    induced_N: float = 0.0
-    My_Nmm: float = 0.0
-    Mz_Nmm: float = 0.0
-    deflection_mm: float = 0.0
-    slope_rad: float = 0.0
-
-
-@dataclass(frozen=True, eq=False)
-class CaseSolution:
-    """Everything along one shaft in one case.
-
-    Arrays along the shaft are given at ``stations_mm`` (each element's two ends, so a
-    point load shows as a jump): ``N_N`` axial force (tension +), ``Vy_N``, ``Vz_N``
-    shear, ``T_Nmm`` torque, ``My_Nmm``, ``Mz_Nmm`` bending moment, each the action of
-    the part right of the cut on the part left of it; ``M_Nmm`` resultant bending
-    moment. ``displacement`` is (n_nodes, 6): ux, uy, uz [mm], rx, ry, rz [rad].
-    """
-
-    case: str
-    speed_rpm: float
-    torque_Nmm: float
-    node_x_mm: NDArray[np.float64]
-    displacement: NDArray[np.float64]
-    stations_mm: NDArray[np.float64]
-    N_N: NDArray[np.float64]
-    Vy_N: NDArray[np.float64]
-    Vz_N: NDArray[np.float64]
-    T_Nmm: NDArray[np.float64]
-    My_Nmm: NDArray[np.float64]
-    Mz_Nmm: NDArray[np.float64]
-    applied: tuple[AppliedLoad, ...]
-    force_residual_N: float
-    moment_residual_Nmm: float
-    residual_relative: float
-    nodal_residual_relative: float
-    warnings: tuple[str, ...] = ()
-
-    @property
-    def M_Nmm(self) -> NDArray[np.float64]:
-        """Resultant bending moment [N*mm] at ``stations_mm``."""
-        return np.hypot(self.My_Nmm, self.Mz_Nmm)
-
-    @property
-    def deflection_mm(self) -> NDArray[np.float64]:
-        """Radial deflection [mm] at the nodes."""
-        return np.hypot(self.displacement[:, 1], self.displacement[:, 2])
-
-    @property
-    def slope_rad(self) -> NDArray[np.float64]:
-        """Resultant slope [rad] at the nodes."""
-        return np.hypot(self.displacement[:, 4], self.displacement[:, 5])
-
-    @property
-    def max_deflection_mm(self) -> float:
-        """Largest radial deflection along the shaft [mm]."""
-        return float(self.deflection_mm.max())
-
-
-@dataclass(frozen=True, eq=False)
-class ShaftResult:
-    """Results of one shaft in every case."""
-
-    shaft: Shaft
-    cases: tuple[CaseSolution, ...]
-    condition_estimate: float
-    system_life_h: float = math.inf
-    limiting_bearing: str | None = None
-
-    def case(self, case_id: str) -> CaseSolution:
-        """The solution of one case."""
-        for c in self.cases:
-            if c.case == case_id:
-                return c
-        raise KeyError(case_id)
-
-
-@dataclass(frozen=True, eq=False)
-class BearingResult:
-    """One support: its loads in every case and its life verdict."""
-
-    shaft_id: str
-    bearing: Bearing
-    loads: tuple[BearingCaseLoad, ...]
-    life: BearingLife | None = None
-
-    @property
-    def ok(self) -> bool:
-        """The support meets its targets (life and static safety)."""
-        return bool(self.life.ok) if self.life is not None else True
-
-
-@dataclass(frozen=True, eq=False)
-class Result:
-    """Complete results of a model (nothing is written back onto the model)."""
-
-    model: Model
-    shafts: tuple[ShaftResult, ...]
-    bearings: tuple[BearingResult, ...]
-    system_life_h: float = math.inf
-    limiting_bearing: str | None = None
-    warnings: tuple[str, ...] = ()
-    checks: Any = None  # shaftsys.shaft_checks.ShaftChecks, attached by analyse()
-    flows: tuple[CaseFlow, ...] = ()  # machine models: power flow of every case
-
-    @property
-    def ok(self) -> bool:
-        """Every check passes (bearings, and the shaft checks when they were run)."""
-        return all(b.ok for b in self.bearings) and (self.checks is None or self.checks.ok)
-
-    def bearing(self, bearing_id: str) -> BearingResult:
-        """The result of one bearing."""
-        for b in self.bearings:
-            if b.bearing.id == bearing_id:
-                return b
-        raise KeyError(bearing_id)
-
-    def shaft(self, shaft_id: str) -> ShaftResult:
-        """The result of one shaft."""
-        for s in self.shafts:
-            if s.shaft.id == shaft_id:
-                return s
-        raise KeyError(shaft_id)
-
-    def loads_frame(self) -> pd.DataFrame:
-        """Bearing loads as a pandas DataFrame, one row per bearing and case."""
-        import pandas as pd
-
-        rows = []
-        for b in self.bearings:
-            for ld in b.loads:
-                rows.append({"bearing": b.bearing.id, "shaft": b.shaft_id,
-                             "x_mm": b.bearing.support_x_mm, **ld.__dict__})
-        return pd.DataFrame(rows)
-
-    def life_frame(self) -> pd.DataFrame:
-        """Bearing life verdicts as a pandas DataFrame, one row per bearing."""
-        import pandas as pd
-
-        rows = []
-        for b in self.bearings:
-            row: dict[str, Any] = {"bearing": b.bearing.id, "shaft": b.shaft_id,
-                                   "type": b.bearing.kind.value}
-            if b.life is not None:
-                row.update(b.life.to_dict())
-            rows.append(row)
-        return pd.DataFrame(rows)
-
-
-# ----------------------------------------------------------------------------- loads
-def shaft_speed(shaft: Shaft, case: Case, flow: CaseFlow | None = None) -> float:
-    """Signed speed [rpm] of ``shaft`` in ``case``."""
-    if flow is not None:
-        return flow.speed_rpm[shaft.id]
-    drive = case.drives.get(shaft.id)
-    return drive.speed_rpm if drive else 0.0
-
-
-def element_loads(model: Model, shaft: Shaft, case: Case, flow: CaseFlow | None = None
-                  ) -> tuple[list[AppliedLoad], list[str]]:
-    """Every load applied to ``shaft`` in ``case`` (without bearing reactions).
-
-    Single shafts: the input element applies the input torque, each output ``-share``
-    of it; other torque-carrying elements none. Machine models (``flow`` given): torques
-    come from the power flow and linked elements carry the link forces (and the loss
-    torque on the driven side). Returns the loads and the warnings (belt slip...).
-    """
-    speed = shaft_speed(shaft, case, flow)
-    torque: dict[str, float] = {}
-    linked: set[str] = set()
-    out: list[AppliedLoad] = []
-    warnings: list[str] = []
-    if flow is not None:
-        torque = dict(flow.element_torque_Nmm)
-        for act in flow.actions:
-            if act.shaft == shaft.id:
-                linked.add(act.element)
-                out.append(AppliedLoad(act.element if act.label == act.element else
-                                       f"{act.element} {act.label}", act.x_mm, act.force_N,
-                                       act.moment_Nmm, element=act.element))
-        if shaft is model.shafts[0]:
-            warnings.extend(flow.warnings)
-    else:
-        drive = case.drives.get(shaft.id)
-        if drive is not None and drive.input_element is not None:
-            torque[drive.input_element] = drive.input_torque_Nmm
-            for out_id, share in drive.outputs:
-                torque[out_id] = -share * drive.input_torque_Nmm
-    overrides = {ld.element: ld for ld in case.loads}
-    g = np.asarray(model.gravity_m_s2, dtype=float)
-    for el in shaft.elements:
-        if el.id not in linked:   # linked elements carry the link forces added above
-            axis = _element_axis_load(el, torque.get(el.id, 0.0), speed, overrides)
-            if axis is not None:
-                out.append(AppliedLoad(el.id, el.x_mm, _vec(axis.force_N),
-                                       _vec(axis.moment_Nmm), element=el.id))
-                warnings.extend(f"case '{case.id}', element '{el.id}': {w}"
-                                for w in axis.warnings)
-        if el.mass_kg > 0 and np.any(g):
-            w = L.weight_load(el.mass_kg, g)
-            out.append(AppliedLoad(f"{el.id} weight", el.x_mm, _vec(w.force_N),
-                                   _vec(w.moment_Nmm), element=el.id))
-    return out, warnings
-
-
-def _vec(a: Any) -> tuple[float, float, float]:
-    return (float(a[0]), float(a[1]), float(a[2]))
-
-
-def _element_axis_load(el: Element, torque_Nmm: float, speed_rpm: float,
-                       overrides: dict[str, Any]) -> L.AxisLoad | None:
-    if isinstance(el, Gear):
-        return L.spur_helical_mesh_load(torque_Nmm, el.pitch_diameter_mm, el.mesh_angle_deg,
-                                        el.normal_pressure_angle_deg, el.helix_angle_deg,
-                                        el.hand, el.internal)
-    if isinstance(el, BevelGear):
-        return L.bevel_mesh_load(torque_Nmm, el.mean_pitch_diameter_mm,
-                                 el.pitch_cone_angle_deg, el.pressure_angle_deg,
-                                 el.mesh_angle_deg, el.apex)
-    if isinstance(el, Pulley):
-        return L.belt_hub_load(torque_Nmm, el.diameter_mm, el.mesh_angle_deg,
-                               el.wrap_angle_deg, el.pretension_N, el.friction_coefficient,
-                               el.groove_angle_deg)
-    if isinstance(el, Sprocket):
-        return L.chain_hub_load(torque_Nmm, el.pitch_diameter_mm, el.mesh_angle_deg,
-                                el.wrap_angle_deg)
-    if isinstance(el, Coupling):
-        return L.coupling_load(torque_Nmm, el.radial_force_N, el.radial_angle_deg)
-    if isinstance(el, ProcessLoad):
-        ov = overrides.get(el.id)
-        force = ov.force_N if ov is not None else el.force_N
-        moment = ov.moment_Nmm if ov is not None else el.moment_Nmm
-        return L.AxisLoad(np.asarray(force, float), np.asarray(moment, float))
-    if isinstance(el, Unbalance):
-        if el.unbalance_gmm == 0.0 or speed_rpm == 0.0:
-            return None
-        # U [g*mm] = m [kg] * e [mm] * 1000: take e = 1 mm, m = U / 1000 kg.
-        return L.unbalance_load(el.unbalance_gmm / 1000.0, 1.0, speed_rpm, el.phase_deg)
-    if isinstance(el, LumpedMass):
-        return None
-    raise ValueError(f"unknown element type {type(el).__name__}")  # pragma: no cover
-
-
-# ----------------------------------------------------------------------------- meshing
 @dataclass(frozen=True, eq=False)
 class ShaftMesh:
     """A meshed shaft: the beam mesh and the node of every bearing and element."""
@@ -425,7 +128,6 @@ def mesh_shaft(shaft: Shaft, max_element_mm: float,
     )
 
 
-# ----------------------------------------------------------------------------- solve
 def shaft_groups(model: Model) -> list[list[str]]:
     """Shafts joined by bearings between them, as groups solved together (model order)."""
     parent = {s.id: s.id for s in model.shafts}
@@ -445,81 +147,30 @@ def shaft_groups(model: Model) -> list[list[str]]:
     return list(groups.values())
 
 
-def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = True
-            ) -> Result:
-    """Solve every shaft in every case and evaluate every bearing.
+@dataclass(frozen=True, eq=False)
+class SolvedModel:
+    """Every shaft solved in every case, before lives and shaft checks.
+
+    ``shafts`` and ``bearings`` carry the solutions and the bearing loads (no life yet);
+    ``flows`` the power flow of every case of a machine model (empty otherwise).
+    """
+
+    shafts: tuple[ShaftResult, ...]
+    bearings: tuple[BearingResult, ...]
+    warnings: tuple[str, ...]
+    flows: tuple[CaseFlow, ...]
+
+
+def solve_model(model: Model) -> SolvedModel:
+    """Loads, bending (factor once per shaft or coupled group), axial rule, torsion and
+    the equilibrium proof of every shaft in every case.
 
     Raises
     ------
-    ModelError: an input the solve reveals to be wrong (e.g. axial load on a needle
-        bearing).
+    ModelError: an input the solve reveals to be wrong (unbalanced torques...).
     NumericalError: a singular or ill-posed system, or an equilibrium residual above
         ``model.solver.residual_tolerance``.
     """
-    try:
-        return _analyse(model, with_life=with_life, with_shaft_checks=with_shaft_checks)
-    except ModelError as exc:
-        located = locate_error(exc, model)
-        if located is exc:
-            raise
-        raise located from exc
-
-
-#: Attribute names of the model's dataclasses -> keys of the model file (for messages).
-_FILE_KEYS = {
-    "C_N": "C", "C0_N": "C0", "Cu_N": "Cu", "limiting_speed_rpm": "limiting_speed",
-    "contact_angle_deg": "contact_angle", "x_mm": "at", "d_mm": "d", "D_mm": "D",
-    "B_mm": "B", "kind": "type", "pressure_centre_offset_mm": "pressure_centre_offset",
-    "radial_stiffness_N_mm": "radial_stiffness", "tilt_stiffness_Nmm_rad": "tilt_stiffness",
-    "target_life_h": "target_life", "target_reliability": "reliability",
-}
-_FIELD_OBJECT = re.compile(r"^(bearings|cases|links|elements|shafts)\[([^\]]*)\](?:\.(\w+))?")
-_CASE_NAMED = re.compile(r"case '([^']*)'")
-
-
-def locate_error(exc: ModelError, model: Model) -> ModelError:
-    """``exc`` with the model file, line and file field path added where it has none.
-
-    Errors of the numerical core name a field by object and attribute (e.g.
-    ``bearings[A].C_N``); this finds the object's line in the model file and writes the
-    path as the file spells it (``shafts[s1].bearings[A].C``). A section-level error
-    (``lubrication``, ``life``) that names a case gets the case's line. Returns ``exc``
-    itself when it is already located or the model has no source file.
-    """
-    if exc.file is not None or model.source is None:
-        return exc
-    field_path, line = exc.field, exc.line
-    found = _FIELD_OBJECT.match(field_path or "")
-    if found is not None:
-        what, ident, attr = found.groups()
-        key = f".{_FILE_KEYS.get(attr, attr)}" if attr else ""
-        for s in model.shafts:
-            owned: list[tuple[Any, str]] = [(s, "shafts"), *((b, "bearings") for b in
-                                                           s.bearings),
-                                            *((e, "elements") for e in s.elements)]
-            for obj, group in owned:
-                if group == what and obj.id == ident:
-                    line = obj.line if obj.line is not None else line
-                    field_path = (f"shafts[{s.id}]{key}" if group == "shafts" else
-                                  f"shafts[{s.id}].{group}[{ident}]{key}")
-        for c in model.cases:
-            if what == "cases" and c.id == ident and c.line is not None:
-                line = c.line
-        for k in model.links:
-            if what == "links" and k.id == ident and k.line is not None:
-                line = k.line
-    elif field_path == "links" and model.links and line is None:
-        line = model.links[0].line
-    if line is None:
-        named = _CASE_NAMED.search(exc.message)
-        case = next((c for c in model.cases if named and c.id == named.group(1)), None)
-        line = case.line if case is not None else None
-    return ModelError(exc.message, file=model.source, line=line, field=field_path,
-                      expected=exc.expected)
-
-
-def _analyse(model: Model, *, with_life: bool, with_shaft_checks: bool) -> Result:
-    """The body of :func:`analyse` (which adds file locations to its errors)."""
     shaft_results: list[ShaftResult] = []
     bearing_results: list[BearingResult] = []
     warnings: list[str] = []
@@ -568,18 +219,9 @@ def _analyse(model: Model, *, with_life: bool, with_shaft_checks: bool) -> Resul
         shaft_results.append(ShaftResult(shaft, tuple(cases), bending.condition))
         for b in shaft.bearings:
             bearing_results.append(BearingResult(shaft.id, b, tuple(per_bearing[b.id])))
-    result = Result(model, tuple(shaft_results), tuple(bearing_results),
-                    warnings=tuple(dict.fromkeys(warnings)),
-                    flows=tuple(f for f in flows if f is not None))
-    if with_life:
-        from shaftsys.life_check import attach_life
-
-        result = attach_life(result)
-    if with_shaft_checks:
-        from shaftsys.shaft_checks import check_shafts
-
-        result = replace(result, checks=check_shafts(result))
-    return result
+    return SolvedModel(tuple(shaft_results), tuple(bearing_results),
+                       tuple(dict.fromkeys(warnings)),
+                       tuple(f for f in flows if f is not None))
 
 
 def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
@@ -616,7 +258,7 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
         radial[b.id] = (ry, rz, my, mz)
     # --- axial arrangement rule: axial force each bearing puts on the shaft
     Ka = float(fx.sum())
-    axial_on_shaft, induced = axial_reactions(shaft, Ka, {
+    axial_on_shaft, induced = axial_reactions(shaft.bearings, Ka, {
         bid: math.hypot(r[0], r[1]) for bid, r in radial.items()})
     for b in shaft.bearings:
         fx[sm.bearing_nodes[b.id]] += axial_on_shaft[b.id]
@@ -714,72 +356,6 @@ def _torsion_reference_node(sm: ShaftMesh, drive: Any) -> int:
     return 0
 
 
-def induced_axial_force(b: Bearing, Fr_N: Any) -> Any:
-    """Axial force [N] a single-row angular-contact or tapered bearing induces under Fr.
-
-    ``Fr_N`` may be a number or an array (design studies evaluate many variants at once).
-    Tapered roller: 0.5*Fr/Y with the maker's Y (common practice). Angular-contact
-    ball: 1.32*Fr*tan(alpha) (half load zone, point contact; Harris, from memory).
-    Zero clearance and no preload are assumed.
-    """
-    if b.kind is BearingKind.TAPERED_ROLLER:
-        if not b.Y:
-            raise ModelError(f"bearing '{b.id}' needs the maker's Y for its induced "
-                             "axial force", line=b.line, field=f"bearings[{b.id}].Y")
-        return TRB_INDUCED_FACTOR * Fr_N / b.Y
-    if b.kind is BearingKind.ANGULAR_CONTACT_BALL:
-        alpha = math.radians(b.contact_angle_deg or 0.0)
-        return ACBB_INDUCED_FACTOR * Fr_N * math.tan(alpha)
-    return 0.0
-
-
-def axial_reactions(shaft: Shaft, Ka_N: Any, Fr_N: dict[str, Any]
-                    ) -> tuple[dict[str, Any], dict[str, Any]]:
-    """Axial force each bearing puts on the shaft [N] for a net external thrust Ka_N.
-
-    ``Ka_N`` and the radial loads may be numbers (one case) or arrays of one shape (many
-    cases or variants at once); the results have the same form.
-
-    Rules (the trade's, stated in DEVELOPERS.md):
-
-    * one locating bearing (``axial: both``) takes all thrust;
-    * cross-locating (one ``+x``, one ``-x`` bearing, no pair): the bearing that stops the
-      shaft moving in the thrust's direction takes it;
-    * adjusted pair (``pair``): with induced forces Fi of each bearing, bearing P
-      (``+x``) and N (``-x``): if Fi_N + Ka >= Fi_P then Fa_P = Fi_N + Ka, Fa_N = Fi_N,
-      else Fa_N = Fi_P - Ka, Fa_P = Fi_P.
-
-    Returns the axial force on the shaft of every bearing and the induced forces used.
-    """
-    on_shaft: dict[str, Any] = {b.id: 0.0 for b in shaft.bearings}
-    induced: dict[str, Any] = {}
-    both = [b for b in shaft.bearings if b.axial is AxialRole.BOTH]
-    if both:
-        on_shaft[both[0].id] = -Ka_N
-        return on_shaft, induced
-    plus = next(b for b in shaft.bearings if b.axial is AxialRole.PLUS_X)
-    minus = next(b for b in shaft.bearings if b.axial is AxialRole.MINUS_X)
-    if plus.pair is None:
-        on_shaft[plus.id] = _where(Ka_N >= 0, -Ka_N, 0.0)
-        on_shaft[minus.id] = _where(Ka_N >= 0, 0.0, -Ka_N)
-        return on_shaft, induced
-    fi_p = induced_axial_force(plus, Fr_N[plus.id])
-    fi_n = induced_axial_force(minus, Fr_N[minus.id])
-    induced = {plus.id: fi_p, minus.id: fi_n}
-    first = fi_n + Ka_N >= fi_p
-    fa_p = _where(first, fi_n + Ka_N, fi_p)
-    fa_n = _where(first, fi_n, fi_p - Ka_N)
-    on_shaft[plus.id] = -fa_p   # P stops +x motion: pushes the shaft toward -x
-    on_shaft[minus.id] = fa_n
-    return on_shaft, induced
-
-
-def _where(condition: Any, a: Any, b: Any) -> Any:
-    """``np.where`` that gives a plain float for scalar arguments."""
-    out = np.where(condition, a, b)
-    return float(out) if out.ndim == 0 else out
-
-
 def shaft_weight_loads(model: Model, shaft: Shaft) -> list[AppliedLoad]:
     """The shaft's own weight, one resultant per step at the step's centroid.
 
@@ -795,7 +371,7 @@ def shaft_weight_loads(model: Model, shaft: Shaft) -> list[AppliedLoad]:
         area = math.pi / 4.0 * (step.d_mm**2 - step.bore_mm**2)
         mass = rho * area * step.length_mm
         out.append(AppliedLoad("shaft weight", x0 + step.length_mm / 2,
-                               _vec(mass * g), (0.0, 0.0, 0.0)))
+                               vec3(mass * g), (0.0, 0.0, 0.0)))
     return out
 
 

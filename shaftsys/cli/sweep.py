@@ -77,7 +77,7 @@ def run_sweep(args: argparse.Namespace) -> int:
     """Run the ``sweep`` command; returns the exit code (0 ran, 2 bad input, 3 failed)."""
     from shaftsys.io.loader import load_model
     from shaftsys.study.runner import run_study
-    from shaftsys.study.spec import parse_limit_option, read_study_section, study_from_section
+    from shaftsys.study.section import parse_limit_option, read_study_section, study_from_section
 
     logging.getLogger("shaftsys.bearings").setLevel(logging.ERROR)
     try:

@@ -60,17 +60,26 @@ from __future__ import annotations
 
 import logging
 import math
-from collections.abc import Mapping
-from dataclasses import dataclass, field
-from typing import Any
+from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import NDArray
 
-from shaftsys.analysis import CaseSolution, Result, ShaftResult, mesh_shaft
+from shaftsys.analysis.check_results import (
+    DEFAULT_CRITICAL_SPEED_MARGIN,
+    DEFAULT_GEAR_DEFLECTION_LIMIT_MM,
+    DEFAULT_REQUIRED_FATIGUE_SAFETY,
+    DEFAULT_REQUIRED_YIELD_SAFETY,
+    CaseDeflection,
+    DeflectionCheck,
+    SectionCheck,
+    ShaftCheck,
+    ShaftChecks,
+    ShaftCheckSettings,
+)
+from shaftsys.analysis.results import CaseSolution, Result, ShaftResult
+from shaftsys.analysis.solve import mesh_shaft
 from shaftsys.checks import (
-    SPUR_GEAR_SLOPE_LIMIT_RAD,
-    FatigueCriterion,
     Feature,
     LoadClasses,
     SectionCaseLoads,
@@ -103,270 +112,20 @@ from shaftsys.model import (
 log = logging.getLogger(__name__)
 
 _CP = "common practice, no source"
-#: Gear deflection limit when no module is known [mm] (common practice, no source).
-DEFAULT_GEAR_DEFLECTION_LIMIT_MM = 0.13
 #: Sharp-shoulder fillet r/d assumed when no fillet is given (Shigley Table 7-1, from memory).
 SHARP_FILLET_R_OVER_D = 0.02
-#: Critical speed margin (common practice, no source).
-DEFAULT_CRITICAL_SPEED_MARGIN = 1.25
-#: Required safety factors (common practice, no source).
-DEFAULT_REQUIRED_FATIGUE_SAFETY = 1.5
-DEFAULT_REQUIRED_YIELD_SAFETY = 1.2
 #: Temperature used for kd when no case gives one [degC].
 ROOM_TEMPERATURE_C = 20.0
 #: Stations closer than this are the same section [mm].
 _STATION_TOL_MM = 1e-6
-
 _SURFACE = {"forged": "as_forged"}
 _KEYWAY = {"profile": Feature.KEYSEAT_END_MILL, "sled_runner": Feature.KEYSEAT_SLED_RUNNER}
 _SEAT_TYPES = (Gear, BevelGear, Pulley, Sprocket, Coupling, LumpedMass)
-_FATIGUE_CASES = ("duty_and_peak", "duty")
 
-
-# ----------------------------------------------------------------------------- settings
-@dataclass(frozen=True)
-class ShaftCheckSettings:
-    """Options of :func:`check_shafts`.
-
-    Attributes
-    ----------
-    bearing_slope_limits_rad: bearing id -> allowable slope [rad], replacing the
-        common-practice range of its type.
-    gear_slope_limit_rad: allowable slope at a gear [rad] (Shigley Table 7-2, uncrowned
-        spur gears, from memory).
-    default_gear_deflection_limit_mm: allowable gear deflection when no module is given
-        [mm] (common practice, no source).
-    critical_speed_margin: first critical >= margin x max speed (or <= max speed / margin)
-        [-] (common practice, no source).
-    criterion: ``"goodman"`` (DE-Goodman) or ``"asme_elliptic"`` (DE-ASME elliptic).
-    fluctuation_rule: ``"reversal"`` or ``"range"`` (see ``classify_section_loads``).
-    fatigue_cases: ``"duty"`` (default: peak and static cases feed the strength (yield)
-        check only, as the model file defines them) or ``"duty_and_peak"`` (an envelope).
-    required_fatigue_safety, required_yield_safety: required safety factors [-]
-        (common practice, no source).
-    rotary_inertia: include the shaft's distributed rotary inertia rho*I in the bending modes.
-    max_element_mm: element length for the modal mesh [mm] (``None`` = the model's solver
-        setting).
-    """
-
-    bearing_slope_limits_rad: Mapping[str, float] = field(default_factory=dict)
-    gear_slope_limit_rad: float = SPUR_GEAR_SLOPE_LIMIT_RAD
-    default_gear_deflection_limit_mm: float = DEFAULT_GEAR_DEFLECTION_LIMIT_MM
-    critical_speed_margin: float = DEFAULT_CRITICAL_SPEED_MARGIN
-    criterion: str = "goodman"
-    fluctuation_rule: str = "reversal"
-    fatigue_cases: str = "duty"
-    required_fatigue_safety: float = DEFAULT_REQUIRED_FATIGUE_SAFETY
-    required_yield_safety: float = DEFAULT_REQUIRED_YIELD_SAFETY
-    rotary_inertia: bool = False
-    max_element_mm: float | None = None
-
-    def __post_init__(self) -> None:
-        if self.criterion not in (FatigueCriterion.GOODMAN, FatigueCriterion.ASME_ELLIPTIC):
-            raise ValueError(f"unknown fatigue criterion {self.criterion!r}; "
-                             "expected 'goodman' or 'asme_elliptic'")
-        if self.fatigue_cases not in _FATIGUE_CASES:
-            raise ValueError(f"unknown fatigue_cases {self.fatigue_cases!r}; "
-                             f"expected one of {_FATIGUE_CASES}")
-        if not self.critical_speed_margin >= 1.0:
-            raise ValueError(f"critical_speed_margin = {self.critical_speed_margin!r}; "
-                             "expected >= 1")
-        for name in ("gear_slope_limit_rad", "default_gear_deflection_limit_mm",
-                     "required_fatigue_safety", "required_yield_safety"):
-            v = getattr(self, name)
-            if not (math.isfinite(v) and v > 0.0):
-                raise ValueError(f"{name} = {v!r}; expected a positive number")
-        for bid, v in self.bearing_slope_limits_rad.items():
-            if not (math.isfinite(v) and v > 0.0):
-                raise ValueError(f"slope limit of bearing {bid!r} = {v!r}; expected > 0 rad")
-
-
-# ----------------------------------------------------------------------------- results
-@dataclass(frozen=True)
-class CaseDeflection:
-    """Deflection [mm] and slope [rad] at one station in one case."""
-
-    case: str
-    deflection_mm: float
-    slope_rad: float
-    status: str
-
-    def to_dict(self) -> dict[str, Any]:
-        """JSON-ready values."""
-        return {"case": self.case, "deflection_mm": self.deflection_mm,
-                "slope_rad": self.slope_rad, "status": self.status}
-
-
-@dataclass(frozen=True)
-class DeflectionCheck:
-    """Slope (and for gears deflection) check of one bearing or gear.
-
-    Attributes
-    ----------
-    id: bearing or element id.
-    shaft: shaft id.
-    kind: ``"bearing"`` or ``"gear"``.
-    x_mm: station [mm].
-    slope_limit_rad: allowable slope [rad] (the high end of a typical range).
-    slope_limit_low_rad: low end of the typical range [rad] (= the limit when overridden).
-    deflection_limit_mm: allowable deflection [mm] (gears) or ``None``.
-    source: where the limits come from.
-    cases: per-case deflection and slope.
-    ok: no case exceeds a limit.
-    """
-
-    id: str
-    shaft: str
-    kind: str
-    x_mm: float
-    slope_limit_rad: float
-    slope_limit_low_rad: float
-    deflection_limit_mm: float | None
-    source: str
-    cases: tuple[CaseDeflection, ...]
-    ok: bool
-
-    def to_dict(self) -> dict[str, Any]:
-        """JSON-ready values."""
-        return {"id": self.id, "shaft": self.shaft, "x_mm": self.x_mm,
-                "slope_limit_rad": self.slope_limit_rad,
-                "slope_limit_low_rad": self.slope_limit_low_rad,
-                "deflection_limit_mm": self.deflection_limit_mm, "source": self.source,
-                "cases": [c.to_dict() for c in self.cases], "ok": self.ok}
-
-
-@dataclass(frozen=True)
-class SectionCheck:
-    """Fatigue and yield result of one section (stresses in MPa, Kf applied).
-
-    Attributes
-    ----------
-    x_mm: station [mm]. feature: the stress raiser. d_mm: section diameter [mm].
-    D_mm, r_mm: shoulder large diameter and fillet radius [mm] (``None`` elsewhere).
-    Kt, Kts, Kf, Kfs: notch factors [-]. Se_MPa: corrected endurance limit [MPa].
-    sigma_a_MPa, sigma_m_MPa: von Mises alternating and mean stress [MPa].
-    n_fatigue: by the settings' criterion [-]. n_yield: first-cycle yield [-].
-    ok: both at least the required values. notes: assumptions and range clamps.
-    """
-
-    x_mm: float
-    feature: str
-    d_mm: float
-    D_mm: float | None
-    r_mm: float | None
-    Kt: float
-    Kts: float
-    Kf: float
-    Kfs: float
-    Se_MPa: float
-    sigma_a_MPa: float
-    sigma_m_MPa: float
-    n_fatigue: float
-    n_yield: float
-    ok: bool
-    notes: tuple[str, ...] = ()
-
-    def to_dict(self) -> dict[str, Any]:
-        """JSON-ready values (infinite safety factors as ``None``)."""
-        return {"x_mm": self.x_mm, "feature": self.feature, "d_mm": self.d_mm,
-                "D_mm": self.D_mm, "r_mm": self.r_mm, "Kt": self.Kt, "Kts": self.Kts,
-                "Kf": self.Kf, "Kfs": self.Kfs, "Se_MPa": self.Se_MPa,
-                "sigma_a_MPa": self.sigma_a_MPa, "sigma_m_MPa": self.sigma_m_MPa,
-                "n_fatigue": _finite(self.n_fatigue), "n_yield": _finite(self.n_yield),
-                "ok": self.ok, "notes": list(self.notes)}
-
-
-@dataclass(frozen=True)
-class ShaftCheck:
-    """Critical speeds and fatigue of one shaft.
-
-    Attributes
-    ----------
-    id: shaft id.
-    first_critical_rpm: first bending natural frequency as a speed [rpm] (60 f).
-    first_torsional_rpm: first non-zero torsional natural frequency [rpm] (60 f).
-    max_speed_rpm: largest |speed| of the duty and peak cases [rpm].
-    critical_speed_ok: the margin rule holds (supercritical designs pass with a note).
-    supercritical: the shaft runs above its first bending critical.
-    sections: fatigue sections (empty when fatigue was skipped).
-    min_fatigue_safety, min_yield_safety: smallest over the sections [-] (``inf`` if none).
-    fatigue_ok: every section meets both required safety factors.
-    notes: notes and warnings for the designer.
-    """
-
-    id: str
-    first_critical_rpm: float
-    first_torsional_rpm: float
-    max_speed_rpm: float
-    critical_speed_ok: bool
-    supercritical: bool
-    sections: tuple[SectionCheck, ...]
-    min_fatigue_safety: float
-    min_yield_safety: float
-    fatigue_ok: bool
-    notes: tuple[str, ...]
-
-    @property
-    def ok(self) -> bool:
-        """Critical speed and fatigue checks pass."""
-        return self.critical_speed_ok and self.fatigue_ok
-
-    def to_dict(self) -> dict[str, Any]:
-        """JSON-ready values (infinite values as ``None``)."""
-        return {"id": self.id, "first_critical_rpm": _finite(self.first_critical_rpm),
-                "first_torsional_rpm": _finite(self.first_torsional_rpm),
-                "max_speed_rpm": self.max_speed_rpm,
-                "min_fatigue_safety": _finite(self.min_fatigue_safety),
-                "min_yield_safety": _finite(self.min_yield_safety),
-                "critical_speed_ok": self.critical_speed_ok,
-                "supercritical": self.supercritical, "fatigue_ok": self.fatigue_ok,
-                "sections": [s.to_dict() for s in self.sections], "notes": list(self.notes)}
-
-
-@dataclass(frozen=True)
-class ShaftChecks:
-    """All shaft checks of a solved model."""
-
-    shafts: tuple[ShaftCheck, ...]
-    bearings: tuple[DeflectionCheck, ...]
-    gears: tuple[DeflectionCheck, ...]
-    settings: ShaftCheckSettings
-
-    @property
-    def ok(self) -> bool:
-        """Every slope, deflection, critical speed and fatigue check passes."""
-        return (all(s.ok for s in self.shafts) and all(b.ok for b in self.bearings)
-                and all(g.ok for g in self.gears))
-
-    def shaft(self, shaft_id: str) -> ShaftCheck:
-        """The check of one shaft."""
-        for s in self.shafts:
-            if s.id == shaft_id:
-                return s
-        raise KeyError(shaft_id)
-
-    def to_dict(self) -> dict[str, Any]:
-        """JSON-ready dictionary: ``{"ok", "shafts", "bearings", "gears", "settings"}``."""
-        st = self.settings
-        return {
-            "ok": self.ok,
-            "shafts": [s.to_dict() for s in self.shafts],
-            "bearings": [b.to_dict() for b in self.bearings],
-            "gears": [g.to_dict() for g in self.gears],
-            "settings": {"criterion": st.criterion, "fluctuation_rule": st.fluctuation_rule,
-                         "fatigue_cases": st.fatigue_cases,
-                         "critical_speed_margin": st.critical_speed_margin,
-                         "required_fatigue_safety": st.required_fatigue_safety,
-                         "required_yield_safety": st.required_yield_safety},
-        }
-
-    def table(self) -> str:
-        """Plain-text tables: slopes/deflections, critical speeds, fatigue sections."""
-        return _table(self)
-
-
-def _finite(v: float) -> float | None:
-    return float(v) if math.isfinite(v) else None
+__all__ = ["DEFAULT_CRITICAL_SPEED_MARGIN", "DEFAULT_GEAR_DEFLECTION_LIMIT_MM",
+           "DEFAULT_REQUIRED_FATIGUE_SAFETY", "DEFAULT_REQUIRED_YIELD_SAFETY",
+           "CaseDeflection", "DeflectionCheck", "SectionCheck", "ShaftCheck", "ShaftCheckSettings",
+           "ShaftChecks", "check_shaft_results", "check_shafts", "critical_speeds_rpm"]
 
 
 # ----------------------------------------------------------------------------- entry
@@ -391,8 +150,15 @@ def check_shafts(result: Result, settings: ShaftCheckSettings | None = None) -> 
     NumericalError
         The eigenvalue problem is ill-posed (massless degrees of freedom).
     """
+    return check_shaft_results(result.model, result.shafts, settings)
+
+
+def check_shaft_results(model: Model, solved: tuple[ShaftResult, ...],
+                        settings: ShaftCheckSettings | None = None) -> ShaftChecks:
+    """:func:`check_shafts` of solved shafts (what the pipeline calls before the
+    :class:`~shaftsys.analysis.results.Result` exists).
+    """
     st = settings or ShaftCheckSettings()
-    model = result.model
     known = {b.id for _, b in model.bearings()}
     unknown = sorted(set(st.bearing_slope_limits_rad) - known)
     if unknown:
@@ -401,7 +167,7 @@ def check_shafts(result: Result, settings: ShaftCheckSettings | None = None) -> 
     bearings: list[DeflectionCheck] = []
     gears: list[DeflectionCheck] = []
     shafts: list[ShaftCheck] = []
-    for sr in result.shafts:
+    for sr in solved:
         bearings.extend(_bearing_checks(sr, st))
         gears.extend(_gear_checks(sr, st))
         shafts.append(_shaft_check(model, sr, st))
@@ -708,58 +474,3 @@ def _section_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings, sec: _
         Kt=notch.Kt, Kts=notch.Kts, Kf=notch.Kf, Kfs=notch.Kfs, Se_MPa=marin.Se_MPa,
         sigma_a_MPa=chk.stresses.sigma_vm_a_MPa, sigma_m_MPa=chk.stresses.sigma_vm_m_MPa,
         n_fatigue=chk.n_fatigue, n_yield=n_y, ok=ok, notes=notes)
-
-
-# ----------------------------------------------------------------------------- table
-def _fmt(v: float | None, spec: str) -> str:
-    if v is None:
-        return "-"
-    if not math.isfinite(v):
-        return "inf"
-    return format(v, spec)
-
-
-def _table(sc: ShaftChecks) -> str:
-    lines = ["Slopes and deflections (worst case)",
-             f"{'shaft':<10} {'what':<8} {'id':<14} {'x mm':>8} {'defl mm':>9} "
-             f"{'lim mm':>7} {'slope rad':>10} {'lim rad':>9} {'case':<12} verdict"]
-    for c in (*sc.bearings, *sc.gears):
-        worst = max(c.cases, key=lambda k: k.slope_rad / c.slope_limit_rad + (
-            k.deflection_mm / c.deflection_limit_mm if c.deflection_limit_mm else 0.0),
-            default=None)
-        if worst is None:
-            continue
-        verdict = "ok" if c.ok else "EXCEEDED"
-        if c.ok and any(k.status == "marginal" for k in c.cases):
-            verdict = "marginal"
-        lines.append(f"{c.shaft:<10} {c.kind:<8} {c.id:<14} {c.x_mm:>8.1f} "
-                     f"{worst.deflection_mm:>9.4f} {_fmt(c.deflection_limit_mm, '7.3f'):>7} "
-                     f"{worst.slope_rad:>10.2e} {c.slope_limit_rad:>9.2e} {worst.case:<12} "
-                     f"{verdict}")
-    lines += ["", "Critical speeds (non-rotating shaft, no gyroscopic effects)",
-              f"{'shaft':<10} {'bending rpm':>12} {'torsion rpm':>12} {'max rpm':>9} "
-              f"{'ratio':>7} verdict"]
-    for s in sc.shafts:
-        ratio = s.first_critical_rpm / s.max_speed_rpm if s.max_speed_rpm > 0 else math.inf
-        verdict = ("supercritical" if s.supercritical else "ok") if s.critical_speed_ok \
-            else "TOO CLOSE"
-        lines.append(f"{s.id:<10} {_fmt(s.first_critical_rpm, '12.0f'):>12} "
-                     f"{_fmt(s.first_torsional_rpm, '12.0f'):>12} {s.max_speed_rpm:>9.0f} "
-                     f"{_fmt(ratio, '7.2f'):>7} {verdict}")
-    lines += ["", "Fatigue sections",
-              f"{'shaft':<10} {'x mm':>8} {'feature':<20} {'d mm':>6} {'Kt':>5} {'Kf':>5} "
-              f"{'Kfs':>5} {'Se MPa':>7} {'sa MPa':>7} {'sm MPa':>7} {'n_f':>6} {'n_y':>6} "
-              "verdict"]
-    for s in sc.shafts:
-        if not s.sections:
-            lines.append(f"{s.id:<10} (no fatigue sections: see notes)")
-        for x in s.sections:
-            lines.append(f"{s.id:<10} {x.x_mm:>8.1f} {x.feature:<20} {x.d_mm:>6.1f} "
-                         f"{x.Kt:>5.2f} {x.Kf:>5.2f} {x.Kfs:>5.2f} {x.Se_MPa:>7.1f} "
-                         f"{x.sigma_a_MPa:>7.1f} {x.sigma_m_MPa:>7.1f} "
-                         f"{_fmt(x.n_fatigue, '6.2f'):>6} {_fmt(x.n_yield, '6.2f'):>6} "
-                         f"{'ok' if x.ok else 'LOW'}")
-    notes = [f"{s.id}: {n}" for s in sc.shafts for n in s.notes]
-    if notes:
-        lines += ["", "Notes", *notes]
-    return "\n".join(lines)

@@ -1,0 +1,267 @@
+"""Result types of the shaft checks (settings, slopes and deflections, critical speeds,
+fatigue sections). Units: mm, rad, rpm, MPa, N*mm.
+
+They are values: :func:`shaftsys.analysis.shaft_checks.check_shafts` builds them, the
+report and the JSON writer read them.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping
+from dataclasses import dataclass, field
+from typing import Any
+
+from shaftsys.checks import SPUR_GEAR_SLOPE_LIMIT_RAD, FatigueCriterion
+
+#: Gear deflection limit when no module is known [mm] (common practice, no source).
+DEFAULT_GEAR_DEFLECTION_LIMIT_MM = 0.13
+#: Critical speed margin (common practice, no source).
+DEFAULT_CRITICAL_SPEED_MARGIN = 1.25
+#: Required safety factors (common practice, no source).
+DEFAULT_REQUIRED_FATIGUE_SAFETY = 1.5
+DEFAULT_REQUIRED_YIELD_SAFETY = 1.2
+_FATIGUE_CASES = ("duty_and_peak", "duty")
+
+# ----------------------------------------------------------------------------- settings
+@dataclass(frozen=True)
+class ShaftCheckSettings:
+    """Options of :func:`check_shafts`.
+
+    Attributes
+    ----------
+    bearing_slope_limits_rad: bearing id -> allowable slope [rad], replacing the
+        common-practice range of its type.
+    gear_slope_limit_rad: allowable slope at a gear [rad] (Shigley Table 7-2, uncrowned
+        spur gears, from memory).
+    default_gear_deflection_limit_mm: allowable gear deflection when no module is given
+        [mm] (common practice, no source).
+    critical_speed_margin: first critical >= margin x max speed (or <= max speed / margin)
+        [-] (common practice, no source).
+    criterion: ``"goodman"`` (DE-Goodman) or ``"asme_elliptic"`` (DE-ASME elliptic).
+    fluctuation_rule: ``"reversal"`` or ``"range"`` (see ``classify_section_loads``).
+    fatigue_cases: ``"duty"`` (default: peak and static cases feed the strength (yield)
+        check only, as the model file defines them) or ``"duty_and_peak"`` (an envelope).
+    required_fatigue_safety, required_yield_safety: required safety factors [-]
+        (common practice, no source).
+    rotary_inertia: include the shaft's distributed rotary inertia rho*I in the bending modes.
+    max_element_mm: element length for the modal mesh [mm] (``None`` = the model's solver
+        setting).
+    """
+
+    bearing_slope_limits_rad: Mapping[str, float] = field(default_factory=dict)
+    gear_slope_limit_rad: float = SPUR_GEAR_SLOPE_LIMIT_RAD
+    default_gear_deflection_limit_mm: float = DEFAULT_GEAR_DEFLECTION_LIMIT_MM
+    critical_speed_margin: float = DEFAULT_CRITICAL_SPEED_MARGIN
+    criterion: str = "goodman"
+    fluctuation_rule: str = "reversal"
+    fatigue_cases: str = "duty"
+    required_fatigue_safety: float = DEFAULT_REQUIRED_FATIGUE_SAFETY
+    required_yield_safety: float = DEFAULT_REQUIRED_YIELD_SAFETY
+    rotary_inertia: bool = False
+    max_element_mm: float | None = None
+
+    def __post_init__(self) -> None:
+        if self.criterion not in (FatigueCriterion.GOODMAN, FatigueCriterion.ASME_ELLIPTIC):
+            raise ValueError(f"unknown fatigue criterion {self.criterion!r}; "
+                             "expected 'goodman' or 'asme_elliptic'")
+        if self.fatigue_cases not in _FATIGUE_CASES:
+            raise ValueError(f"unknown fatigue_cases {self.fatigue_cases!r}; "
+                             f"expected one of {_FATIGUE_CASES}")
+        if not self.critical_speed_margin >= 1.0:
+            raise ValueError(f"critical_speed_margin = {self.critical_speed_margin!r}; "
+                             "expected >= 1")
+        for name in ("gear_slope_limit_rad", "default_gear_deflection_limit_mm",
+                     "required_fatigue_safety", "required_yield_safety"):
+            v = getattr(self, name)
+            if not (math.isfinite(v) and v > 0.0):
+                raise ValueError(f"{name} = {v!r}; expected a positive number")
+        for bid, v in self.bearing_slope_limits_rad.items():
+            if not (math.isfinite(v) and v > 0.0):
+                raise ValueError(f"slope limit of bearing {bid!r} = {v!r}; expected > 0 rad")
+
+
+# ----------------------------------------------------------------------------- results
+@dataclass(frozen=True)
+class CaseDeflection:
+    """Deflection [mm] and slope [rad] at one station in one case."""
+
+    case: str
+    deflection_mm: float
+    slope_rad: float
+    status: str
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready values."""
+        return {"case": self.case, "deflection_mm": self.deflection_mm,
+                "slope_rad": self.slope_rad, "status": self.status}
+
+
+@dataclass(frozen=True)
+class DeflectionCheck:
+    """Slope (and for gears deflection) check of one bearing or gear.
+
+    Attributes
+    ----------
+    id: bearing or element id.
+    shaft: shaft id.
+    kind: ``"bearing"`` or ``"gear"``.
+    x_mm: station [mm].
+    slope_limit_rad: allowable slope [rad] (the high end of a typical range).
+    slope_limit_low_rad: low end of the typical range [rad] (= the limit when overridden).
+    deflection_limit_mm: allowable deflection [mm] (gears) or ``None``.
+    source: where the limits come from.
+    cases: per-case deflection and slope.
+    ok: no case exceeds a limit.
+    """
+
+    id: str
+    shaft: str
+    kind: str
+    x_mm: float
+    slope_limit_rad: float
+    slope_limit_low_rad: float
+    deflection_limit_mm: float | None
+    source: str
+    cases: tuple[CaseDeflection, ...]
+    ok: bool
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready values."""
+        return {"id": self.id, "shaft": self.shaft, "x_mm": self.x_mm,
+                "slope_limit_rad": self.slope_limit_rad,
+                "slope_limit_low_rad": self.slope_limit_low_rad,
+                "deflection_limit_mm": self.deflection_limit_mm, "source": self.source,
+                "cases": [c.to_dict() for c in self.cases], "ok": self.ok}
+
+
+@dataclass(frozen=True)
+class SectionCheck:
+    """Fatigue and yield result of one section (stresses in MPa, Kf applied).
+
+    Attributes
+    ----------
+    x_mm: station [mm]. feature: the stress raiser. d_mm: section diameter [mm].
+    D_mm, r_mm: shoulder large diameter and fillet radius [mm] (``None`` elsewhere).
+    Kt, Kts, Kf, Kfs: notch factors [-]. Se_MPa: corrected endurance limit [MPa].
+    sigma_a_MPa, sigma_m_MPa: von Mises alternating and mean stress [MPa].
+    n_fatigue: by the settings' criterion [-]. n_yield: first-cycle yield [-].
+    ok: both at least the required values. notes: assumptions and range clamps.
+    """
+
+    x_mm: float
+    feature: str
+    d_mm: float
+    D_mm: float | None
+    r_mm: float | None
+    Kt: float
+    Kts: float
+    Kf: float
+    Kfs: float
+    Se_MPa: float
+    sigma_a_MPa: float
+    sigma_m_MPa: float
+    n_fatigue: float
+    n_yield: float
+    ok: bool
+    notes: tuple[str, ...] = ()
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready values (infinite safety factors as ``None``)."""
+        return {"x_mm": self.x_mm, "feature": self.feature, "d_mm": self.d_mm,
+                "D_mm": self.D_mm, "r_mm": self.r_mm, "Kt": self.Kt, "Kts": self.Kts,
+                "Kf": self.Kf, "Kfs": self.Kfs, "Se_MPa": self.Se_MPa,
+                "sigma_a_MPa": self.sigma_a_MPa, "sigma_m_MPa": self.sigma_m_MPa,
+                "n_fatigue": _finite(self.n_fatigue), "n_yield": _finite(self.n_yield),
+                "ok": self.ok, "notes": list(self.notes)}
+
+
+@dataclass(frozen=True)
+class ShaftCheck:
+    """Critical speeds and fatigue of one shaft.
+
+    Attributes
+    ----------
+    id: shaft id.
+    first_critical_rpm: first bending natural frequency as a speed [rpm] (60 f).
+    first_torsional_rpm: first non-zero torsional natural frequency [rpm] (60 f).
+    max_speed_rpm: largest |speed| of the duty and peak cases [rpm].
+    critical_speed_ok: the margin rule holds (supercritical designs pass with a note).
+    supercritical: the shaft runs above its first bending critical.
+    sections: fatigue sections (empty when fatigue was skipped).
+    min_fatigue_safety, min_yield_safety: smallest over the sections [-] (``inf`` if none).
+    fatigue_ok: every section meets both required safety factors.
+    notes: notes and warnings for the designer.
+    """
+
+    id: str
+    first_critical_rpm: float
+    first_torsional_rpm: float
+    max_speed_rpm: float
+    critical_speed_ok: bool
+    supercritical: bool
+    sections: tuple[SectionCheck, ...]
+    min_fatigue_safety: float
+    min_yield_safety: float
+    fatigue_ok: bool
+    notes: tuple[str, ...]
+
+    @property
+    def ok(self) -> bool:
+        """Critical speed and fatigue checks pass."""
+        return self.critical_speed_ok and self.fatigue_ok
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready values (infinite values as ``None``)."""
+        return {"id": self.id, "first_critical_rpm": _finite(self.first_critical_rpm),
+                "first_torsional_rpm": _finite(self.first_torsional_rpm),
+                "max_speed_rpm": self.max_speed_rpm,
+                "min_fatigue_safety": _finite(self.min_fatigue_safety),
+                "min_yield_safety": _finite(self.min_yield_safety),
+                "critical_speed_ok": self.critical_speed_ok,
+                "supercritical": self.supercritical, "fatigue_ok": self.fatigue_ok,
+                "sections": [s.to_dict() for s in self.sections], "notes": list(self.notes)}
+
+
+@dataclass(frozen=True)
+class ShaftChecks:
+    """All shaft checks of a solved model."""
+
+    shafts: tuple[ShaftCheck, ...]
+    bearings: tuple[DeflectionCheck, ...]
+    gears: tuple[DeflectionCheck, ...]
+    settings: ShaftCheckSettings
+
+    @property
+    def ok(self) -> bool:
+        """Every slope, deflection, critical speed and fatigue check passes."""
+        return (all(s.ok for s in self.shafts) and all(b.ok for b in self.bearings)
+                and all(g.ok for g in self.gears))
+
+    def shaft(self, shaft_id: str) -> ShaftCheck:
+        """The check of one shaft."""
+        for s in self.shafts:
+            if s.id == shaft_id:
+                return s
+        raise KeyError(shaft_id)
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready dictionary: ``{"ok", "shafts", "bearings", "gears", "settings"}``."""
+        st = self.settings
+        return {
+            "ok": self.ok,
+            "shafts": [s.to_dict() for s in self.shafts],
+            "bearings": [b.to_dict() for b in self.bearings],
+            "gears": [g.to_dict() for g in self.gears],
+            "settings": {"criterion": st.criterion, "fluctuation_rule": st.fluctuation_rule,
+                         "fatigue_cases": st.fatigue_cases,
+                         "critical_speed_margin": st.critical_speed_margin,
+                         "required_fatigue_safety": st.required_fatigue_safety,
+                         "required_yield_safety": st.required_yield_safety},
+        }
+
+
+def _finite(v: float) -> float | None:
+    return float(v) if math.isfinite(v) else None
+
+

@@ -1,0 +1,49 @@
+"""The pipeline: model -> solve -> lives -> shaft checks -> one complete :class:`Result`.
+
+``analyse(model)`` is the one entry point of a single run; design studies compose the
+same pieces vectorised over variants (:mod:`shaftsys.study`). Nothing is written back
+onto the model and the result is built once, complete: what was not evaluated is
+``None`` and its verdict says so (never a pass).
+"""
+
+from __future__ import annotations
+
+from shaftsys.analysis.life import evaluate_lives
+from shaftsys.analysis.results import Result
+from shaftsys.analysis.shaft_checks import check_shaft_results
+from shaftsys.analysis.solve import solve_model
+from shaftsys.model import Model
+
+
+def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = True
+            ) -> Result:
+    """Solve every shaft in every case, evaluate every bearing and check every shaft.
+
+    ``with_life=False`` leaves every bearing's life ``None`` (verdict "not evaluated");
+    ``with_shaft_checks=False`` leaves ``Result.checks`` ``None`` (likewise).
+
+    Errors name the object and attribute of the model (``bearings[A].C_N``); the model
+    file's line and key are added by :func:`shaftsys.io.locate.locate_error` (which
+    :func:`shaftsys.analyse` and the command line apply).
+
+    Raises
+    ------
+    ModelError: an input the solve reveals to be wrong (e.g. axial load on a needle
+        bearing).
+    NumericalError: a singular or ill-posed system, or an equilibrium residual above
+        ``model.solver.residual_tolerance``.
+    """
+    solved = solve_model(model)
+    shafts = solved.shafts
+    bearings = solved.bearings
+    system_life_h: float | None = None
+    limiting: str | None = None
+    if with_life:
+        lives = evaluate_lives(model, bearings)
+        bearings = lives.bearings
+        system_life_h, limiting = lives.system_life_h, lives.limiting_bearing
+        shafts = tuple(s.with_system_life(*lives.shaft_system[s.shaft.id]) for s in shafts)
+    checks = check_shaft_results(model, shafts) if with_shaft_checks else None
+    return Result(model=model, shafts=shafts, bearings=bearings,
+                  system_life_h=system_life_h, limiting_bearing=limiting,
+                  warnings=solved.warnings, checks=checks, flows=solved.flows)

@@ -1,0 +1,247 @@
+"""Result types of an analysis: complete values, built once by the pipeline.
+
+Units as :mod:`shaftsys.units` (N, mm, N*mm, rpm, h); keys and attributes name them.
+Nothing here computes: the pipeline (:mod:`shaftsys.analysis.pipeline`) fills them.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+from numpy.typing import NDArray
+
+from shaftsys.analysis.check_results import ShaftChecks
+from shaftsys.model import Bearing, Model, Shaft
+
+if TYPE_CHECKING:
+    import pandas as pd
+
+    from shaftsys.bearings.engine import BearingLife
+    from shaftsys.machine.flow import CaseFlow
+
+#: Version of the JSON result contract (keys are added, never renamed or dropped).
+SCHEMA_VERSION = "1.1"
+#: Verdict words of every check.
+PASS = "pass"
+FAIL = "fail"
+NOT_EVALUATED = "not evaluated"
+
+
+@dataclass(frozen=True)
+class AppliedLoad:
+    """A load applied at a station in one case (shaft frame, N and N*mm).
+
+    ``element`` is the id of the element that applies it (its node carries the load), or
+    ``None`` for loads placed by station only.
+    """
+
+    source: str
+    x_mm: float
+    force_N: tuple[float, float, float]
+    moment_Nmm: tuple[float, float, float]
+    element: str | None = None
+
+
+@dataclass(frozen=True)
+class BearingCaseLoad:
+    """The load the shaft puts on one bearing in one case.
+
+    ``Fy_N, Fz_N, Fx_N``: components in the shaft frame of the force the shaft puts on
+    the bearing [N]; ``Fr_N``: resultant radial load; ``Fa_N``: |axial load| the bearing
+    carries, induced forces of adjusted pairs included [N]; ``Mt_Nmm``: tilting moment
+    taken by a bearing with tilt stiffness [N*mm].
+    """
+
+    case: str
+    Fy_N: float
+    Fz_N: float
+    Fx_N: float
+    Fr_N: float
+    Fa_N: float
+    speed_rpm: float
+    induced_N: float = 0.0
+    My_Nmm: float = 0.0
+    Mz_Nmm: float = 0.0
+    deflection_mm: float = 0.0
+    slope_rad: float = 0.0
+
+
+@dataclass(frozen=True, eq=False)
+class CaseSolution:
+    """Everything along one shaft in one case.
+
+    Arrays along the shaft are given at ``stations_mm`` (each element's two ends, so a
+    point load shows as a jump): ``N_N`` axial force (tension +), ``Vy_N``, ``Vz_N``
+    shear, ``T_Nmm`` torque, ``My_Nmm``, ``Mz_Nmm`` bending moment, each the action of
+    the part right of the cut on the part left of it; ``M_Nmm`` resultant bending
+    moment. ``displacement`` is (n_nodes, 6): ux, uy, uz [mm], rx, ry, rz [rad].
+    """
+
+    case: str
+    speed_rpm: float
+    torque_Nmm: float
+    node_x_mm: NDArray[np.float64]
+    displacement: NDArray[np.float64]
+    stations_mm: NDArray[np.float64]
+    N_N: NDArray[np.float64]
+    Vy_N: NDArray[np.float64]
+    Vz_N: NDArray[np.float64]
+    T_Nmm: NDArray[np.float64]
+    My_Nmm: NDArray[np.float64]
+    Mz_Nmm: NDArray[np.float64]
+    applied: tuple[AppliedLoad, ...]
+    force_residual_N: float
+    moment_residual_Nmm: float
+    residual_relative: float
+    nodal_residual_relative: float
+    warnings: tuple[str, ...] = ()
+
+    @property
+    def M_Nmm(self) -> NDArray[np.float64]:
+        """Resultant bending moment [N*mm] at ``stations_mm``."""
+        return np.hypot(self.My_Nmm, self.Mz_Nmm)
+
+    @property
+    def deflection_mm(self) -> NDArray[np.float64]:
+        """Radial deflection [mm] at the nodes."""
+        return np.hypot(self.displacement[:, 1], self.displacement[:, 2])
+
+    @property
+    def slope_rad(self) -> NDArray[np.float64]:
+        """Resultant slope [rad] at the nodes."""
+        return np.hypot(self.displacement[:, 4], self.displacement[:, 5])
+
+    @property
+    def max_deflection_mm(self) -> float:
+        """Largest radial deflection along the shaft [mm]."""
+        return float(self.deflection_mm.max())
+
+
+@dataclass(frozen=True, eq=False)
+class ShaftResult:
+    """Results of one shaft in every case.
+
+    ``system_life_h``: life [h] of the shaft's bearings together at the target
+    reliability (``math.inf`` when none of them wears, ``None`` when lives were not
+    evaluated); ``limiting_bearing`` the one that limits it.
+    """
+
+    shaft: Shaft
+    cases: tuple[CaseSolution, ...]
+    condition_estimate: float
+    system_life_h: float | None = None
+    limiting_bearing: str | None = None
+
+    def with_system_life(self, life_h: float, limiting: str | None) -> ShaftResult:
+        """The same shaft result with its bearings' system life [h] (built by the
+        pipeline before the :class:`Result`).
+        """
+        return replace(self, system_life_h=life_h, limiting_bearing=limiting)
+
+    def case(self, case_id: str) -> CaseSolution:
+        """The solution of one case."""
+        for c in self.cases:
+            if c.case == case_id:
+                return c
+        raise KeyError(case_id)
+
+
+@dataclass(frozen=True, eq=False)
+class BearingResult:
+    """One support: its loads in every case and its life verdict."""
+
+    shaft_id: str
+    bearing: Bearing
+    loads: tuple[BearingCaseLoad, ...]
+    life: BearingLife | None = None
+
+    @property
+    def verdict(self) -> str:
+        """``"pass"``, ``"fail"`` or ``"not evaluated"`` (no life was computed)."""
+        if self.life is None:
+            return NOT_EVALUATED
+        return PASS if self.life.ok else FAIL
+
+    @property
+    def ok(self) -> bool:
+        """The support was evaluated and meets its targets (life and static safety)."""
+        return self.verdict == PASS
+
+
+@dataclass(frozen=True, eq=False)
+class Result:
+    """Complete results of a model (nothing is written back onto the model)."""
+
+    model: Model
+    shafts: tuple[ShaftResult, ...]
+    bearings: tuple[BearingResult, ...]
+    system_life_h: float | None
+    limiting_bearing: str | None
+    warnings: tuple[str, ...]
+    checks: ShaftChecks | None
+    flows: tuple[CaseFlow, ...]
+
+    @property
+    def verdict(self) -> str:
+        """``"pass"`` only when every bearing and every shaft check was evaluated and
+        passed; ``"fail"`` when one was evaluated and failed; else ``"not evaluated"``.
+        """
+        parts = [b.verdict for b in self.bearings]
+        parts.append(NOT_EVALUATED if self.checks is None else
+                     PASS if self.checks.ok else FAIL)
+        if FAIL in parts:
+            return FAIL
+        return NOT_EVALUATED if NOT_EVALUATED in parts else PASS
+
+    @property
+    def ok(self) -> bool:
+        """Every check was evaluated and passes (bearings and shaft checks)."""
+        return self.verdict == PASS
+
+    @property
+    def not_evaluated(self) -> tuple[str, ...]:
+        """What was not evaluated (bearing ids, ``"shaft checks"``), for messages."""
+        out = [f"bearing '{b.bearing.id}' life" for b in self.bearings if b.life is None]
+        if self.checks is None:
+            out.append("shaft checks")
+        return tuple(out)
+
+    def bearing(self, bearing_id: str) -> BearingResult:
+        """The result of one bearing."""
+        for b in self.bearings:
+            if b.bearing.id == bearing_id:
+                return b
+        raise KeyError(bearing_id)
+
+    def shaft(self, shaft_id: str) -> ShaftResult:
+        """The result of one shaft."""
+        for s in self.shafts:
+            if s.shaft.id == shaft_id:
+                return s
+        raise KeyError(shaft_id)
+
+    def loads_frame(self) -> pd.DataFrame:
+        """Bearing loads as a pandas DataFrame, one row per bearing and case."""
+        import pandas as pd
+
+        rows = []
+        for b in self.bearings:
+            for ld in b.loads:
+                rows.append({"bearing": b.bearing.id, "shaft": b.shaft_id,
+                             "x_mm": b.bearing.support_x_mm, **ld.__dict__})
+        return pd.DataFrame(rows)
+
+    def life_frame(self) -> pd.DataFrame:
+        """Bearing life verdicts as a pandas DataFrame, one row per bearing."""
+        import pandas as pd
+
+        rows = []
+        for b in self.bearings:
+            row: dict[str, Any] = {"bearing": b.bearing.id, "shaft": b.shaft_id,
+                                   "type": b.bearing.kind.value}
+            if b.life is not None:
+                row.update(b.life.to_dict())
+            rows.append(row)
+        return pd.DataFrame(rows)
