@@ -226,3 +226,48 @@ def test_limits_and_outputs(fan, tmp_path):
     assert pd.read_csv(paths["csv"]).shape == df.shape
     recs = json.loads(paths["json"].read_text())
     assert len(recs) == 3 and recs[0]["A.Lnm_h"] == pytest.approx(df.loc[0, "A.Lnm_h"])
+
+
+# ------------------------------------------- the study meshes, solves and balances as analyse
+def _shouldered_model():
+    """Two steps (200 mm d 50, 400 mm d 60) with a shoulder at 200 mm; bearings A at 20
+    (locating) and B at 560 mm; a load at 300 mm and a second one 0.0004 mm from it;
+    Timoshenko elements and the shaft weight in the y plane."""
+    mat = Material("steel", 210000.0, 80769.23, 0.3, 7850.0)
+    a = Bearing("A", BearingKind.DEEP_GROOVE_BALL, 20.0, 40.0, 80.0, 30000.0, 19000.0,
+                axial=AxialRole.BOTH)
+    b = Bearing("B", BearingKind.DEEP_GROOVE_BALL, 560.0, 40.0, 80.0, 30000.0, 19000.0)
+    loads = (ProcessLoad("load", 300.0, force_N=(0.0, -10000.0, 2000.0)),
+             ProcessLoad("near", 300.0004, force_N=(0.0, 1500.0, -4000.0),
+                         moment_Nmm=(0.0, 2.0e5, -1.0e5)))
+    shaft = Shaft("s", (Step(200.0, 50.0), Step(400.0, 60.0)), mat, (a, b), loads)
+    case = Case("run", CaseKind.DUTY, 1.0, drives={"s": Drive(1000.0)})
+    return Model("shoulder", (shaft,), (case,), gravity_m_s2=(0.0, -9.81, 0.0),
+                 solver=SolverSettings(shear_deformation=True, include_shaft_weight=True))
+
+
+def test_bearing_within_the_snap_distance_of_a_shoulder_matches_analyse():
+    """Bearing B moved to 0.0004 mm either side of the shoulder at 200 mm, and a load
+    0.0004 mm from another: both snap (STATION_SNAP_MM = 1e-3 mm) in the study as in the
+    single run. Reference: shaftsys.analyse of each variant, 1e-9 relative."""
+    model = _shouldered_model()
+    st = make_study(model, {"bearing.B.at": [199.9996, 200.0004, 199.9990, 450.0]})
+    _compare(model, st, range(st.n_variants))
+    a, _ = evaluate_values(st, st.values_block(0, st.n_variants))
+    assert (a.reason == "").all()
+    # 199.9990 mm is 1 mm * 1e-3 away: not snapped, still equal to analyse (checked above)
+
+
+def test_two_rigid_bearings_snapped_onto_one_node_are_refused_like_analyse():
+    """B 0.0004 mm from A shares A's node: the split of the load between two rigid
+    supports at one node is undetermined. The study marks the variant invalid with a
+    ModelError, as the single run refuses it (planar_support_dofs in both)."""
+    model = _shouldered_model()
+    st = make_study(model, {"bearing.B.at": [20.0004, 560.0]})
+    a, _ = evaluate_values(st, st.values_block(0, 2))
+    assert a.reason[0].startswith("ModelError") and "rigidly hold" in a.reason[0]
+    assert a.reason[1] == ""
+    variant, reason = model_with(model, st.quantities, st.values_block(0, 2)[0])
+    assert reason == ""
+    with pytest.raises(ModelError, match="rigidly hold"):
+        shaftsys.analyse(variant, with_shaft_checks=False)

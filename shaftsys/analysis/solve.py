@@ -28,7 +28,9 @@ from shaftsys.analysis.results import (
 )
 from shaftsys.bearings.axial import axial_reactions
 from shaftsys.errors import ModelError, NumericalError
-from shaftsys.fe.mesh import BeamMesh, Steps, build_mesh
+from shaftsys.fe.balance import global_balance
+from shaftsys.fe.mesh import STATION_SNAP_MM as STATION_SNAP_MM  # noqa: PLC0414 (re-export)
+from shaftsys.fe.mesh import BeamMesh, Steps, build_mesh, snap_stations
 from shaftsys.model import AxialRole, BearingKind, Case, Model, Shaft
 from shaftsys.units import DENSITY_KG_PER_MM3
 
@@ -37,11 +39,6 @@ if TYPE_CHECKING:
 
 log = logging.getLogger(__name__)
 
-#: Stations (bearing pressure centres, elements) closer than this [mm] to a step edge or
-#: to another station share its node (:func:`snap_stations`): a gap of micrometres would
-#: make an element a million times shorter than its neighbours and ruin the
-#: conditioning of the bending stiffness.
-STATION_SNAP_MM = 1e-3
 #: Round-off allowance of the global force and moment balance: the reactions are
 #: computed from the solution, whose relative error grows like eps * condition number,
 #: so the accepted relative residual is
@@ -64,27 +61,6 @@ class ShaftMesh:
     bearing_nodes: dict[str, int]
     element_nodes: dict[str, int]
     extra_nodes: tuple[int, ...] = ()
-
-
-def snap_stations(stations_mm: list[float], edges_mm: tuple[float, ...],
-                  tol_mm: float = STATION_SNAP_MM) -> list[float]:
-    """Move each station [mm] onto the nearest step edge or earlier station within tol_mm.
-
-    Stations are taken in increasing x; a station farther than ``tol_mm`` [mm] from every
-    step edge and every station already placed keeps its position and becomes a place
-    itself. Returns the stations [mm] in the order given.
-    """
-    places = [float(e) for e in edges_mm]
-    out = [0.0] * len(stations_mm)
-    for i in sorted(range(len(stations_mm)), key=lambda j: stations_mm[j]):
-        x = float(stations_mm[i])
-        nearest = min(places, key=lambda p: abs(p - x))
-        if abs(nearest - x) <= tol_mm:
-            out[i] = nearest
-        else:
-            out[i] = x
-            places.append(x)
-    return out
 
 
 def mesh_shaft(shaft: Shaft, max_element_mm: float,
@@ -377,7 +353,7 @@ def shaft_weight_loads(model: Model, shaft: Shaft) -> list[AppliedLoad]:
 
 def equilibrium_residual(applied: list[AppliedLoad], reactions: list[AppliedLoad]
                          ) -> tuple[float, float, float]:
-    """Global force and moment balance of a free body.
+    """Global force and moment balance of a free body (:func:`shaftsys.fe.balance.global_balance`).
 
     Returns the force residual [N], the moment residual about the origin [N*mm] and the
     larger of the two relative to the applied loads (force / sum|F|, moment / (sum|F|*L +
@@ -386,22 +362,9 @@ def equilibrium_residual(applied: list[AppliedLoad], reactions: list[AppliedLoad
     items = [*applied, *reactions]
     if not items:
         return 0.0, 0.0, 0.0
-    f = np.array([a.force_N for a in items], dtype=float)
-    m = np.array([a.moment_Nmm for a in items], dtype=float)
-    x = np.array([a.x_mm for a in items], dtype=float)
-    arm = float(np.abs(x).max()) or 1.0
-    # moment of a force at (x, 0, 0): (x, 0, 0) x (fx, fy, fz) = (0, -x fz, x fy)
-    r_cross_f = np.column_stack([np.zeros_like(x), -x * f[:, 2], x * f[:, 1]])
-    F = f.sum(axis=0)
-    M = m.sum(axis=0) + r_cross_f.sum(axis=0)
-    norm_f = np.sqrt((f * f).sum(axis=1))
-    scale_f = float(norm_f.sum())
-    scale_m = float(np.sqrt((m * m).sum(axis=1)).sum() + norm_f.sum() * arm)
-    f_res = float(np.linalg.norm(F))
-    m_res = float(np.linalg.norm(M))
-    rel = max(f_res / scale_f if scale_f > 0 else f_res,
-              m_res / scale_m if scale_m > 0 else m_res)
-    return f_res, m_res, rel
+    f_res, m_res, rel = global_balance([a.x_mm for a in items], [a.force_N for a in items],
+                                       [a.moment_Nmm for a in items])
+    return float(f_res), float(m_res), float(rel)
 
 
 @dataclass(frozen=True, eq=False)

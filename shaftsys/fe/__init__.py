@@ -3,11 +3,13 @@
 Units follow :mod:`shaftsys.units`: N, mm, N*mm, MPa, kg/m^3 (converted where used).
 """
 
+from shaftsys.fe.balance import global_balance
 from shaftsys.fe.banded_batch import (
     BatchSolution,
     cholesky_banded_batch,
     solve_banded_batch,
     solve_planar_batch,
+    solve_supported_band,
 )
 from shaftsys.fe.beam import (
     bar_stiffness,
@@ -16,7 +18,17 @@ from shaftsys.fe.beam import (
     shear_parameter,
     uniform_load,
 )
-from shaftsys.fe.mesh import COINCIDENT_TOL_MM, BeamMesh, Steps, build_mesh
+from shaftsys.fe.mesh import (
+    COINCIDENT_TOL_MM,
+    STATION_SNAP_MM,
+    BeamMesh,
+    Steps,
+    build_mesh,
+    cluster_nodes,
+    node_order,
+    snap_stations,
+    snap_stations_batch,
+)
 from shaftsys.fe.modal import (
     KG_M2_TO_T_MM2,
     KG_M3_TO_T_MM3,
@@ -49,6 +61,7 @@ from shaftsys.fe.solve import (
     left_right_at_nodes,
     planar_stiffness_banded,
     planar_support_dofs,
+    supported_scaled_band,
     warn_if_ill_conditioned,
 )
 
@@ -59,6 +72,7 @@ __all__ = [
     "KG_M2_TO_T_MM2",
     "KG_M3_TO_T_MM3",
     "KG_TO_T",
+    "STATION_SNAP_MM",
     "Bar",
     "BarSupport",
     "BatchSolution",
@@ -84,13 +98,20 @@ __all__ = [
     "cholesky_banded_batch",
     "circular_section",
     "circular_section_arrays",
+    "cluster_nodes",
     "cowper_shear_coefficient",
+    "global_balance",
     "left_right_at_nodes",
+    "node_order",
     "planar_stiffness_banded",
     "planar_support_dofs",
     "shear_parameter",
+    "snap_stations",
+    "snap_stations_batch",
     "solve_banded_batch",
     "solve_planar_batch",
+    "solve_supported_band",
+    "supported_scaled_band",
     "torsion_modes",
     "uniform_load",
     "warn_if_ill_conditioned",

@@ -9,7 +9,8 @@ per variant is a few hundred floating-point operations instead of a few hundred
 microseconds of interpreter overhead per :class:`~shaftsys.fe.solve.PlanarBending`.
 
 The algebra is the same as in :mod:`shaftsys.fe.solve`: banded assembly, exact
-elimination of rigid DOFs (identity rows), Jacobi scaling to unit diagonal, banded
+elimination of rigid DOFs (identity rows) and Jacobi scaling to unit diagonal by the
+same function (:func:`~shaftsys.fe.solve.supported_scaled_band`), then a banded
 Cholesky A = L L^T (right-looking, with a rolling (u+1) x (u+1) window of the Schur
 complement), forward and back substitution. Results agree with
 :class:`~shaftsys.fe.solve.PlanarBending` to round-off.
@@ -30,6 +31,7 @@ from shaftsys.fe.solve import (
     Support,
     check_planar_mechanism,
     planar_support_dofs,
+    supported_scaled_band,
 )
 
 __all__ = [
@@ -39,6 +41,7 @@ __all__ = [
     "planar_band",
     "solve_banded_batch",
     "solve_planar_batch",
+    "solve_supported_band",
 ]
 
 Array = NDArray[np.float64]
@@ -257,7 +260,7 @@ def solve_planar_batch(
             Ft[1 : 2 * n_e : 2] += qL2
             Ft[2 : 2 * n_e + 2 : 2] += qL
             Ft[3 : 2 * n_e + 3 : 2] -= qL2
-        u_c, min_piv = _solve_chunk(ab_shaft, rigid, springs, Ft)
+        u_c, min_piv = solve_supported_band(ab_shaft, rigid, springs, Ft)
         piv_out[lo:hi] = min_piv
         bad.extend((lo + np.flatnonzero(~(min_piv >= pivot_tol))).tolist())
         # Reactions: K_shaft u - F at rigid DOFs, -k u at springs.
@@ -282,30 +285,42 @@ def solve_planar_batch(
     return BatchSolution(u=u_out, reactions=r_out, min_pivot=piv_out)
 
 
-def _solve_chunk(
-    ab_shaft: Array, rigid: NDArray[np.bool_], springs: Array, Ft: Array
+def solve_supported_band(
+    ab_shaft: Array, rigid: NDArray[np.bool_], springs: Array, F: Array
 ) -> tuple[Array, Array]:
-    """Eliminate, scale, factor and solve one chunk; returns u (n, m, b), min pivots (b,)."""
-    p, n, _ = ab_shaft.shape
-    u = p - 1
-    ab = ab_shaft.copy()
-    ab[u] += springs[:, None]
-    r = np.flatnonzero(rigid)
-    if r.size:
-        ab[:, r] = 0.0
-        for d in range(1, u + 1):
-            cols = r + d
-            ab[u - d, cols[cols < n]] = 0.0
-        ab[u, r] = 1.0
+    """Solve K u = F for a stack of supported band stiffnesses (the one batched solve).
+
+    Supports as :func:`~shaftsys.fe.solve.supported_scaled_band` (springs on the
+    diagonal, rigid DOFs eliminated, Jacobi scaling), then :func:`cholesky_banded_batch`
+    and :func:`solve_banded_batch`. Used by :func:`solve_planar_batch` and the design
+    study (:mod:`shaftsys.study.batched`).
+
+    Parameters
+    ----------
+    ab_shaft:
+        Upper band of the shaft stiffness (no supports), shape (u+1, n, B) [N/mm,
+        N, N*mm/rad]; not modified.
+    rigid:
+        Shape (n,): DOFs held rigidly (shared by all variants).
+    springs:
+        Shape (n,): diagonal spring stiffness [N/mm at even, N*mm/rad at odd DOFs].
+    F:
+        Nodal loads [N, N*mm], shape (n, m, B).
+
+    Returns
+    -------
+    u : numpy.ndarray
+        Displacements [mm, rad], shape (n, m, B), 0 at rigid DOFs.
+    min_pivot : numpy.ndarray
+        Smallest pivot of the unit-diagonal matrix per variant [-], shape (B,); NaN
+        where the factorisation failed (a non-positive diagonal or pivot).
+    """
+    ab, s = supported_scaled_band(ab_shaft, rigid, springs)
     with np.errstate(invalid="ignore", divide="ignore"):
-        s = 1.0 / np.sqrt(ab[u])  # (n, b); NaN/inf flags a bad variant via its pivots
-        for d in range(1, u + 1):
-            ab[u - d, d:] *= s[d:] * s[:-d]
-        ab[u] = 1.0
         Lb = cholesky_banded_batch(ab)
         min_piv = np.min(Lb[0] ** 2, axis=0)
         min_piv[~np.all(np.isfinite(s), axis=0)] = np.nan
-        rhs = s[:, None, :] * Ft
+        rhs = s[:, None, :] * F
         rhs[rigid] = 0.0
         x = s[:, None, :] * solve_banded_batch(Lb, rhs)
     return x, min_piv

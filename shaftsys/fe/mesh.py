@@ -8,11 +8,19 @@ own section and material (:class:`Steps`). :func:`build_mesh` puts a node at eve
 edge and every requested station (bearing, gear, load position...), then subdivides each
 interval into equal elements no longer than ``max_element_mm``. Every element lies inside
 one step, so element properties are constant along an element.
+
+The compulsory nodes are made by three small functions that the design-study evaluator
+(:mod:`shaftsys.study.batched`) calls with a batch axis and :func:`build_mesh` with a
+batch of one: :func:`snap_stations_batch` (stations within :data:`STATION_SNAP_MM` of a
+step edge or of another station move onto it), :func:`node_order` (sort edges and
+stations, find the gaps above :data:`COINCIDENT_TOL_MM`) and :func:`cluster_nodes` (one
+node per cluster, a step edge fixes its position; the step of every interval).
 """
 
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -21,10 +29,25 @@ from numpy.typing import ArrayLike, NDArray
 from shaftsys.errors import ModelError
 from shaftsys.fe.sections import Section, circular_section_arrays
 
-__all__ = ["COINCIDENT_TOL_MM", "BeamMesh", "Steps", "build_mesh"]
+__all__ = [
+    "COINCIDENT_TOL_MM",
+    "STATION_SNAP_MM",
+    "BeamMesh",
+    "Steps",
+    "build_mesh",
+    "cluster_nodes",
+    "node_order",
+    "snap_stations",
+    "snap_stations_batch",
+]
 
 #: Stations closer than this [mm] are the same node.
 COINCIDENT_TOL_MM = 1e-9
+#: Stations (bearing pressure centres, elements) closer than this [mm] to a step edge or
+#: to another station share its node (:func:`snap_stations`): a gap of micrometres would
+#: make an element a million times shorter than its neighbours and ruin the
+#: conditioning of the bending stiffness.
+STATION_SNAP_MM = 1e-3
 
 _ELEMENT_FIELDS = ("E_MPa", "G_MPa", "A_mm2", "I_mm4", "J_mm4", "k_shear", "rho_kg_m3")
 
@@ -289,10 +312,141 @@ class BeamMesh:
         return self.G_MPa * self.J_mm4
 
 
+def snap_stations_batch(
+    stations_mm: ArrayLike, edges_mm: ArrayLike, tol_mm: float = STATION_SNAP_MM
+) -> NDArray[np.float64]:
+    """Move stations onto the nearest step edge or earlier-placed station within tol_mm.
+
+    For every variant (row) the stations are taken in increasing x (equal positions in
+    the order given). A station is compared with the step edges (in their order) and
+    then with the stations already placed (in the order they were placed); the first
+    place at the smallest distance is its nearest. Within ``tol_mm`` the station takes
+    that place's position, otherwise it keeps its own and becomes a place itself. The
+    loop runs over the stations; every step of it works on all variants at once.
+
+    Parameters
+    ----------
+    stations_mm:
+        Stations [mm], shape (B, P) (or (P,) for one variant); finite.
+    edges_mm:
+        Step edges [mm], shape (B, n_steps + 1), or (n_steps + 1,) shared by all rows.
+    tol_mm:
+        Snap distance [mm] (a distance equal to it snaps).
+
+    Returns
+    -------
+    numpy.ndarray
+        Snapped stations [mm], shape (B, P), in the order given.
+    """
+    st = np.atleast_2d(np.asarray(stations_mm, dtype=float))
+    ed = np.atleast_2d(np.asarray(edges_mm, dtype=float))
+    B = max(st.shape[0], ed.shape[0])
+    P, n_e = st.shape[1], ed.shape[1]
+    st = np.broadcast_to(st, (B, P))
+    out = np.array(st, dtype=float)
+    if P == 0:
+        return out
+    order = np.argsort(st, axis=1, kind="stable")
+    places = np.full((B, n_e + P), np.inf)  # edges, then the stations placed so far
+    places[:, :n_e] = ed
+    rows = np.arange(B)
+    for i in range(P):
+        col = order[:, i]
+        x = st[rows, col]
+        nearest = places[rows, np.argmin(np.abs(places[:, : n_e + i] - x[:, None]), axis=1)]
+        snap = np.abs(nearest - x) <= tol_mm
+        out[rows, col] = np.where(snap, nearest, x)
+        places[:, n_e + i] = np.where(snap, np.inf, x)
+    return out
+
+
+def snap_stations(
+    stations_mm: Sequence[float], edges_mm: Sequence[float], tol_mm: float = STATION_SNAP_MM
+) -> list[float]:
+    """Stations [mm] snapped as :func:`snap_stations_batch` does, for one shaft.
+
+    ``stations_mm`` and ``edges_mm`` [mm] are sequences; the snapped stations are
+    returned in the order given.
+    """
+    st = np.asarray(stations_mm, dtype=float).reshape(1, -1)
+    ed = np.asarray(edges_mm, dtype=float).reshape(1, -1)
+    return [float(v) for v in snap_stations_batch(st, ed, tol_mm)[0]]
+
+
+def node_order(
+    points_mm: ArrayLike, tol_mm: float = COINCIDENT_TOL_MM
+) -> tuple[NDArray[np.intp], NDArray[np.bool_]]:
+    """Sort order of the compulsory points and where a new node starts.
+
+    Parameters
+    ----------
+    points_mm:
+        Step edges followed by stations [mm], shape (B, Q).
+    tol_mm:
+        Consecutive sorted points farther apart than this [mm] are different nodes (a
+        cluster whose consecutive gaps are all below it is one node).
+
+    Returns
+    -------
+    order : numpy.ndarray of int
+        Stable sort order of each row, shape (B, Q).
+    gaps : numpy.ndarray of bool
+        Shape (B, Q - 1): sorted point ``i + 1`` starts a new node. Rows with equal
+        ``order`` and ``gaps`` share one mesh topology (:func:`cluster_nodes`).
+    """
+    pts = np.atleast_2d(np.asarray(points_mm, dtype=float))
+    order = np.argsort(pts, axis=1, kind="stable")
+    srt = np.take_along_axis(pts, order, axis=1)
+    return order, np.diff(srt, axis=1) > tol_mm
+
+
+def cluster_nodes(
+    points_mm: ArrayLike, n_edges: int, order: ArrayLike, gaps: ArrayLike
+) -> tuple[NDArray[np.float64], NDArray[np.intp], NDArray[np.intp]]:
+    """Nodes of variants that share one topology (from :func:`node_order`).
+
+    Parameters
+    ----------
+    points_mm:
+        Step edges (the first ``n_edges`` columns) followed by stations [mm], shape
+        (B, Q).
+    n_edges:
+        Number of step edges (n_steps + 1).
+    order, gaps:
+        One row of :func:`node_order`, shapes (Q,) and (Q - 1,), valid for every row
+        of ``points_mm``.
+
+    Returns
+    -------
+    x : numpy.ndarray
+        Node positions [mm], shape (B, n_nodes): the first sorted point of each
+        cluster, or the step edge in it (an edge fixes a cluster's position).
+    point_node : numpy.ndarray of int
+        Node of every point, shape (Q,).
+    interval_step : numpy.ndarray of int
+        Step of every interval between consecutive nodes, shape (n_nodes - 1,)
+        (taken from the first row).
+    """
+    pts = np.atleast_2d(np.asarray(points_mm, dtype=float))
+    order_ = np.asarray(order, dtype=np.intp)
+    new = np.concatenate([[True], np.asarray(gaps, dtype=bool)])
+    point_node = np.empty(order_.size, dtype=np.intp)
+    point_node[order_] = np.cumsum(new) - 1
+    x = pts[:, order_[new]]
+    x[:, point_node[:n_edges]] = pts[:, :n_edges]  # edge positions win inside a cluster
+    mid = 0.5 * (x[0, :-1] + x[0, 1:])
+    step = np.clip(
+        np.searchsorted(pts[0, :n_edges], mid, side="right") - 1, 0, n_edges - 2
+    ).astype(np.intp)
+    return x, point_node, step
+
+
 def build_mesh(
     steps: Steps,
     stations_mm: ArrayLike = (),
     max_element_mm: float = math.inf,
+    *,
+    snap_mm: float = 0.0,
 ) -> tuple[BeamMesh, NDArray[np.intp]]:
     """Mesh a stepped shaft with nodes at every step edge and station.
 
@@ -305,6 +459,10 @@ def build_mesh(
         lie on the shaft, ``edges[0] <= x <= edges[-1]`` (to within 1e-9 mm).
     max_element_mm:
         Longest allowed element [mm] (> 0; ``inf`` = only the compulsory nodes).
+    snap_mm:
+        Snap distance [mm]: above 0 the stations are first moved by
+        :func:`snap_stations` (pass :data:`STATION_SNAP_MM` for the rule of the single
+        run and the design study); 0 = stations as given.
 
     Returns
     -------
@@ -324,6 +482,8 @@ def build_mesh(
         raise ModelError(f"max_element_mm = {max_element_mm!r}", expected="> 0 mm")
     edges = steps.edges_mm
     stations = np.asarray(stations_mm, dtype=float).ravel()
+    if snap_mm > 0.0 and stations.size and np.all(np.isfinite(stations)):
+        stations = snap_stations_batch(stations[None], edges[None], snap_mm)[0]
     if stations.size and (
         not np.all(np.isfinite(stations))
         or stations.min() < edges[0] - COINCIDENT_TOL_MM
@@ -339,20 +499,11 @@ def build_mesh(
             expected=f"{edges[0]!r} <= x <= {edges[-1]!r} mm",
         )
 
-    # Merge edges and stations into unique compulsory nodes.
-    pts = np.concatenate([edges, stations])
-    is_edge = np.zeros(pts.size, dtype=bool)
-    is_edge[: edges.size] = True
-    order = np.argsort(pts, kind="stable")
-    sorted_pts = pts[order]
-    new_cluster = np.empty(pts.size, dtype=bool)
-    new_cluster[0] = True
-    new_cluster[1:] = np.diff(sorted_pts) > COINCIDENT_TOL_MM
-    cluster_sorted = np.cumsum(new_cluster) - 1
-    cluster = np.empty(pts.size, dtype=np.intp)
-    cluster[order] = cluster_sorted
-    nodes = sorted_pts[new_cluster].copy()
-    nodes[cluster[is_edge]] = edges  # edge positions win inside a cluster
+    # Merge edges and stations into unique compulsory nodes (shared with the study).
+    pts = np.concatenate([edges, stations])[None]
+    order, gaps = node_order(pts)
+    x_nodes, cluster, interval_step = cluster_nodes(pts, edges.size, order[0], gaps[0])
+    nodes = x_nodes[0]
 
     # Subdivide every interval into equal elements no longer than max_element_mm.
     lengths = np.diff(nodes)
@@ -368,8 +519,7 @@ def build_mesh(
     x[:-1] = nodes[interval] + lengths[interval] * (j / n_sub[interval])
     x[-1] = nodes[-1]
 
-    mid = 0.5 * (x[:-1] + x[1:])
-    step = np.clip(np.searchsorted(edges, mid, side="right") - 1, 0, steps.n_steps - 1)
+    step = np.repeat(interval_step, n_sub)
     mesh = BeamMesh(
         x_mm=x,
         E_MPa=steps.E_MPa[step],

@@ -440,6 +440,55 @@ _banded_matmul = banded_matmul  # kept for callers that imported the private nam
 # ------------------------------------------------------------------ factored system
 
 
+def supported_scaled_band(
+    ab_shaft: Array, rigid: NDArray[np.bool_], springs: Array
+) -> tuple[Array, Array]:
+    """Supports applied to a band stiffness, scaled to unit diagonal (Jacobi).
+
+    The springs are added to the diagonal; the rows and columns of rigid DOFs are
+    replaced by identity rows (exact elimination: their equations decouple as
+    ``1 * u_r = 0``, no penalty number, the band is kept); then ``A = S K S`` with
+    ``S = diag(1 / sqrt(K_ii))``. The one sequence used by :class:`PlanarBending`,
+    :class:`Bar` (then LAPACK ``dpbtrf``) and the batched solves of
+    :mod:`shaftsys.fe.banded_batch` (then a batched banded Cholesky).
+
+    Parameters
+    ----------
+    ab_shaft:
+        Upper band storage of the shaft stiffness, shape (u+1, n) or (u+1, n, B) (a
+        trailing variant axis); not modified.
+    rigid:
+        Shape (n,): DOFs held rigidly.
+    springs:
+        Shape (n,): spring stiffness on the diagonal [N/mm or N*mm/rad].
+
+    Returns
+    -------
+    ab : numpy.ndarray
+        The scaled band (unit diagonal), same shape as ``ab_shaft``.
+    s : numpy.ndarray
+        Scale factors 1/sqrt(K_ii) [1/sqrt(stiffness unit)], shape (n,) or (n, B); not
+        finite where a diagonal entry is not positive.
+    """
+    u = ab_shaft.shape[0] - 1
+    n = ab_shaft.shape[1]
+    ab = ab_shaft.copy()
+    ab[u] += springs.reshape(springs.shape + (1,) * (ab.ndim - 2))
+    r = np.flatnonzero(rigid)
+    if r.size:
+        ab[:, r] = 0.0  # column r: K[r-d, r]
+        for d in range(1, u + 1):
+            cols = r + d
+            ab[u - d, cols[cols < n]] = 0.0  # row r: K[r, r+d]
+        ab[u, r] = 1.0
+    with np.errstate(invalid="ignore", divide="ignore"):
+        s = 1.0 / np.sqrt(ab[u])
+        for d in range(1, u + 1):
+            ab[u - d, d:] *= s[d:] * s[:-d]
+    ab[u] = 1.0
+    return ab, s
+
+
 class _BandedSPD:
     """Scaled and factored banded SPD matrix with rigid DOFs eliminated.
 
@@ -465,27 +514,15 @@ class _BandedSPD:
         self.rigid = rigid
         self.free = np.flatnonzero(~rigid)
         self.label = label
-        ab = ab_full.copy()
-        ab[u] += spring_diag
-        if not np.all(np.isfinite(ab)):
+        finite = np.all(np.isfinite(ab_full[:u])) and np.all(np.isfinite(ab_full[u] + spring_diag))
+        if not finite:
             raise NumericalError(f"{label}: stiffness matrix has non-finite entries")
-        r = np.flatnonzero(rigid)
-        if r.size:
-            ab[:, r] = 0.0  # column r: K[r-d, r]
-            for d in range(1, u + 1):
-                cols = r + d
-                ab[u - d, cols[cols < n]] = 0.0  # row r: K[r, r+d]
-            ab[u, r] = 1.0
-        diag = ab[u]
-        bad = np.flatnonzero(diag <= 0.0)
+        ab, s = supported_scaled_band(ab_full, rigid, spring_diag)
+        bad = np.flatnonzero(~np.isfinite(s))  # diagonal <= 0 after elimination
         if bad.size:
             raise NumericalError(
                 f"{label}: no stiffness at {describe(int(bad[0]))}: the system is singular"
             )
-        s = 1.0 / np.sqrt(diag)
-        for d in range(1, u + 1):
-            ab[u - d, d:] *= s[d:] * s[:-d]
-        ab[u] = 1.0
         c, info = lapack.dpbtrf(ab, lower=0)
         if info != 0:
             where = describe(int(info - 1)) if info > 0 else "(invalid input)"

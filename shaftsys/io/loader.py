@@ -12,8 +12,8 @@ import math
 from pathlib import Path
 from typing import Any
 
-from shaftsys.analysis.solve import STATION_SNAP_MM
 from shaftsys.errors import ModelError
+from shaftsys.fe.mesh import STATION_SNAP_MM
 from shaftsys.io import spec as S
 from shaftsys.io.spec import Where, read_section, read_value, require_list, require_mapping
 from shaftsys.io.yamlsource import MAX_FILE_BYTES, LocatedDict, LocatedList, parse_yaml

@@ -5,9 +5,11 @@ Units: mm, N, N*mm, rad, rpm, h (as :mod:`shaftsys.units`).
 What it computes, for B variants at once (arrays with the variant axis; no Python loop
 over variants, elements or cases):
 
-1. **Mesh.** Nodes only at the compulsory stations: step edges, bearing pressure
-   centres and element stations (clustered within 1e-9 mm as
-   :func:`shaftsys.fe.mesh.build_mesh` does; a step edge fixes a cluster's position).
+1. **Mesh.** Nodes only at the compulsory stations, by the rule of the single run:
+   stations (bearing pressure centres, elements) snapped onto a step edge or an
+   earlier station within ``STATION_SNAP_MM`` (:func:`shaftsys.fe.mesh.snap_stations_batch`),
+   then edges and stations clustered as :func:`shaftsys.fe.mesh.build_mesh` does
+   (:func:`~shaftsys.fe.mesh.node_order`, :func:`~shaftsys.fe.mesh.cluster_nodes`).
    Variants whose stations come in the same order share one topology and are solved
    together. ``solver.max_element_mm`` is not used: the Timoshenko element with
    interdependent interpolation (and the Euler-Bernoulli element) is nodally exact for
@@ -15,14 +17,18 @@ over variants, elements or cases):
    nodal displacements and the reactions do not depend on how finely a prismatic
    interval is cut (Tong's nodal exactness; Reddy, *An Introduction to the Finite
    Element Method*, beam chapter). The tests compare with :func:`shaftsys.analyse`.
-2. **Bending.** Band stiffness assembled per variant; rigid DOFs eliminated (identity
-   rows), springs on the diagonal, Jacobi scaling, banded Cholesky and solves by
-   :func:`shaftsys.fe.banded_batch.cholesky_banded_batch` / ``solve_banded_batch``; both
-   planes and every case are right-hand sides of one factorisation. Reactions as
-   K u - F at rigid DOFs and -k u at springs. Pivots below
-   ``shaftsys.fe.solve.DEFAULT_PIVOT_TOL`` and a global force/moment balance of each
-   plane above ``solver.residual_tolerance`` mark the variant invalid (NumericalError).
-3. **Axial rule** of :func:`shaftsys.analysis.axial_reactions`, vectorised (locating
+2. **Bending.** Band stiffness assembled per variant; supports validated once per
+   topology by :func:`shaftsys.fe.solve.planar_support_dofs` and
+   ``check_planar_mechanism`` (two rigid supports on one node, a mechanism: the
+   variants are invalid); springs on the diagonal, rigid DOFs eliminated, Jacobi
+   scaling, batched banded Cholesky and solves in
+   :func:`shaftsys.fe.banded_batch.solve_supported_band` (the solve of
+   ``solve_planar_batch``); both planes and every case are right-hand sides of one
+   factorisation. Reactions as K u - F at rigid DOFs and -k u at springs. Pivots below
+   ``shaftsys.fe.solve.DEFAULT_PIVOT_TOL`` and a global force/moment balance
+   (:func:`shaftsys.fe.balance.global_balance`, the single run's definition) of a unit
+   column above ``solver.residual_tolerance`` mark the variant invalid (NumericalError).
+3. **Axial rule** of :func:`shaftsys.bearings.axial.axial_reactions`, vectorised (locating
    bearing, cross-locating, adjusted pair with induced forces).
 4. **Lives** with the pure functions of :mod:`shaftsys.bearings` over (variant, case)
    arrays: equivalent load, aISO, Palmgren-Miner per-case combination, required
@@ -52,11 +58,18 @@ from shaftsys.bearings.equivalent import equivalent_dynamic_load
 from shaftsys.bearings.lubrication import a_iso_with_ep
 from shaftsys.bearings.static import equivalent_static_load, static_safety
 from shaftsys.errors import ModelError, NumericalError
-from shaftsys.fe.banded_batch import cholesky_banded_batch, planar_band, solve_banded_batch
+from shaftsys.fe.balance import global_balance
+from shaftsys.fe.banded_batch import planar_band, solve_supported_band
+from shaftsys.fe.mesh import cluster_nodes, node_order, snap_stations_batch
 from shaftsys.fe.sections import circular_section_arrays
-from shaftsys.fe.solve import DEFAULT_PIVOT_TOL
+from shaftsys.fe.solve import (
+    DEFAULT_PIVOT_TOL,
+    Support,
+    check_planar_mechanism,
+    planar_support_dofs,
+)
 from shaftsys.model import Bearing, BearingKind, CaseKind, Model, Shaft
-from shaftsys.study.paths import STATION_TOL_MM, Geometry
+from shaftsys.study.paths import Geometry
 from shaftsys.units import DENSITY_KG_PER_MM3, MEGA_REVOLUTIONS
 
 log = logging.getLogger(__name__)
@@ -232,33 +245,6 @@ class BatchArrays:
 
 
 # ------------------------------------------------------------------------------ solve
-def _solve(ab_shaft: Array, rigid: NDArray[np.bool_], springs: Array, Ft: Array
-           ) -> tuple[Array, Array]:
-    """Eliminate, scale, factor (banded Cholesky, batched) and solve; (u, min pivot)."""
-    p, n, _ = ab_shaft.shape
-    u = p - 1
-    ab = ab_shaft.copy()
-    ab[u] += springs[:, None]
-    r = np.flatnonzero(rigid)
-    ab[:, r] = 0.0
-    for d in range(1, u + 1):
-        cols = r + d
-        ab[u - d, cols[cols < n]] = 0.0
-    ab[u, r] = 1.0
-    with np.errstate(invalid="ignore", divide="ignore"):
-        s = 1.0 / np.sqrt(ab[u])
-        for d in range(1, u + 1):
-            ab[u - d, d:] *= s[d:] * s[:-d]
-        ab[u] = 1.0
-        Lb = cholesky_banded_batch(ab)
-        piv = np.min(Lb[0] ** 2, axis=0)
-        piv[~np.all(np.isfinite(s), axis=0)] = np.nan
-        rhs = s[:, None, :] * Ft
-        rhs[rigid] = 0.0
-        x = s[:, None, :] * solve_banded_batch(Lb, rhs)
-    return x, piv
-
-
 def evaluate_geometry(prep: Prepared, geom: Geometry) -> BatchArrays:
     """Reactions, deflections, slopes and lives of every variant in ``geom``.
 
@@ -277,10 +263,10 @@ def evaluate_geometry(prep: Prepared, geom: Geometry) -> BatchArrays:
     offsets = np.array([b.support_x_mm - b.x_mm for b in shaft.bearings], dtype=float)
     edges = np.concatenate([np.zeros((B, 1)), np.cumsum(geom.step_length_mm, axis=1)], axis=1)
     pts = np.concatenate([edges, geom.bearing_x_mm + offsets, geom.element_x_mm], axis=1)
-    pv = pts[valid]
-    order = np.argsort(pv, axis=1, kind="stable")
-    srt = np.take_along_axis(pv, order, axis=1)
-    newc = np.diff(srt, axis=1) > STATION_TOL_MM
+    # the mesh rule of the single run: stations snapped (fe.mesh.snap_stations_batch),
+    # then clustered as build_mesh does (fe.mesh.node_order / cluster_nodes)
+    pts[valid, ns + 1 :] = snap_stations_batch(pts[valid, ns + 1 :], edges[valid])
+    order, newc = node_order(pts[valid])
     sig = np.concatenate([order, newc.astype(order.dtype)], axis=1)
     inverse = np.zeros(valid.size, dtype=np.intp)
     other = np.flatnonzero(np.any(sig != sig[0], axis=1))  # most share the first topology
@@ -312,19 +298,20 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
     m = len(prep.case_ids)
     nb, ne = len(shaft.bearings), len(shaft.elements)
     b = rows.size
-    P = pts.shape[1]
-    cl_sorted = np.concatenate([[0], np.cumsum(newc)])
-    cluster = np.empty(P, dtype=np.intp)
-    cluster[order] = cl_sorted
-    n = int(cl_sorted[-1]) + 1
-    starts = np.concatenate([[0], np.flatnonzero(newc) + 1])
-    x = pts[:, order[starts]].copy()                     # (b, n)
-    x[:, cluster[: ns + 1]] = pts[:, : ns + 1]           # step edges win in a cluster
+    x, cluster, step = cluster_nodes(pts, ns + 1, order, newc)   # (b, n) as build_mesh
+    n = x.shape[1]
     bnode = cluster[ns + 1 : ns + 1 + nb]
     enode = cluster[ns + 1 + nb :]
-    edges0 = pts[0, : ns + 1]
-    mid0 = 0.5 * (x[0, :-1] + x[0, 1:])
-    step = np.clip(np.searchsorted(edges0, mid0, side="right") - 1, 0, ns - 1)
+    try:  # the support rules of PlanarBending (one topology: once for all rows)
+        sups, rigid, springs = planar_support_dofs(
+            [Support(int(bnode[j]), kt, kr) for j, kt, kr in prep.supports], n,
+            f"shaft '{shaft.id}', bending")
+        check_planar_mechanism(sups, x[0], f"shaft '{shaft.id}', bending")
+    except (ModelError, NumericalError) as exc:
+        res = BatchArrays.empty(b, nb, ne)
+        res.reason[:] = error_text(exc)
+        out.put(rows, res)
+        return
     mat = shaft.material
     A, Iz, _, k = circular_section_arrays(geom.step_d_mm[rows], geom.step_bore_mm[rows],
                                           mat.poisson)
@@ -337,15 +324,6 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
         Phi = 0.0
     ab = planar_band(EI, L, Phi)
     ndof = 2 * n
-    rigid = np.zeros(ndof, dtype=bool)
-    springs = np.zeros(ndof)
-    for j, kt, kr in prep.supports:
-        node = int(bnode[j])
-        for dof, kk in ((2 * node, kt), (2 * node + 1, kr)):
-            if math.isinf(kk):
-                rigid[dof] = True
-            else:
-                springs[dof] += kk
     # --- loads of both planes and every case on the nodes: F0 (ndof, 2m), shared
     F0 = np.zeros((ndof, 2 * m))
     for j in range(ne):
@@ -376,7 +354,7 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
             Fu[2 : 2 * n_e + 2 : 2, c] += qL
             Fu[3 : 2 * n_e + 2 : 2, c] -= qL2
             coef[c, pl * m : (pl + 1) * m] = 1.0
-    U, piv = _solve(ab, rigid, springs, Fu)              # (ndof, nc, b)
+    U, piv = solve_supported_band(ab, rigid, springs, Fu)   # (ndof, nc, b)
     reason = np.full(b, "", dtype=object)
     reason[~(piv >= DEFAULT_PIVOT_TOL)] = ("NumericalError: stiffness not positive definite "
                                            "or (nearly) a mechanism")
@@ -396,18 +374,18 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
                 dest[s_i] = ku - Fu[dof]
             else:
                 dest[s_i] = -kk * U[dof]
-    # --- global balance of every unit column (force, moment about x = 0)
-    xn = x.T                                             # (n, b)
-    xs = xn[sup_nodes]                                   # (n_sup, b)
-    fsum = Fu[0::2].sum(axis=0) + Rf.sum(axis=0)
-    msum = ((xn[:, None, :] * Fu[0::2]).sum(axis=0) + Fu[1::2].sum(axis=0)
-            + (xs[:, None, :] * Rf).sum(axis=0) + Rm.sum(axis=0))
-    absF = np.abs(Fu[0::2]).sum(axis=0)
-    scale_m = absF * np.abs(xn).max(axis=0)[None, :] + np.abs(Fu[1::2]).sum(axis=0)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        rel = np.maximum(np.where(absF > 0, np.abs(fsum) / absF, np.abs(fsum)),
-                         np.where(scale_m > 0, np.abs(msum) / scale_m, np.abs(msum)))
-    worst = rel.max(axis=0) if nc else np.zeros(b)
+    # --- global balance of every unit column (force, moment about x = 0): the nodal
+    # loads and the support reactions as point loads in the x-y plane (fe.balance)
+    n_items = n + len(prep.supports)
+    Fc = np.zeros((3, b, nc, n_items))                   # components first: cheap views
+    Mc = np.zeros((3, b, nc, n_items))
+    Fc[1, :, :, :n] = Fu[0::2].T
+    Fc[1, :, :, n:] = Rf.T
+    Mc[2, :, :, :n] = Fu[1::2].T
+    Mc[2, :, :, n:] = Rm.T
+    xk = np.concatenate([x, x[:, sup_nodes]], axis=1)[:, None, :]   # (b, 1, k)
+    _, _, rel = global_balance(xk, np.moveaxis(Fc, 0, -1), np.moveaxis(Mc, 0, -1))
+    worst = rel.max(axis=1) if nc else np.zeros(b)
     tol = model.solver.residual_tolerance
     for i in np.flatnonzero(~(worst <= tol) & (reason == "")):
         reason[i] = (f"NumericalError: equilibrium residual {worst[i]:.3g} of the applied "
