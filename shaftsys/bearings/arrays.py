@@ -29,11 +29,10 @@ IntArray = npt.NDArray[np.intp]
 KINDS: tuple[BearingKind, ...] = tuple(BearingKind)
 #: Arrangement codes: ``BearingArrays.arrangement[i]`` indexes this tuple.
 ARRANGEMENTS: tuple[SetArrangement, ...] = tuple(SetArrangement)
-_DOUBLE_CODES = tuple(
-    ARRANGEMENTS.index(a)
-    for a in (SetArrangement.BACK_TO_BACK, SetArrangement.FACE_TO_FACE, SetArrangement.DOUBLE_ROW)
-)
-_ROLLER_CODES = tuple(KINDS.index(k) for k in KINDS if k.is_roller)
+#: Lookup tables code -> flag (indexing is much cheaper than np.isin for small tables).
+_DOUBLE_LUT = np.array([a in (SetArrangement.BACK_TO_BACK, SetArrangement.FACE_TO_FACE,
+                              SetArrangement.DOUBLE_ROW) for a in ARRANGEMENTS], dtype=bool)
+_ROLLER_LUT = np.array([k.is_roller for k in KINDS], dtype=bool)
 
 _FLOAT_FIELDS = (
     "C_N", "C0_N", "d_mm", "D_mm", "B_mm", "Cu_N", "limiting_speed_rpm", "e", "Y", "Y0",
@@ -148,17 +147,19 @@ class BearingArrays:
 
     def is_kind(self, *kinds: BearingKind) -> BoolArray:
         """Mask of the rows whose kind is one of ``kinds``."""
-        return np.isin(self.kind, [KINDS.index(k) for k in kinds])
+        lut = np.zeros(len(KINDS), dtype=bool)
+        lut[[KINDS.index(k) for k in kinds]] = True
+        return lut[self.kind]
 
     @property
     def roller(self) -> BoolArray:
         """Mask of line-contact (roller) rows: life exponent 10/3."""
-        return np.isin(self.kind, _ROLLER_CODES)
+        return _ROLLER_LUT[self.kind]
 
     @property
     def double(self) -> BoolArray:
         """Mask of double-row units and pairs back-to-back / face-to-face."""
-        return np.isin(self.arrangement, _DOUBLE_CODES)
+        return _DOUBLE_LUT[self.arrangement]
 
     @property
     def life_exponent(self) -> FloatArray:
