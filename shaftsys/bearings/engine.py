@@ -29,33 +29,22 @@ from typing import Any
 import numpy as np
 import numpy.typing as npt
 
-from shaftsys.bearings._util import BoolArray, FloatArray, as_float_array, case_name
-from shaftsys.bearings.equivalent import equivalent_dynamic_load
-from shaftsys.bearings.life import basic_rating_life, duty_cycle_repetitions, life_hours
-from shaftsys.bearings.life import spectrum_life as _spectrum_life
-from shaftsys.bearings.lubrication import (
-    KAPPA_MAX,
-    KAPPA_MIN,
-    a_iso_with_ep,
-    contamination_constants,
-    contamination_factor,
-    estimate_fatigue_load_limit,
-    reference_viscosity,
-    viscosity_at,
+from shaftsys.bearings._util import BoolArray, FloatArray, as_float_array
+from shaftsys.bearings.arrays import BearingArrays
+from shaftsys.bearings.kernel import (
+    LIFE_BASIS_BASIC,
+    LIFE_BASIS_MODIFIED,
+    DutyCycle,
+    evaluate,
+    row_notes,
 )
-from shaftsys.bearings.modified import combine_lives, modified_life_per_case
+from shaftsys.bearings.life import duty_cycle_repetitions
 from shaftsys.bearings.modified import required_rating as _required_rating
-from shaftsys.bearings.reliability import life_factor
-from shaftsys.bearings.static import operating_warnings, static_check
 from shaftsys.bearings.system import system_life as _system_life
-from shaftsys.errors import ModelError
 from shaftsys.model.bearing import Bearing, BearingKind, LifeSettings, Lubrication
-from shaftsys.units import MEGA_REVOLUTIONS
 
 _log = logging.getLogger(__name__)
 
-LIFE_BASIS_MODIFIED = "Lnm = a1*aISO*L10 (ISO 281:2007)"
-LIFE_BASIS_BASIC = "a1*L10"
 
 __all__ = [
     "LIFE_BASIS_BASIC",
@@ -109,6 +98,12 @@ class LoadSpectrum:
             raise ValueError("LoadSpectrum.duration must be finite and >= 0")
         if not np.all(np.isfinite(self.speed_rpm)):
             raise ValueError("LoadSpectrum.speed_rpm must be finite")
+
+    @property
+    def duty(self) -> DutyCycle:
+        """The cases without their loads (speeds, durations, flags, temperatures)."""
+        return DutyCycle(self.case_ids, self.speed_rpm, self.duration,
+                         self.duration_in_hours, self.static_only, self.temperature_C)
 
     @classmethod
     def build(
@@ -359,231 +354,69 @@ def evaluate_bearing(
     """
     sp = spectrum
     ids = sp.case_ids
-    notes: list[str] = []
-    target_h = float(
-        bearing.target_life_h if bearing.target_life_h is not None else settings.target_life_h
-    )
-    if not target_h > 0.0:
-        raise ModelError(
-            f"bearing '{bearing.id}': target life must be > 0 h",
-            field=f"bearings[{bearing.id}].target_life_h",
-            line=bearing.line,
-        )
-    if bearing.target_reliability is not None:
-        R = float(bearing.target_reliability)
-        r_field = f"bearings[{bearing.id}].target_reliability"
-    else:
-        R = float(settings.target_reliability)
-        r_field = "life.target_reliability"
-    try:
-        a1 = life_factor(R, settings.reliability_method, r_field)
-    except ModelError as exc:
-        raise ModelError(
-            f"bearing '{bearing.id}': {exc.message}",
-            field=exc.field,
-            line=bearing.line if r_field.startswith("bearings") else None,
-            expected=exc.expected,
-        ) from exc
-    af = float(settings.application_factor)
-    if not af >= 1.0:
-        raise ModelError(
-            f"application factor {af:g} below 1",
-            field="life.application_factor",
-            expected="application_factor >= 1",
-        )
+    params = BearingArrays.from_bearings([bearing])
+    la = evaluate(params, sp.Fr_N[None, :], sp.Fa_N[None, :], sp.duty, settings, lubrication)
+    exc = la.errors[0]
+    if exc is not None:
+        raise exc
+    notes = row_notes(params, la, 0, sp.speed_rpm)
 
-    eq = equivalent_dynamic_load(bearing, sp.Fr_N, sp.Fa_N, ids)
-    notes.extend(eq.warnings)
-    P_design = af * eq.P_N
-    n_abs = np.abs(sp.speed_rpm)
+    def num(arr: FloatArray) -> float:
+        return float(arr[0])
 
-    reasons: list[tuple[str, str]] = []
-    dyn = np.zeros(len(ids), dtype=bool)
-    for k, cid in enumerate(ids):
-        if sp.static_only[k]:
-            reasons.append((cid, "flagged static-only"))
-        elif not (n_abs[k] >= settings.min_speed_rpm and n_abs[k] > 0.0):
-            reasons.append(
-                (cid, f"|speed| {n_abs[k]:g} rpm below min_speed_rpm {settings.min_speed_rpm:g}")
-            )
-        elif not sp.duration[k] > 0.0:
-            reasons.append((cid, "zero duration"))
-        else:
-            dyn[k] = True
-
-    p = bearing.kind.life_exponent
-    nan = np.full(len(ids), np.nan)
-    sl = _spectrum_life(
-        bearing.C_N, np.where(dyn, P_design, 0.0), sp.speed_rpm, sp.duration, dyn, p
-    )
-    U = sl.weights
-    L10_case = np.where(dyn, basic_rating_life(bearing.C_N, np.where(dyn, P_design, 1.0), p), nan)
-    L10h_case = np.where(dyn, life_hours(np.where(dyn, L10_case, 0.0), sp.speed_rpm), nan)
-
-    use_mod = lubrication is not None and settings.use_modified_life
-    aiso = np.where(dyn, 1.0, nan)
-    kappa_out, nu_out, nu1_out, ec_out = nan.copy(), nan.copy(), nan.copy(), nan.copy()
-    Cu_N: float | None = None if bearing.Cu_N is None else float(bearing.Cu_N)
-    Cu_est = False
-    if use_mod and lubrication is not None and np.any(dyn):
-        idx = np.nonzero(dyn)[0]
-        temps = sp.temperature_C[idx]
-        missing = np.nonzero(~np.isfinite(temps))[0]
-        if missing.size:
-            cid = ids[int(idx[missing[0]])]
-            raise ModelError(
-                f"bearing '{bearing.id}', case '{cid}': operating temperature needed for the "
-                "modified life (lubricant viscosity)",
-                field=f"cases[{cid}].temperature",
-                expected="a temperature, or life.use_modified_life: false",
-            )
-        dm = bearing.mean_diameter_mm
-        nu = viscosity_at(
-            temps,
-            lubrication.nu1_at_t1_mm2_s,
-            lubrication.t1_C,
-            lubrication.nu2_at_t2_mm2_s,
-            lubrication.t2_C,
-        )
-        nu1 = reference_viscosity(n_abs[idx], dm)
-        kappa_raw = nu / nu1
-        low = np.nonzero(kappa_raw < KAPPA_MIN)[0]
-        if low.size:
-            j = int(low[0])
-            raise ModelError(
-                f"bearing '{bearing.id}', case {case_name(ids, int(idx[j]))}: viscosity ratio "
-                f"kappa = {kappa_raw[j]:.4g} (nu = {nu[j]:.4g}, nu1 = {nu1[j]:.4g} mm^2/s) "
-                f"below {KAPPA_MIN}: outside ISO 281:2007 modified life",
-                field="lubrication.viscosity",
-                expected="a more viscous oil, lower temperature, or use_modified_life: false",
-                case=ids[int(idx[j])],
-            )
-        for jj in np.nonzero(kappa_raw > KAPPA_MAX)[0]:
-            notes.append(
-                f"bearing '{bearing.id}', case {case_name(ids, int(idx[jj]))}: kappa = "
-                f"{kappa_raw[jj]:.3g} taken as {KAPPA_MAX:g} (ISO 281:2007)"
-            )
-        kappa = np.minimum(kappa_raw, KAPPA_MAX)
-        if Cu_N is None:
-            Cu_N = estimate_fatigue_load_limit(bearing.C0_N, dm, bearing.kind)
-            Cu_est = True
-            notes.append(
-                f"bearing '{bearing.id}': Cu not given, estimated Cu = {Cu_N:.4g} N from C0 "
-                "(ISO 281:2007 Annex B simplified approach, from memory)"
-            )
-        if bearing.ec is not None:
-            ec = np.full(idx.size, float(bearing.ec))
-        elif lubrication.ec is not None:
-            ec = np.full(idx.size, float(lubrication.ec))
-        else:
-            c1, c2, ec_notes = contamination_constants(
-                lubrication.method, lubrication.cleanliness, lubrication.filtration_beta
-            )
-            notes.extend(ec_notes)
-            ec = contamination_factor(c1, c2, kappa, dm)
-        if np.any(ec < 0.0) or np.any(ec > 1.0):
-            raise ModelError(
-                f"bearing '{bearing.id}': contamination factor ec outside [0, 1]",
-                field=f"bearings[{bearing.id}].ec",
-                line=bearing.line,
-                expected="0 <= ec <= 1",
-            )
-        Pd = P_design[idx]
-        with np.errstate(divide="ignore"):
-            cu_p = np.where(Pd > 0.0, Cu_N / np.where(Pd > 0.0, Pd, 1.0), np.inf)
-        ai, relief = a_iso_with_ep(kappa, ec, cu_p, bearing.kind, lubrication.ep_additives)
-        for jj in np.nonzero(relief)[0]:
-            notes.append(
-                f"bearing '{bearing.id}', case {case_name(ids, int(idx[jj]))}: EP additives - "
-                "kappa taken as 1 in aISO, limited to 3 (ISO 281:2007 9.3.2, from memory)"
-            )
-        aiso[idx] = ai
-        kappa_out[idx] = kappa
-        nu_out[idx] = nu
-        nu1_out[idx] = nu1
-        ec_out[idx] = ec
-
-    factors = np.where(dyn, a1 * aiso, nan)
-    Lnm_case_mrev = np.where(
-        dyn,
-        modified_life_per_case(np.where(dyn, L10_case, 0.0), a1, np.where(dyn, aiso, 1.0)),
-        nan,
-    )
-    Lnm_case_h = np.where(dyn, life_hours(np.where(dyn, Lnm_case_mrev, 0.0), sp.speed_rpm), nan)
-
-    if np.any(U > 0.0):
-        Lnm_mrev = combine_lives(np.where(dyn, Lnm_case_mrev, 1.0), U)
-        Lnm_h = Lnm_mrev * MEGA_REVOLUTIONS / (60.0 * sl.n_m_rpm)
-        target_mrev = target_h * 60.0 * sl.n_m_rpm / MEGA_REVOLUTIONS
-        C_req = _required_rating(
-            np.where(dyn, P_design, 0.0), U, p, target_mrev, np.where(dyn, factors, 1.0)
-        )
-    else:
-        Lnm_mrev, Lnm_h, C_req = math.inf, math.inf, 0.0
-    margin = bearing.C_N / C_req if C_req > 0.0 else math.inf
-    life_ratio = margin**p
-
-    st = static_check(bearing, sp.Fr_N, sp.Fa_N, ids, settings.s0_min)
-    notes.extend(st.warnings)
-    notes.extend(operating_warnings(bearing, eq.P_N, sp.speed_rpm, dyn, ids))
-    if not np.any(dyn):
-        notes.append(
-            f"bearing '{bearing.id}': no case enters the fatigue spectrum; life is infinite "
-            "and the verdict rests on static safety"
-        )
-
+    cu = num(la.Cu_N)
+    k0 = int(la.s0_case[0])
     cycles: float | None = None
     if sp.duration_in_hours:
-        cycles = duty_cycle_repetitions(Lnm_h, sp.duration)
-
-    life_ok = bool(Lnm_h >= target_h)
-    result = BearingLife(
+        cycles = duty_cycle_repetitions(num(la.Lnm_h), sp.duration)
+    life_ok = bool(la.life_ok[0])
+    static_ok = bool(la.static_ok[0])
+    return BearingLife(
         bearing_id=bearing.id,
         kind=bearing.kind.value,
         case_ids=ids,
-        P_N=eq.P_N,
-        P_design_N=P_design,
-        X=eq.X,
-        Y=eq.Y,
-        e=eq.e,
-        case_L10_mrev=L10_case,
-        case_L10_h=L10h_case,
-        aISO=aiso,
-        kappa=kappa_out,
-        nu_mm2_s=nu_out,
-        nu1_mm2_s=nu1_out,
-        ec=ec_out,
-        case_Lnm_h=Lnm_case_h,
-        P0_N=st.P0_N,
-        case_s0=st.s0_per_case,
-        dynamic=dyn,
-        weights=U,
-        static_only_cases=tuple(reasons),
-        P_eq_N=sl.Pm_N,
-        n_m_rpm=sl.n_m_rpm,
-        L10_mrev=sl.L10_mrev,
-        L10_h=sl.L10_h,
-        Lnm_mrev=Lnm_mrev,
-        Lnm_h=Lnm_h,
-        a1=a1,
-        reliability=R,
+        P_N=la.P_N[0],
+        P_design_N=la.P_design_N[0],
+        X=la.X[0],
+        Y=la.Y[0],
+        e=la.e[0],
+        case_L10_mrev=la.case_L10_mrev[0],
+        case_L10_h=la.case_L10_h[0],
+        aISO=la.aISO[0],
+        kappa=la.kappa[0],
+        nu_mm2_s=la.nu_mm2_s[0],
+        nu1_mm2_s=la.nu1_mm2_s[0],
+        ec=la.ec[0],
+        case_Lnm_h=la.case_Lnm_h[0],
+        P0_N=la.P0_N[0],
+        case_s0=la.case_s0[0],
+        dynamic=la.dynamic,
+        weights=la.weights,
+        static_only_cases=la.static_only_cases,
+        P_eq_N=num(la.P_eq_N),
+        n_m_rpm=la.n_m_rpm,
+        L10_mrev=num(la.L10_mrev),
+        L10_h=num(la.L10_h),
+        Lnm_mrev=num(la.Lnm_mrev),
+        Lnm_h=num(la.Lnm_h),
+        a1=num(la.a1),
+        reliability=num(la.reliability),
         reliability_method=settings.reliability_method,
-        life_basis=LIFE_BASIS_MODIFIED if use_mod else LIFE_BASIS_BASIC,
-        target_h=target_h,
-        C_required_N=C_req,
-        margin=margin,
-        life_ratio=life_ratio,
-        s0=st.s0,
-        s0_min=st.s0_min,
-        s0_case=None if st.s0_case_index is None else ids[st.s0_case_index],
+        life_basis=la.life_basis,
+        target_h=num(la.target_h),
+        C_required_N=num(la.C_required_N),
+        margin=num(la.margin),
+        life_ratio=num(la.life_ratio),
+        s0=num(la.s0),
+        s0_min=num(la.s0_min),
+        s0_case=None if k0 < 0 else ids[k0],
         cycles_of_duty=cycles,
         warnings=_dedupe(notes),
-        f0_estimated=eq.f0_estimated,
-        Cu_N=Cu_N,
-        Cu_estimated=Cu_est,
-        application_factor=af,
+        f0_estimated=bool(la.f0_estimated[0]),
+        Cu_N=None if math.isnan(cu) else cu,
+        Cu_estimated=bool(la.Cu_estimated[0]),
+        application_factor=la.application_factor,
         life_ok=life_ok,
-        static_ok=st.ok,
-        ok=life_ok and st.ok,
+        static_ok=static_ok,
+        ok=life_ok and static_ok,
     )
-    return result

@@ -22,15 +22,10 @@ from dataclasses import dataclass
 import numpy as np
 import numpy.typing as npt
 
-from shaftsys.bearings._util import (
-    FloatArray,
-    as_float_array,
-    case_name,
-    field,
-    zero_tolerance_N,
-)
+from shaftsys.bearings._util import BoolArray, FloatArray, as_float_array, case_name
+from shaftsys.bearings.arrays import BearingArrays, RowErrors
 from shaftsys.errors import ModelError
-from shaftsys.model.bearing import Bearing, BearingKind, SetArrangement
+from shaftsys.model.bearing import Bearing, BearingKind
 
 _log = logging.getLogger(__name__)
 
@@ -87,10 +82,6 @@ X_TAPERED_SINGLE = 0.4
 #: Fa/Fr above which a warning is issued for a cylindrical roller bearing with ribs
 #: (common practice, no source: occasional axial load).
 RIBBED_CYLINDRICAL_FA_FR_LIMIT = 0.4
-
-_DOUBLE = frozenset(
-    {SetArrangement.BACK_TO_BACK, SetArrangement.FACE_TO_FACE, SetArrangement.DOUBLE_ROW}
-)
 
 
 @dataclass(frozen=True)
@@ -227,59 +218,409 @@ def angular_contact_factors(
     return (out[0], out[1], out[2], out[3], out[4])
 
 
-def _switch(
-    Fr: FloatArray,
-    Fa: FloatArray,
-    e: FloatArray,
-    x_low: FloatArray,
-    y_low: FloatArray,
-    x_high: FloatArray,
-    y_high: FloatArray,
-) -> tuple[FloatArray, FloatArray, FloatArray]:
-    """Apply the e-switch: (P, X, Y) with "high" factors where Fa > e*Fr."""
-    high = Fa > e * Fr
-    X = np.where(high, x_high, x_low)
-    Y = np.where(high, y_high, y_low)
-    return X * Fr + Y * Fa, X, Y
+# --- array core: many rows (bearings, variants, catalogue rows) at once ----------------
+#: How P is formed per row (``DynamicFactors.mode``).
+MODE_RADIAL = 0  # P = Fr (cylindrical, needle roller)
+MODE_THRUST = 1  # P = Fa (thrust ball, 90 deg)
+MODE_SWITCH = 2  # e-switch with load-independent e, X, Y (maker's factors, overrides)
+MODE_DEEP_GROOVE = 3  # ISO 281 Table 3 on f0*Fa/C0r
+MODE_ANGULAR = 4  # ISO 281 Table 3, angular contact, interpolated on the angle
+
+#: Names of the factors that may come from the contact angle (``DynamicFactors.derived``).
+DERIVED_NAMES = ("e", "Y", "Y1", "Y2")
+
+_AC = np.asarray(AC_ANGLES)
+_nan = math.nan
+#: AC_FIXED as arrays indexed like AC_ANGLES (index 0 = 15 deg, load dependent, unused).
+_AC_FIX = np.array([[_nan] * 6] + [list(AC_FIXED[a]) for a in AC_ANGLES[1:]]).T
 
 
-def _require(bearing: Bearing, name: str, why: str) -> float:
-    value = getattr(bearing, name)
-    if value is None:
-        raise ModelError(
-            f"bearing '{bearing.id}' ({bearing.kind.value}) needs '{name}' {why}",
-            field=field(bearing, name),
-            line=bearing.line,
-            expected=f"a number for {name}, or contact_angle_deg to use the ISO 281 formula",
-        )
-    return float(value)
+@dataclass(frozen=True, eq=False)
+class DynamicFactors:
+    """Load-independent recipe of P = X*Fr + Y*Fa per row (shape (N,) each).
 
-
-def _angle_factors(
-    bearing: Bearing, names: Sequence[str], formulas: dict[str, float], notes: list[str]
-) -> dict[str, float]:
-    """Maker's factors ``names``; each missing one from the ISO formula via the angle.
-
-    ``formulas`` maps a factor name to its multiplier on cot(alpha) (or, for ``e``, on
-    tan(alpha)).
+    Attributes
+    ----------
+    mode: one of the ``MODE_*`` codes.
+    e, x_low, y_low, x_high, y_high: factors of :data:`MODE_SWITCH` rows [-].
+    rel_coef: f0 (deep groove) or f0*i (angular contact below 20 deg) [-]; the relative
+        axial load is rel_coef*Fa/C0r.
+    ac_lo, ac_hi, ac_w: bracketing indices into :data:`AC_ANGLES` and the weight of
+        ``ac_hi`` for angular contact rows.
+    f0: f0 used [-] (NaN when not needed); f0_estimated: it was estimated.
+    derived: (N, 4) values of e, Y, Y1, Y2 taken from the contact angle (NaN = not).
+    e_from_xy: e = (1 - X)/Y of an X/Y override; xy_ignored: override on P = Fr types.
+    errors: first user error per row (``None`` = fine).
     """
-    out: dict[str, float] = {}
-    alpha = bearing.contact_angle_deg
-    for name in names:
-        value = getattr(bearing, name)
-        if value is not None:
-            out[name] = float(value)
-            continue
-        if alpha is None or not (0.0 < alpha < 90.0):
-            _require(bearing, name, "(maker's factor) and has no contact angle to derive it")
-        assert alpha is not None
-        t = math.tan(math.radians(alpha))
-        out[name] = formulas[name] * (t if name == "e" else 1.0 / t)
+
+    mode: npt.NDArray[np.intp]
+    e: FloatArray
+    x_low: FloatArray
+    y_low: FloatArray
+    x_high: FloatArray
+    y_high: FloatArray
+    rel_coef: FloatArray
+    ac_lo: npt.NDArray[np.intp]
+    ac_hi: npt.NDArray[np.intp]
+    ac_w: FloatArray
+    f0: FloatArray
+    f0_estimated: BoolArray
+    derived: FloatArray
+    e_from_xy: BoolArray
+    xy_ignored: BoolArray
+    errors: tuple[ModelError | None, ...]
+
+
+@dataclass(frozen=True, eq=False)
+class EquivalentLoadArrays:
+    """Equivalent dynamic load of N rows and m cases.
+
+    Attributes
+    ----------
+    P_N: P [N], (N, m). X, Y, e: factors used [-], (N, m) (e NaN without an e-switch).
+    rel_load: f0*Fa/C0r (deep groove) [-], NaN elsewhere; over_table: it exceeds 6.89.
+    ribbed_axial: ribbed cylindrical roller case with Fa/Fr above the warning limit;
+    Fa_over_Fr: Fa/Fr [-] (inf where Fr = 0).
+    factors: the load-independent recipe; errors: first user error per row.
+    """
+
+    P_N: FloatArray
+    X: FloatArray
+    Y: FloatArray
+    e: FloatArray
+    rel_load: FloatArray
+    over_table: BoolArray
+    ribbed_axial: BoolArray
+    Fa_over_Fr: FloatArray
+    factors: DynamicFactors
+    errors: tuple[ModelError | None, ...]
+
+
+def estimate_f0_arrays(d_mm: FloatArray, D_mm: FloatArray, contact_angle_deg: FloatArray
+                       ) -> FloatArray:
+    """Vectorised :func:`estimate_f0` (NaN where D > d >= 0 does not hold) [-]."""
+    ok = (D_mm > d_mm) & (d_mm >= 0.0)
+    dw = BALL_DIAMETER_RATIO * (D_mm - d_mm)
+    dpw = 0.5 * (d_mm + D_mm)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        gamma = dw * np.cos(np.radians(contact_angle_deg)) / dpw
+    return np.where(ok, np.interp(np.where(ok, gamma, 0.0), F0_GAMMA, F0_VALUES), np.nan)
+
+
+def _missing_error(p: BearingArrays, i: int, name: str, why: str) -> ModelError:
+    return ModelError(
+        f"bearing '{p.ids[i]}' ({p.kind_value(i)}) needs '{name}' {why}",
+        field=p.field(i, name),
+        line=p.lines[i],
+        expected=f"a number for {name}, or contact_angle_deg to use the ISO 281 formula",
+    )
+
+
+def dynamic_factors(p: BearingArrays) -> DynamicFactors:
+    """Load-independent factors of every row (ISO 281:2007 Tables 3 and 4).
+
+    Parameters
+    ----------
+    p:
+        Bearing parameters (N, mm, deg).
+
+    Returns
+    -------
+    DynamicFactors
+        The recipe :func:`equivalent_dynamic_load_arrays` applies to the loads; rows with
+        a user error (missing maker's factor without contact angle, unsupported angle,
+        non-positive ratings) carry it in ``errors``.
+    """
+    n = len(p)
+    err = RowErrors(n)
+    err.add(~((p.C_N > 0.0) & (p.C0_N > 0.0)), lambda i: ModelError(
+        f"bearing '{p.ids[i]}' needs positive ratings C and C0",
+        field=p.field(i, "C_N" if not p.C_N[i] > 0.0 else "C0_N"),
+        line=p.lines[i],
+        expected="C > 0 and C0 > 0 [N]",
+    ))
+    K = BearingKind
+    radial = p.is_kind(K.CYLINDRICAL_ROLLER, K.NEEDLE_ROLLER)
+    has_x = ~np.isnan(p.X)
+    over = ~radial & has_x
+    thrust = p.is_kind(K.THRUST_BALL) & ~over
+    dg = p.is_kind(K.DEEP_GROOVE_BALL) & ~over
+    ac = p.is_kind(K.ANGULAR_CONTACT_BALL) & ~over
+    tap1 = p.is_kind(K.TAPERED_ROLLER) & ~p.double & ~over
+    pair = (p.is_kind(K.TAPERED_ROLLER) & p.double
+            | p.is_kind(K.SPHERICAL_ROLLER, K.SELF_ALIGNING_BALL)) & ~over
+    sab = p.is_kind(K.SELF_ALIGNING_BALL) & pair
+    mode = np.full(n, MODE_SWITCH, dtype=np.intp)
+    mode[radial] = MODE_RADIAL
+    mode[thrust] = MODE_THRUST
+    mode[dg] = MODE_DEEP_GROOVE
+    mode[ac] = MODE_ANGULAR
+    e = np.full(n, np.nan)
+    xl, yl, xh, yh = np.ones(n), np.zeros(n), np.ones(n), np.zeros(n)
+
+    # X/Y override
+    err.add(over & np.isnan(p.Y),
+            lambda i: _missing_error(p, i, "Y", "together with the X override"))
+    e_from_xy = over & np.isnan(p.e)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        e_xy = np.where(p.Y > 0.0, (1.0 - p.X) / np.where(p.Y > 0.0, p.Y, 1.0), math.inf)
+    e = np.where(over, np.where(e_from_xy, e_xy, p.e), e)
+    xh = np.where(over, p.X, xh)
+    yh = np.where(over, p.Y, yh)
+
+    # thrust ball at 90 deg
+    alpha = p.contact_angle_deg
+    err.add(thrust & ~np.isnan(alpha) & (np.abs(alpha - 90.0) > 1e-9), lambda i: ModelError(
+        f"bearing '{p.ids[i]}': thrust ball bearings with contact angle {alpha[i]:g} "
+        "deg are not built in",
+        field=p.field(i, "contact_angle_deg"),
+        line=p.lines[i],
+        expected="90 deg, or give X, Y and e",
+    ))
+
+    # deep groove and angular contact: f0 and the relative axial load
+    ac_ok = ~np.isnan(alpha) & (alpha >= AC_ANGLES[0] - 1e-9) & (alpha <= AC_ANGLES[-1] + 1e-9)
+    err.add(ac & ~ac_ok, lambda i: ModelError(
+        f"bearing '{p.ids[i]}': angular contact ball bearing needs a contact angle "
+        f"in 15..45 deg for ISO 281 Table 3 (got {p.given(i, 'contact_angle_deg')})",
+        field=p.field(i, "contact_angle_deg"),
+        line=p.lines[i],
+        expected="15 <= contact_angle_deg <= 45, or give X, Y and e",
+    ))
+    ac_table = ac & ac_ok & (alpha < AC_ANGLES[1] - 1e-9)
+    needs_f0 = dg | ac_table
+    f0_est = needs_f0 & np.isnan(p.f0)
+    f0_angle = np.where(ac_table, alpha, 0.0)
+    f0 = np.where(f0_est, estimate_f0_arrays(p.d_mm, p.D_mm, f0_angle), p.f0)
+    f0 = np.where(needs_f0, f0, np.nan)
+    err.add(f0_est & np.isnan(f0), lambda i: ModelError(
+        f"bearing '{p.ids[i]}': need D > d >= 0 to estimate f0, got d={p.d_mm[i]} mm, "
+        f"D={p.D_mm[i]} mm",
+        field=p.field(i, "f0"),
+        line=p.lines[i],
+        expected="f0, or D > d >= 0 [mm]",
+    ))
+    rel_coef = np.where(dg, f0, np.where(ac_table, f0 * p.rows, 0.0))
+    a = np.where(ac & ac_ok, alpha, AC_ANGLES[0])
+    idx = np.searchsorted(_AC, a - 1e-9)
+    top = np.minimum(idx, _AC.size - 1)
+    exact = np.abs(_AC[top] - a) <= 1e-9
+    lo = np.where(exact, top, np.maximum(idx - 1, 0))
+    hi = np.where(exact, top, top)
+    span = _AC[hi] - _AC[lo]
+    w = np.where(exact, 0.0, (a - _AC[lo]) / np.where(span > 0.0, span, 1.0))
+
+    # maker's factors or the ISO formula with the contact angle
+    derived = np.full((n, len(DERIVED_NAMES)), np.nan)
+    angle_ok = ~np.isnan(alpha) & (alpha > 0.0) & (alpha < 90.0)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        t = np.tan(np.radians(np.where(angle_ok, alpha, 45.0)))
+
+    def factor(rows_: BoolArray, name: str, coef: FloatArray) -> FloatArray:
+        given = getattr(p, name)
+        need = rows_ & np.isnan(given)
+        err.add(need & ~angle_ok, lambda i: _missing_error(
+            p, i, name, "(maker's factor) and has no contact angle to derive it"))
+        from_angle = coef * (t if name == "e" else 1.0 / t)
+        derived[:, DERIVED_NAMES.index(name)] = np.where(need & angle_ok, from_angle, np.nan)
+        return np.where(need, from_angle, given)
+
+    switch = tap1 | pair
+    e_s = factor(switch, "e", np.full(n, 1.5))
+    y_s = factor(tap1, "Y", np.full(n, 0.4))
+    y1_s = factor(pair, "Y1", np.where(sab, 0.42, 0.45))
+    y2_s = factor(pair, "Y2", np.where(sab, 0.65, 0.67))
+    e = np.where(switch, e_s, e)
+    yl = np.where(pair, y1_s, yl)
+    xh = np.where(tap1, X_TAPERED_SINGLE,
+                  np.where(pair, np.where(sab, X2_SELF_ALIGNING_BALL, X2_ROLLER), xh))
+    yh = np.where(tap1, y_s, np.where(pair, y2_s, yh))
+    return DynamicFactors(
+        mode=mode, e=e, x_low=xl, y_low=yl, x_high=xh, y_high=yh, rel_coef=rel_coef,
+        ac_lo=lo.astype(np.intp), ac_hi=hi.astype(np.intp), ac_w=w, f0=f0,
+        f0_estimated=f0_est, derived=derived, e_from_xy=e_from_xy,
+        xy_ignored=radial & has_x, errors=err.freeze(),
+    )
+
+
+def _ac_row(k: npt.NDArray[np.intp], rel: FloatArray, double: BoolArray
+            ) -> tuple[FloatArray, ...]:
+    """(e, X_low, Y_low, X_high, Y_high) of ISO 281 Table 3 rows ``k`` (N, 1) at ``rel``."""
+    t15 = k == 0
+    fix = _AC_FIX[:, k]  # (6, N, 1): e, X single, Y single, Y1 double, X2 double, Y2 double
+    e = np.where(t15, np.interp(rel, AC15_REL_LOAD, AC15_E), fix[0])
+    ones = np.ones_like(rel)
+    y_low = np.where(double, np.where(t15, np.interp(rel, AC15_REL_LOAD, AC15_Y1_DOUBLE),
+                                      fix[3]), 0.0)
+    x_high = np.where(double, np.where(t15, AC15_X2_DOUBLE, fix[4]),
+                      np.where(t15, AC15_X_SINGLE, fix[1]))
+    y_high = np.where(double, np.where(t15, np.interp(rel, AC15_REL_LOAD, AC15_Y2_DOUBLE),
+                                       fix[5]),
+                      np.where(t15, np.interp(rel, AC15_REL_LOAD, AC15_Y_SINGLE), fix[2]))
+    return e, ones, y_low * ones, x_high * ones, y_high * ones
+
+
+def _broadcast_loads(p: BearingArrays, Fr_N: npt.ArrayLike, Fa_N: npt.ArrayLike
+                     ) -> tuple[FloatArray, FloatArray]:
+    """Fr, |Fa| as (N, m) float arrays; ValueError on negative or non-finite loads."""
+    Fr = np.asarray(Fr_N, dtype=np.float64)
+    Fa = np.abs(np.asarray(Fa_N, dtype=np.float64))
+    if Fr.ndim == 1:
+        Fr = Fr[None, :]
+    if Fa.ndim == 1:
+        Fa = Fa[None, :]
+    m = max(Fr.shape[-1], Fa.shape[-1])
+    Fr, Fa = np.broadcast_to(Fr, (len(p), m)), np.broadcast_to(Fa, (len(p), m))
+    if np.any(Fr < 0.0) or not np.all(np.isfinite(Fr)) or not np.all(np.isfinite(Fa)):
+        raise ValueError("Fr_N must be finite and >= 0 and Fa_N finite")
+    return Fr, Fa
+
+
+def _first_case(mask: BoolArray) -> npt.NDArray[np.intp]:
+    """Index of the first True per row (0 where none)."""
+    return np.argmax(mask, axis=1) if mask.shape[1] else np.zeros(mask.shape[0], np.intp)
+
+
+def equivalent_dynamic_load_arrays(
+    p: BearingArrays,
+    Fr_N: npt.ArrayLike,
+    Fa_N: npt.ArrayLike,
+    case_ids: Sequence[str] | None = None,
+    factors: DynamicFactors | None = None,
+) -> EquivalentLoadArrays:
+    """Equivalent dynamic load P [N] of N rows for m cases (ISO 281:2007 6.2, 7.2).
+
+    Parameters
+    ----------
+    p:
+        Bearing parameters of N rows.
+    Fr_N, Fa_N:
+        Radial load magnitude (>= 0) and axial load (sign ignored) [N], broadcastable
+        to (N, m).
+    case_ids:
+        Case names for messages.
+    factors:
+        ``dynamic_factors(p)`` when already computed.
+
+    Returns
+    -------
+    EquivalentLoadArrays
+        Rows with a user error (axial load on a needle or rib-less cylindrical roller
+        bearing, radial load on a thrust ball bearing, or an error of the factors) carry
+        it in ``errors``; their numbers are not meaningful.
+    """
+    Fr, Fa = _broadcast_loads(p, Fr_N, Fa_N)
+    f = dynamic_factors(p) if factors is None else factors
+    err = RowErrors(len(p), f.errors)
+    tol = (1e-9 * np.maximum(np.abs(p.C_N), 1.0))[:, None]
+    mode = f.mode[:, None]
+    K = BearingKind
+    # P = Fr types: axial load only on ribbed cylindrical roller bearings
+    axial = Fa > tol
+    any_axial = np.any(axial, axis=1)
+    radial = f.mode == MODE_RADIAL
+    no_axial = p.is_kind(K.NEEDLE_ROLLER) | ~p.ribs
+    k_ax = _first_case(axial)
+    err.add(radial & any_axial & no_axial, lambda i: ModelError(
+        f"bearing '{p.ids[i]}' ("
+        f"{'needle roller' if p.is_kind(K.NEEDLE_ROLLER)[i] else 'cylindrical roller bearing without ribs'}"  # noqa: E501
+        f") carries axial load Fa = {Fa[i, k_ax[i]]:.6g} N in case "
+        f"{case_name(case_ids, int(k_ax[i]))}; it cannot take axial load",
+        field=p.field(i, "axial"),
+        line=p.lines[i],
+        expected="axial: float (or ribs: true for a cylindrical roller bearing)",
+    ))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        ratio = np.where(Fr > 0.0, Fa / np.where(Fr > 0.0, Fr, 1.0), np.inf)
+    ribbed = (radial & any_axial & ~no_axial)[:, None] & (ratio > RIBBED_CYLINDRICAL_FA_FR_LIMIT)
+    # P = Fa types: no radial load
+    radial_load = Fr > tol
+    k_r = _first_case(radial_load)
+    err.add((f.mode == MODE_THRUST) & np.any(radial_load, axis=1), lambda i: ModelError(
+        f"bearing '{p.ids[i]}' (thrust ball, 90 deg) carries radial load Fr = "
+        f"{Fr[i, k_r[i]]:.6g} N in case {case_name(case_ids, int(k_r[i]))}; it takes axial "
+        "load only",
+        field=p.field(i, "kind"),
+        line=p.lines[i],
+        expected="a radial support next to the thrust bearing",
+    ))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        rel = f.rel_coef[:, None] * Fa / p.C0_N[:, None]
+    # deep groove (Table 3)
+    dg = mode == MODE_DEEP_GROOVE
+    e = np.where(dg, np.interp(rel, DEEP_GROOVE_REL_LOAD, DEEP_GROOVE_E), f.e[:, None])
+    xl = np.where(dg, 1.0, f.x_low[:, None])
+    yl = np.where(dg, 0.0, f.y_low[:, None])
+    xh = np.where(dg, DEEP_GROOVE_X, f.x_high[:, None])
+    yh = np.where(dg, np.interp(rel, DEEP_GROOVE_REL_LOAD, DEEP_GROOVE_Y), f.y_high[:, None])
+    # angular contact (Table 3), interpolated on the angle
+    ac = f.mode == MODE_ANGULAR
+    if np.any(ac):
+        dbl = p.double[ac][:, None]
+        w = f.ac_w[ac][:, None]
+        lo = _ac_row(f.ac_lo[ac][:, None], rel[ac], dbl)
+        hi = _ac_row(f.ac_hi[ac][:, None], rel[ac], dbl)
+        vals = [(1.0 - w) * a + w * b for a, b in zip(lo, hi, strict=True)]
+        e, xl, yl, xh, yh = (np.array(np.broadcast_to(v, Fr.shape)) for v in (e, xl, yl, xh, yh))
+        e[ac], xl[ac], yl[ac], xh[ac], yh[ac] = vals
+    with np.errstate(invalid="ignore"):
+        high = Fa > e * Fr
+        X = np.where(high, xh, xl)
+        Y = np.where(high, yh, yl)
+        P = X * Fr + Y * Fa
+    r_rows, t_rows = mode == MODE_RADIAL, mode == MODE_THRUST
+    P = np.where(r_rows, Fr, np.where(t_rows, Fa, P))
+    X = np.where(r_rows, 1.0, np.where(t_rows, 0.0, X))
+    Y = np.where(r_rows, 0.0, np.where(t_rows, 1.0, Y))
+    e = np.where(r_rows | t_rows, np.nan, np.broadcast_to(e, Fr.shape))
+    rel_out = np.where(dg, rel, np.nan)
+    return EquivalentLoadArrays(
+        P_N=P, X=X, Y=Y, e=e, rel_load=rel_out,
+        over_table=dg & (rel > DEEP_GROOVE_REL_LOAD[-1]),
+        ribbed_axial=ribbed, Fa_over_Fr=ratio, factors=f, errors=err.freeze(),
+    )
+
+
+def dynamic_load_notes(
+    p: BearingArrays, eq: EquivalentLoadArrays, i: int, case_ids: Sequence[str] | None = None
+) -> list[str]:
+    """Warnings of row ``i`` (estimated f0, factors from the angle, table limits)."""
+    f = eq.factors
+    bid = p.ids[i]
+    notes: list[str] = []
+    for k in np.flatnonzero(eq.ribbed_axial[i]):
         notes.append(
-            f"bearing '{bearing.id}': {name} = {out[name]:.4g} from the ISO 281:2007 "
-            f"formula with contact angle {alpha:g} deg (maker's value not given)"
+            f"bearing '{bid}', case {case_name(case_ids, int(k))}: axial load "
+            f"on ribbed cylindrical roller bearing Fa/Fr = {eq.Fa_over_Fr[i, k]:.3g} > "
+            f"{RIBBED_CYLINDRICAL_FA_FR_LIMIT} (common practice, no source); P "
+            "uses Fr only - check the maker's axial-load rules"
         )
-    return out
+    if f.xy_ignored[i]:
+        notes.append(f"bearing '{bid}': X/Y override ignored (P = Fr for {p.kind_value(i)})")
+    if f.e_from_xy[i]:
+        notes.append(
+            f"bearing '{bid}': e not given with X/Y override; e = (1 - X)/Y = "
+            f"{f.e[i]:.4g} (where X*Fr + Y*Fa = Fr)"
+        )
+    if f.f0_estimated[i]:
+        notes.append(
+            f"bearing '{bid}': f0 not given, estimated f0 = {f.f0[i]:.3g} from "
+            "Dw ~ 0.3*(D-d), Dpw = (d+D)/2 and the ISO 76 f0 table (common practice)"
+        )
+    for k in np.flatnonzero(eq.over_table[i]):
+        notes.append(
+            f"bearing '{bid}', case {case_name(case_ids, int(k))}: f0*Fa/C0 = "
+            f"{eq.rel_load[i, k]:.3g} above ISO 281 Table 3 range ({DEEP_GROOVE_REL_LOAD[-1]}); "
+            "last table values used - the permissible axial load depends on the design"
+        )
+    for j, name in enumerate(DERIVED_NAMES):
+        if not np.isnan(f.derived[i, j]):
+            notes.append(
+                f"bearing '{bid}': {name} = {f.derived[i, j]:.4g} from the ISO 281:2007 "
+                f"formula with contact angle {p.contact_angle_deg[i]:g} deg (maker's value "
+                "not given)"
+            )
+    return notes
 
 
 def equivalent_dynamic_load(
@@ -289,6 +630,8 @@ def equivalent_dynamic_load(
     case_ids: Sequence[str] | None = None,
 ) -> EquivalentLoad:
     """Equivalent dynamic load P [N] of ``bearing`` for every case.
+
+    A one-row wrapper of :func:`equivalent_dynamic_load_arrays`.
 
     Parameters
     ----------
@@ -316,168 +659,16 @@ def equivalent_dynamic_load(
     Fa = np.abs(as_float_array(Fa_N, "Fa_N"))
     if Fr.shape != Fa.shape:
         raise ValueError(f"Fr_N and Fa_N differ in shape: {Fr.shape} vs {Fa.shape}")
-    if np.any(Fr < 0.0) or not np.all(np.isfinite(Fr)) or not np.all(np.isfinite(Fa)):
-        raise ValueError("Fr_N must be finite and >= 0 and Fa_N finite")
-    if not (bearing.C_N > 0.0 and bearing.C0_N > 0.0):
-        raise ModelError(
-            f"bearing '{bearing.id}' needs positive ratings C and C0",
-            field=field(bearing, "C_N" if not bearing.C_N > 0.0 else "C0_N"),
-            line=bearing.line,
-            expected="C > 0 and C0 > 0 [N]",
-        )
-    kind = bearing.kind
-    tol = zero_tolerance_N(bearing)
-    notes: list[str] = []
-    ones = np.ones_like(Fr)
-    nan = np.full_like(Fr, np.nan)
-    f0: float | None = None
-    f0_est = False
-    double = bearing.arrangement in _DOUBLE
-    i_rows = max(int(bearing.rows), 1)
-
-    def done(P: FloatArray, X: FloatArray, Y: FloatArray, e: FloatArray) -> EquivalentLoad:
-        for note in notes:
-            _log.warning(note)
-        return EquivalentLoad(P, X, Y, e, f0, f0_est, tuple(notes))
-
-    # --- types without an e-switch -------------------------------------------------
-    if kind in (BearingKind.CYLINDRICAL_ROLLER, BearingKind.NEEDLE_ROLLER):
-        bad = np.nonzero(Fa > tol)[0]
-        if bad.size and (kind is BearingKind.NEEDLE_ROLLER or not bearing.ribs):
-            k = int(bad[0])
-            what = (
-                "needle roller"
-                if kind is BearingKind.NEEDLE_ROLLER
-                else ("cylindrical roller bearing without ribs")
-            )
-            raise ModelError(
-                f"bearing '{bearing.id}' ({what}) carries axial load Fa = {Fa[k]:.6g} N in "
-                f"case {case_name(case_ids, k)}; it cannot take axial load",
-                field=field(bearing, "axial"),
-                line=bearing.line,
-                expected="axial: float (or ribs: true for a cylindrical roller bearing)",
-            )
-        if bad.size:
-            ratio = np.where(Fr > 0.0, Fa / np.where(Fr > 0.0, Fr, 1.0), np.inf)
-            for kk in np.nonzero(ratio > RIBBED_CYLINDRICAL_FA_FR_LIMIT)[0]:
-                notes.append(
-                    f"bearing '{bearing.id}', case {case_name(case_ids, int(kk))}: axial load "
-                    f"on ribbed cylindrical roller bearing Fa/Fr = {ratio[kk]:.3g} > "
-                    f"{RIBBED_CYLINDRICAL_FA_FR_LIMIT} (common practice, no source); P "
-                    "uses Fr only - check the maker's axial-load rules"
-                )
-        if bearing.X is not None:
-            notes.append(f"bearing '{bearing.id}': X/Y override ignored (P = Fr for {kind})")
-        return done(Fr.copy(), ones.copy(), 0.0 * ones, nan)
-
-    # --- user override ----------------------------------------------------------------
-    if bearing.X is not None:
-        X_u = float(bearing.X)
-        Y_u = _require(bearing, "Y", "together with the X override")
-        if bearing.e is not None:
-            e_u = float(bearing.e)
-        elif Y_u > 0.0:
-            e_u = (1.0 - X_u) / Y_u
-            notes.append(
-                f"bearing '{bearing.id}': e not given with X/Y override; e = (1 - X)/Y = "
-                f"{e_u:.4g} (where X*Fr + Y*Fa = Fr)"
-            )
-        else:
-            e_u = math.inf
-        e_arr = e_u * ones
-        P, X, Y = _switch(Fr, Fa, e_arr, ones, 0.0 * ones, X_u * ones, Y_u * ones)
-        return done(P, X, Y, e_arr)
-
-    if kind is BearingKind.THRUST_BALL:
-        alpha = bearing.contact_angle_deg
-        if alpha is not None and abs(alpha - 90.0) > 1e-9:
-            raise ModelError(
-                f"bearing '{bearing.id}': thrust ball bearings with contact angle {alpha:g} "
-                "deg are not built in",
-                field=field(bearing, "contact_angle_deg"),
-                line=bearing.line,
-                expected="90 deg, or give X, Y and e",
-            )
-        bad = np.nonzero(Fr > tol)[0]
-        if bad.size:
-            k = int(bad[0])
-            raise ModelError(
-                f"bearing '{bearing.id}' (thrust ball, 90 deg) carries radial load Fr = "
-                f"{Fr[k]:.6g} N in case {case_name(case_ids, k)}; it takes axial load only",
-                field=field(bearing, "kind"),
-                line=bearing.line,
-                expected="a radial support next to the thrust bearing",
-            )
-        return done(Fa.copy(), 0.0 * ones, ones.copy(), nan)
-
-    if kind is BearingKind.DEEP_GROOVE_BALL:
-        if bearing.f0 is None:
-            f0 = estimate_f0(bearing.d_mm, bearing.D_mm, 0.0)
-            f0_est = True
-            notes.append(
-                f"bearing '{bearing.id}': f0 not given, estimated f0 = {f0:.3g} from "
-                "Dw ~ 0.3*(D-d), Dpw = (d+D)/2 and the ISO 76 f0 table (common practice)"
-            )
-        else:
-            f0 = float(bearing.f0)
-        rel = f0 * Fa / bearing.C0_N
-        over = np.nonzero(rel > DEEP_GROOVE_REL_LOAD[-1])[0]
-        for kk in over:
-            notes.append(
-                f"bearing '{bearing.id}', case {case_name(case_ids, int(kk))}: f0*Fa/C0 = "
-                f"{rel[kk]:.3g} above ISO 281 Table 3 range ({DEEP_GROOVE_REL_LOAD[-1]}); "
-                "last table values used - the permissible axial load depends on the design"
-            )
-        e, Yh = deep_groove_factors(rel)
-        P, X, Y = _switch(Fr, Fa, e, ones, 0.0 * ones, DEEP_GROOVE_X * ones, Yh)
-        return done(P, X, Y, e)
-
-    if kind is BearingKind.ANGULAR_CONTACT_BALL:
-        alpha = bearing.contact_angle_deg
-        if alpha is None or not (AC_ANGLES[0] - 1e-9 <= alpha <= AC_ANGLES[-1] + 1e-9):
-            raise ModelError(
-                f"bearing '{bearing.id}': angular contact ball bearing needs a contact angle "
-                f"in 15..45 deg for ISO 281 Table 3 (got {alpha})",
-                field=field(bearing, "contact_angle_deg"),
-                line=bearing.line,
-                expected="15 <= contact_angle_deg <= 45, or give X, Y and e",
-            )
-        rel = np.zeros_like(Fr)
-        if alpha < AC_ANGLES[1] - 1e-9:
-            if bearing.f0 is None:
-                f0 = estimate_f0(bearing.d_mm, bearing.D_mm, alpha)
-                f0_est = True
-                notes.append(
-                    f"bearing '{bearing.id}': f0 not given, estimated f0 = {f0:.3g} from "
-                    "Dw ~ 0.3*(D-d), Dpw = (d+D)/2 and the ISO 76 f0 table (common practice)"
-                )
-            else:
-                f0 = float(bearing.f0)
-            rel = f0 * i_rows * Fa / bearing.C0_N
-        e, xl, yl, xh, yh = angular_contact_factors(alpha, rel, double)
-        P, X, Y = _switch(Fr, Fa, e, xl, yl, xh, yh)
-        return done(P, X, Y, e)
-
-    if kind is BearingKind.TAPERED_ROLLER and not double:
-        f = _angle_factors(bearing, ("e", "Y"), {"e": 1.5, "Y": 0.4}, notes)
-        e = f["e"] * ones
-        P, X, Y = _switch(Fr, Fa, e, ones, 0.0 * ones, X_TAPERED_SINGLE * ones, f["Y"] * ones)
-        return done(P, X, Y, e)
-
-    if kind in (
-        BearingKind.TAPERED_ROLLER,
-        BearingKind.SPHERICAL_ROLLER,
-        BearingKind.SELF_ALIGNING_BALL,
-    ):
-        if kind is BearingKind.SELF_ALIGNING_BALL:
-            coef = {"e": 1.5, "Y1": 0.42, "Y2": 0.65}
-            x2 = X2_SELF_ALIGNING_BALL
-        else:
-            coef = {"e": 1.5, "Y1": 0.45, "Y2": 0.67}
-            x2 = X2_ROLLER
-        f = _angle_factors(bearing, ("e", "Y1", "Y2"), coef, notes)
-        e = f["e"] * ones
-        P, X, Y = _switch(Fr, Fa, e, ones, f["Y1"] * ones, x2 * ones, f["Y2"] * ones)
-        return done(P, X, Y, e)
-
-    raise ValueError(f"unknown bearing kind {kind!r}")  # pragma: no cover
+    p = BearingArrays.from_bearings([bearing])
+    eq = equivalent_dynamic_load_arrays(p, Fr[None, :], Fa[None, :], case_ids)
+    exc = eq.errors[0]
+    if exc is not None:
+        raise exc
+    notes = dynamic_load_notes(p, eq, 0, case_ids)
+    for note in notes:
+        _log.warning(note)
+    f0 = float(eq.factors.f0[0])
+    return EquivalentLoad(
+        eq.P_N[0], eq.X[0], eq.Y[0], eq.e[0], None if math.isnan(f0) else f0,
+        bool(eq.factors.f0_estimated[0]), tuple(notes),
+    )

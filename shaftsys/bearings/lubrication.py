@@ -141,7 +141,7 @@ def viscosity_at(
     return np.atleast_1d(10.0 ** (10.0 ** (A - B * np.log10(t + KELVIN))) - WALTHER_C)
 
 
-def reference_viscosity(speed_rpm: npt.ArrayLike, dm_mm: float) -> FloatArray:
+def reference_viscosity(speed_rpm: npt.ArrayLike, dm_mm: npt.ArrayLike) -> FloatArray:
     """ISO 281:2007 reference kinematic viscosity nu1 [mm^2/s].
 
     nu1 = 45000*n^-0.83*dm^-0.5 (n < 1000 rpm); nu1 = 4500*n^-0.5*dm^-0.5 (n >= 1000).
@@ -151,7 +151,7 @@ def reference_viscosity(speed_rpm: npt.ArrayLike, dm_mm: float) -> FloatArray:
     speed_rpm:
         Speed(s) [rpm] (sign ignored, must be non-zero).
     dm_mm:
-        Mean diameter (d + D)/2 [mm].
+        Mean diameter (d + D)/2 [mm] (an array broadcasts against ``speed_rpm``).
 
     Returns
     -------
@@ -159,10 +159,11 @@ def reference_viscosity(speed_rpm: npt.ArrayLike, dm_mm: float) -> FloatArray:
         nu1 [mm^2/s].
     """
     n = np.abs(np.atleast_1d(np.asarray(speed_rpm, dtype=np.float64)))
-    if np.any(n <= 0.0) or dm_mm <= 0.0:
+    dm = np.asarray(dm_mm, dtype=np.float64)
+    if np.any(n <= 0.0) or np.any(dm <= 0.0):
         raise ValueError("reference viscosity needs n > 0 rpm and dm > 0 mm")
-    slow = 45000.0 * n**-0.83 * dm_mm**-0.5
-    fast = 4500.0 * n**-0.5 * dm_mm**-0.5
+    slow = 45000.0 * n**-0.83 * dm**-0.5
+    fast = 4500.0 * n**-0.5 * dm**-0.5
     return np.where(n < 1000.0, slow, fast)
 
 
@@ -268,7 +269,9 @@ def contamination_constants(
     return c1, c2, notes
 
 
-def contamination_factor(c1: float, c2: float, kappa: npt.ArrayLike, dm_mm: float) -> FloatArray:
+def contamination_factor(
+    c1: float, c2: float, kappa: npt.ArrayLike, dm_mm: npt.ArrayLike
+) -> FloatArray:
     """ISO 281:2007 Annex A ec = c1*kappa^0.68*dm^0.55*(1 - c2/dm^(1/3)), in [0, 1].
 
     Parameters
@@ -278,7 +281,7 @@ def contamination_factor(c1: float, c2: float, kappa: npt.ArrayLike, dm_mm: floa
     kappa:
         Viscosity ratio(s) [-] (already limited to <= 4).
     dm_mm:
-        Mean diameter [mm].
+        Mean diameter [mm] (an array broadcasts against ``kappa``).
 
     Returns
     -------
@@ -286,8 +289,33 @@ def contamination_factor(c1: float, c2: float, kappa: npt.ArrayLike, dm_mm: floa
         ec [-].
     """
     k = np.atleast_1d(np.asarray(kappa, dtype=np.float64))
-    ec = c1 * k**0.68 * dm_mm**0.55 * (1.0 - c2 / dm_mm ** (1.0 / 3.0))
+    dm = np.asarray(dm_mm, dtype=np.float64)
+    ec = c1 * k**0.68 * dm**0.55 * (1.0 - c2 / dm ** (1.0 / 3.0))
     return np.clip(ec, 0.0, 1.0)
+
+
+def estimate_fatigue_load_limit_arrays(
+    C0_N: npt.ArrayLike, dm_mm: npt.ArrayLike, roller: npt.ArrayLike
+) -> FloatArray:
+    """Vectorised :func:`estimate_fatigue_load_limit`: Cu [N] per row.
+
+    Parameters
+    ----------
+    C0_N:
+        Basic static load ratings [N].
+    dm_mm:
+        Mean diameters [mm].
+    roller:
+        True for roller rows, False for ball rows.
+    """
+    C0 = np.asarray(C0_N, dtype=np.float64)
+    dm = np.asarray(dm_mm, dtype=np.float64)
+    rol = np.asarray(roller, dtype=bool)
+    cu = np.where(rol, C0 / CU_DIVISOR_ROLLER, C0 / CU_DIVISOR_BALL)
+    exp = np.where(rol, CU_EXP_ROLLER, CU_EXP_BALL)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        scaled = cu * (CU_DM_REF_MM / dm) ** exp
+    return np.where(dm > CU_DM_REF_MM, scaled, cu)
 
 
 def estimate_fatigue_load_limit(C0_N: float, dm_mm: float, kind: BearingKind) -> float:
@@ -321,6 +349,54 @@ def estimate_fatigue_load_limit(C0_N: float, dm_mm: float, kind: BearingKind) ->
     return cu
 
 
+def a_iso_arrays(
+    kappa: npt.ArrayLike,
+    ec_Cu_over_P: npt.ArrayLike,
+    roller: npt.ArrayLike,
+    thrust_ball: npt.ArrayLike,
+) -> FloatArray:
+    """Vectorised :func:`a_iso` with the type as masks (broadcast against ``kappa``).
+
+    Parameters
+    ----------
+    kappa:
+        Viscosity ratio(s) [-], 0.1 <= kappa <= 4.
+    ec_Cu_over_P:
+        ec*Cu/P [-].
+    roller:
+        True where the row is a roller bearing.
+    thrust_ball:
+        True where the row is a thrust ball bearing (uses ec*Cu/(3P)).
+
+    Returns
+    -------
+    numpy.ndarray
+        aISO [-], at most 50.
+    """
+    k = np.atleast_1d(np.asarray(kappa, dtype=np.float64))
+    r = np.atleast_1d(np.asarray(ec_Cu_over_P, dtype=np.float64))
+    if np.any(k < KAPPA_MIN - 1e-12) or np.any(k > KAPPA_MAX + 1e-12):
+        raise ValueError(f"aISO needs {KAPPA_MIN} <= kappa <= {KAPPA_MAX}, got {k}")
+    if np.any(r < 0.0):
+        raise ValueError("ec*Cu/P must be >= 0")
+    rol = np.asarray(roller, dtype=bool)
+    low = k < 0.4
+    mid = (k >= 0.4) & (k < 1.0)
+    q = np.where(low, 0.054381, np.where(mid, 0.19087, 0.071739))
+    with np.errstate(invalid="ignore"):
+        kq = k**q
+        c_r = np.where(low, 1.3993, 1.2348)
+        term_r = (1.5859 - c_r / kq) * r**0.4
+        r_b = np.where(thrust_ball, r / 3.0, r)
+        c_b = np.where(low, 2.2649, 1.9987)
+        term_b = (2.5671 - c_b / kq) ** 0.83 * r_b ** (1.0 / 3.0)
+    base = 1.0 - np.where(rol, term_r, term_b)
+    exponent = np.where(rol, -9.185, -9.3)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        value = np.where(base > 0.0, 0.1 * np.where(base > 0.0, base, 1.0) ** exponent, np.inf)
+    return np.minimum(value, AISO_MAX)
+
+
 def a_iso(kappa: npt.ArrayLike, ec_Cu_over_P: npt.ArrayLike, kind: BearingKind) -> FloatArray:
     """Life modification factor aISO [-] (ISO 281:2007 9.3.2), capped at 50.
 
@@ -345,29 +421,27 @@ def a_iso(kappa: npt.ArrayLike, ec_Cu_over_P: npt.ArrayLike, kind: BearingKind) 
     numpy.ndarray
         aISO [-], at most 50.
     """
+    return a_iso_arrays(kappa, ec_Cu_over_P, kind.is_roller, kind is BearingKind.THRUST_BALL)
+
+
+def a_iso_with_ep_arrays(
+    kappa: npt.ArrayLike,
+    ec: npt.ArrayLike,
+    Cu_over_P: npt.ArrayLike,
+    roller: npt.ArrayLike,
+    thrust_ball: npt.ArrayLike,
+    ep_additives: bool,
+) -> tuple[FloatArray, npt.NDArray[np.bool_]]:
+    """Vectorised :func:`a_iso_with_ep` with the type as masks; (aISO, relief mask)."""
     k = np.atleast_1d(np.asarray(kappa, dtype=np.float64))
-    r = np.atleast_1d(np.asarray(ec_Cu_over_P, dtype=np.float64))
-    if np.any(k < KAPPA_MIN - 1e-12) or np.any(k > KAPPA_MAX + 1e-12):
-        raise ValueError(f"aISO needs {KAPPA_MIN} <= kappa <= {KAPPA_MAX}, got {k}")
-    if np.any(r < 0.0):
-        raise ValueError("ec*Cu/P must be >= 0")
-    low = k < 0.4
-    mid = (k >= 0.4) & (k < 1.0)
-    q = np.where(low, 0.054381, np.where(mid, 0.19087, 0.071739))
-    if kind.is_roller:
-        c = np.where(low, 1.3993, 1.2348)
-        term = (1.5859 - c / k**q) * r**0.4
-        exponent = -9.185
-    else:
-        if kind is BearingKind.THRUST_BALL:
-            r = r / 3.0
-        c = np.where(low, 2.2649, 1.9987)
-        term = (2.5671 - c / k**q) ** 0.83 * r ** (1.0 / 3.0)
-        exponent = -9.3
-    base = 1.0 - term
-    with np.errstate(divide="ignore", invalid="ignore"):
-        value = np.where(base > 0.0, 0.1 * np.where(base > 0.0, base, 1.0) ** exponent, np.inf)
-    return np.minimum(value, AISO_MAX)
+    ecu = np.atleast_1d(np.asarray(ec, dtype=np.float64) * np.asarray(Cu_over_P))
+    ec_arr = np.broadcast_to(np.asarray(ec, dtype=np.float64), k.shape)
+    plain = a_iso_arrays(k, ecu, roller, thrust_ball)
+    if not ep_additives:
+        return plain, np.zeros(k.shape, dtype=bool)
+    use = (k < 1.0) & (ec_arr >= EP_EC_MIN)
+    relieved = np.minimum(a_iso_arrays(np.ones_like(k), ecu, roller, thrust_ball), EP_AISO_MAX)
+    return np.where(use, np.maximum(plain, relieved), plain), use
 
 
 def a_iso_with_ep(
@@ -400,12 +474,6 @@ def a_iso_with_ep(
     (aISO, relief_applied):
         Arrays, the second a boolean mask of the cases where the relief was used.
     """
-    k = np.atleast_1d(np.asarray(kappa, dtype=np.float64))
-    ecu = np.atleast_1d(np.asarray(ec, dtype=np.float64) * np.asarray(Cu_over_P))
-    ec_arr = np.broadcast_to(np.asarray(ec, dtype=np.float64), k.shape)
-    plain = a_iso(k, ecu, kind)
-    if not ep_additives:
-        return plain, np.zeros(k.shape, dtype=bool)
-    use = (k < 1.0) & (ec_arr >= EP_EC_MIN)
-    relieved = np.minimum(a_iso(np.ones_like(k), ecu, kind), EP_AISO_MAX)
-    return np.where(use, np.maximum(plain, relieved), plain), use
+    return a_iso_with_ep_arrays(
+        kappa, ec, Cu_over_P, kind.is_roller, kind is BearingKind.THRUST_BALL, ep_additives
+    )

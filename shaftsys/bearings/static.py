@@ -22,11 +22,10 @@ from shaftsys.bearings._util import (
     FloatArray,
     as_float_array,
     case_name,
-    field,
-    zero_tolerance_N,
 )
+from shaftsys.bearings.arrays import BearingArrays, RowErrors
 from shaftsys.errors import ModelError
-from shaftsys.model.bearing import Bearing, BearingKind, SetArrangement
+from shaftsys.model.bearing import Bearing, BearingKind
 
 _log = logging.getLogger(__name__)
 
@@ -55,10 +54,6 @@ S0_MIN_ROLLER = 1.5
 #: Minimum load to avoid skidding, fraction of C: common practice, no source.
 MIN_LOAD_FRACTION_BALL = 0.01
 MIN_LOAD_FRACTION_ROLLER = 0.02
-
-_DOUBLE = frozenset(
-    {SetArrangement.BACK_TO_BACK, SetArrangement.FACE_TO_FACE, SetArrangement.DOUBLE_ROW}
-)
 
 
 @dataclass(frozen=True)
@@ -109,21 +104,103 @@ def default_s0_min(kind: BearingKind) -> float:
     return S0_MIN_ROLLER if kind.is_roller else S0_MIN_BALL
 
 
-def _cot_alpha(bearing: Bearing, notes: list[str]) -> float:
-    alpha = bearing.contact_angle_deg
-    if alpha is not None and 0.0 < alpha < 90.0:
-        return 1.0 / math.tan(math.radians(alpha))
-    if bearing.e is not None and bearing.e > 0.0:
-        notes.append(
-            f"bearing '{bearing.id}': Y0 not given; derived from e via e = 1.5*tan(alpha) "
-            "(ISO 281 Table 4) and the ISO 76 formula"
-        )
-        return 1.5 / float(bearing.e)
-    raise ModelError(
-        f"bearing '{bearing.id}' ({bearing.kind.value}) needs Y0 for the static load",
-        field=field(bearing, "Y0"),
-        line=bearing.line,
+@dataclass(frozen=True, eq=False)
+class StaticFactors:
+    """ISO 76:2006 factors of N rows (shape (N,) each).
+
+    Attributes
+    ----------
+    X0, Y0: static radial and axial factors [-].
+    floor_at_Fr: P0 = max(Fr, X0*Fr + Y0*Fa) applies.
+    y0_from_e: Y0 was derived from e (no contact angle).
+    errors: first user error per row (``None`` = fine).
+    """
+
+    X0: FloatArray
+    Y0: FloatArray
+    floor_at_Fr: BoolArray
+    y0_from_e: BoolArray
+    errors: tuple[ModelError | None, ...]
+
+
+def static_factors_arrays(p: BearingArrays) -> StaticFactors:
+    """ISO 76:2006 factors of every row; see :func:`static_factors` for the rules.
+
+    Rows that need Y0 and have neither Y0, a contact angle nor e, angular contact rows
+    without Y0 outside 15..45 deg and thrust ball rows not at 90 deg carry a ModelError.
+    """
+    n = len(p)
+    err = RowErrors(n)
+    K = BearingKind
+    double = p.double
+    alpha = p.contact_angle_deg
+    has_y0 = ~np.isnan(p.Y0)
+    radial = p.is_kind(K.CYLINDRICAL_ROLLER, K.NEEDLE_ROLLER)
+    thrust = p.is_kind(K.THRUST_BALL)
+    dg = p.is_kind(K.DEEP_GROOVE_BALL)
+    ac = p.is_kind(K.ANGULAR_CONTACT_BALL)
+    tap1 = p.is_kind(K.TAPERED_ROLLER) & ~double
+    other = p.is_kind(K.TAPERED_ROLLER) & double | p.is_kind(K.SPHERICAL_ROLLER,
+                                                              K.SELF_ALIGNING_BALL)
+    x0 = np.ones(n)
+    y0 = np.zeros(n)
+    floor = np.zeros(n, dtype=bool)
+    err.add(thrust & ~np.isnan(alpha) & (np.abs(alpha - 90.0) > 1e-9), lambda i: ModelError(
+        f"bearing '{p.ids[i]}': static load of thrust ball bearings with contact "
+        f"angle {alpha[i]:g} deg is not built in",
+        field=p.field(i, "contact_angle_deg"),
+        line=p.lines[i],
+        expected="90 deg",
+    ))
+    x0[thrust] = 0.0
+    y0[thrust] = 1.0
+    x0[dg] = X0_DEEP_GROOVE
+    y0[dg] = np.where(has_y0, p.Y0, Y0_DEEP_GROOVE)[dg]
+    floor[dg] = True
+    # angular contact: tabulated Y0 on the angle
+    angles = sorted(Y0_ANGULAR)
+    ok = ~np.isnan(alpha) & (alpha >= angles[0] - 1e-9) & (alpha <= angles[-1] + 1e-9)
+    err.add(ac & ~has_y0 & ~ok, lambda i: ModelError(
+        f"bearing '{p.ids[i]}': angular contact ball bearing needs a contact angle "
+        f"in 15..45 deg or Y0 (got {p.given(i, 'contact_angle_deg')})",
+        field=p.field(i, "contact_angle_deg"),
+        line=p.lines[i],
+        expected="15 <= contact_angle_deg <= 45, or Y0",
+    ))
+    a_ok = np.where(ok, alpha, angles[0])
+    y0_tab = np.where(double, np.interp(a_ok, angles, [Y0_ANGULAR[a][1] for a in angles]),
+                      np.interp(a_ok, angles, [Y0_ANGULAR[a][0] for a in angles]))
+    x0[ac] = np.where(double, 1.0, 0.5)[ac]
+    y0[ac] = np.where(has_y0, p.Y0, y0_tab)[ac]
+    floor[ac] = ~double[ac]
+    # roller bearings with alpha != 0 and self-aligning ball: Y0 from cot(alpha)
+    angle_ok = ~np.isnan(alpha) & (alpha > 0.0) & (alpha < 90.0)
+    e_ok = ~np.isnan(p.e) & (p.e > 0.0)
+    need = (tap1 | other) & ~has_y0
+    y0_from_e = need & ~angle_ok & e_ok
+    err.add(need & ~angle_ok & ~e_ok, lambda i: ModelError(
+        f"bearing '{p.ids[i]}' ({p.kind_value(i)}) needs Y0 for the static load",
+        field=p.field(i, "Y0"),
+        line=p.lines[i],
         expected="Y0, or contact_angle_deg / e to derive it",
+    ))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        cot = np.where(angle_ok, 1.0 / np.tan(np.radians(np.where(angle_ok, alpha, 45.0))),
+                       1.5 / np.where(e_ok, p.e, 1.0))
+    x0[tap1] = 0.5
+    y0[tap1] = np.where(has_y0, p.Y0, Y0_COT_SINGLE * cot)[tap1]
+    floor[tap1] = True
+    x0[other] = 1.0
+    y0[other] = np.where(has_y0, p.Y0, Y0_COT_DOUBLE * cot)[other]
+    x0[radial] = 1.0
+    y0[radial] = 0.0
+    return StaticFactors(x0, y0, floor, y0_from_e, err.freeze())
+
+
+def _y0_note(bearing_id: str) -> str:
+    return (
+        f"bearing '{bearing_id}': Y0 not given; derived from e via e = 1.5*tan(alpha) "
+        "(ISO 281 Table 4) and the ISO 76 formula"
     )
 
 
@@ -131,63 +208,64 @@ def static_factors(bearing: Bearing) -> tuple[float, float, bool, tuple[str, ...
     """ISO 76:2006 factors (X0, Y0, floor_at_Fr, notes) for ``bearing``.
 
     ``floor_at_Fr`` means P0 = max(Fr, X0*Fr + Y0*Fa). Pure thrust ball bearings return
-    X0 = 0, Y0 = 1; cylindrical and needle roller bearings X0 = 1, Y0 = 0.
+    X0 = 0, Y0 = 1; cylindrical and needle roller bearings X0 = 1, Y0 = 0. A one-row
+    wrapper of :func:`static_factors_arrays`.
     """
-    kind = bearing.kind
-    double = bearing.arrangement in _DOUBLE
-    notes: list[str] = []
-    if kind in (BearingKind.CYLINDRICAL_ROLLER, BearingKind.NEEDLE_ROLLER):
-        return 1.0, 0.0, False, ()
-    if kind is BearingKind.THRUST_BALL:
-        alpha = bearing.contact_angle_deg
-        if alpha is not None and abs(alpha - 90.0) > 1e-9:
-            raise ModelError(
-                f"bearing '{bearing.id}': static load of thrust ball bearings with contact "
-                f"angle {alpha:g} deg is not built in",
-                field=field(bearing, "contact_angle_deg"),
-                line=bearing.line,
-                expected="90 deg",
-            )
-        return 0.0, 1.0, False, ()
-    if kind is BearingKind.DEEP_GROOVE_BALL:
-        y0 = Y0_DEEP_GROOVE if bearing.Y0 is None else float(bearing.Y0)
-        return X0_DEEP_GROOVE, y0, True, ()
-    if kind is BearingKind.ANGULAR_CONTACT_BALL:
-        x0 = 1.0 if double else 0.5
-        if bearing.Y0 is not None:
-            return x0, float(bearing.Y0), not double, ()
-        alpha = bearing.contact_angle_deg
-        angles = sorted(Y0_ANGULAR)
-        if alpha is None or not (angles[0] - 1e-9 <= alpha <= angles[-1] + 1e-9):
-            raise ModelError(
-                f"bearing '{bearing.id}': angular contact ball bearing needs a contact angle "
-                f"in 15..45 deg or Y0 (got {alpha})",
-                field=field(bearing, "contact_angle_deg"),
-                line=bearing.line,
-                expected="15 <= contact_angle_deg <= 45, or Y0",
-            )
-        col = 1 if double else 0
-        y0 = float(np.interp(alpha, angles, [Y0_ANGULAR[a][col] for a in angles]))
-        return x0, y0, not double, ()
-    if kind is BearingKind.TAPERED_ROLLER and not double:
-        y0 = (
-            float(bearing.Y0)
-            if bearing.Y0 is not None
-            else Y0_COT_SINGLE * _cot_alpha(bearing, notes)
-        )
-        return 0.5, y0, True, tuple(notes)
-    if kind in (
-        BearingKind.TAPERED_ROLLER,
-        BearingKind.SPHERICAL_ROLLER,
-        BearingKind.SELF_ALIGNING_BALL,
-    ):
-        y0 = (
-            float(bearing.Y0)
-            if bearing.Y0 is not None
-            else Y0_COT_DOUBLE * _cot_alpha(bearing, notes)
-        )
-        return 1.0, y0, False, tuple(notes)
-    raise ValueError(f"unknown bearing kind {kind!r}")  # pragma: no cover
+    sf = static_factors_arrays(BearingArrays.from_bearings([bearing]))
+    exc = sf.errors[0]
+    if exc is not None:
+        raise exc
+    notes = (_y0_note(bearing.id),) if sf.y0_from_e[0] else ()
+    return float(sf.X0[0]), float(sf.Y0[0]), bool(sf.floor_at_Fr[0]), notes
+
+
+def equivalent_static_load_arrays(
+    p: BearingArrays,
+    Fr_N: npt.ArrayLike,
+    Fa_N: npt.ArrayLike,
+    case_ids: Sequence[str] | None = None,
+    factors: StaticFactors | None = None,
+) -> tuple[FloatArray, StaticFactors, tuple[ModelError | None, ...]]:
+    """Equivalent static load P0 [N] of N rows for m cases (ISO 76:2006).
+
+    Parameters
+    ----------
+    p:
+        Bearing parameters of N rows.
+    Fr_N, Fa_N:
+        Radial load magnitude [N] and axial load [N] (sign ignored), broadcastable to
+        (N, m).
+    case_ids:
+        Case names for messages.
+    factors:
+        ``static_factors_arrays(p)`` when already computed.
+
+    Returns
+    -------
+    (P0_N, factors, errors):
+        P0 (N, m) [N], the factors, and the first user error per row (radial load on a
+        thrust ball bearing, or an error of the factors).
+    """
+    Fr = np.asarray(Fr_N, dtype=np.float64)
+    Fa = np.abs(np.asarray(Fa_N, dtype=np.float64))
+    m = max(np.atleast_1d(Fr).shape[-1], np.atleast_1d(Fa).shape[-1])
+    Fr = np.broadcast_to(Fr, (len(p), m))
+    Fa = np.broadcast_to(Fa, (len(p), m))
+    sf = static_factors_arrays(p) if factors is None else factors
+    err = RowErrors(len(p), sf.errors)
+    tol = (1e-9 * np.maximum(np.abs(p.C_N), 1.0))[:, None]
+    bad = Fr > tol
+    k = np.argmax(bad, axis=1) if m else np.zeros(len(p), dtype=np.intp)
+    err.add(p.is_kind(BearingKind.THRUST_BALL) & np.any(bad, axis=1), lambda i: ModelError(
+        f"bearing '{p.ids[i]}' (thrust ball, 90 deg) carries radial load Fr = "
+        f"{Fr[i, k[i]]:.6g} N in case {case_name(case_ids, int(k[i]))}",
+        field=p.field(i, "kind"),
+        line=p.lines[i],
+        expected="a radial support next to the thrust bearing",
+    ))
+    P0 = sf.X0[:, None] * Fr + sf.Y0[:, None] * Fa
+    P0 = np.where(sf.floor_at_Fr[:, None], np.maximum(P0, Fr), P0)
+    return P0, sf, err.freeze()
 
 
 def equivalent_static_load(
@@ -197,6 +275,8 @@ def equivalent_static_load(
     case_ids: Sequence[str] | None = None,
 ) -> StaticLoad:
     """Equivalent static load P0 [N] per case (ISO 76:2006).
+
+    A one-row wrapper of :func:`equivalent_static_load_arrays`.
 
     Parameters
     ----------
@@ -221,22 +301,12 @@ def equivalent_static_load(
     Fa = np.abs(as_float_array(Fa_N, "Fa_N"))
     if Fr.shape != Fa.shape:
         raise ValueError(f"Fr_N and Fa_N differ in shape: {Fr.shape} vs {Fa.shape}")
-    x0, y0, floor, notes = static_factors(bearing)
-    if bearing.kind is BearingKind.THRUST_BALL:
-        bad = np.nonzero(Fr > zero_tolerance_N(bearing))[0]
-        if bad.size:
-            k = int(bad[0])
-            raise ModelError(
-                f"bearing '{bearing.id}' (thrust ball, 90 deg) carries radial load Fr = "
-                f"{Fr[k]:.6g} N in case {case_name(case_ids, k)}",
-                field=field(bearing, "kind"),
-                line=bearing.line,
-                expected="a radial support next to the thrust bearing",
-            )
-    P0 = x0 * Fr + y0 * Fa
-    if floor:
-        P0 = np.maximum(P0, Fr)
-    return StaticLoad(P0, x0, y0, floor, notes)
+    P0, sf, errors = equivalent_static_load_arrays(
+        BearingArrays.from_bearings([bearing]), Fr[None, :], Fa[None, :], case_ids)
+    if errors[0] is not None:
+        raise errors[0]
+    notes = (_y0_note(bearing.id),) if sf.y0_from_e[0] else ()
+    return StaticLoad(P0[0], float(sf.X0[0]), float(sf.Y0[0]), bool(sf.floor_at_Fr[0]), notes)
 
 
 def static_safety(C0_N: float, P0_N: npt.ArrayLike) -> FloatArray:

@@ -30,11 +30,11 @@ over variants, elements or cases):
    column above ``solver.residual_tolerance`` mark the variant invalid (NumericalError).
 3. **Axial rule** of :func:`shaftsys.bearings.axial.axial_reactions`, vectorised (locating
    bearing, cross-locating, adjusted pair with induced forces).
-4. **Lives** with the pure functions of :mod:`shaftsys.bearings` over (variant, case)
-   arrays: equivalent load, aISO, Palmgren-Miner per-case combination, required
-   rating, margin, static safety; the shared per-case quantities (dynamic mask,
-   revolution weights, mean speed, kappa, ec, Cu, a1, targets) are taken from one call
-   of :func:`shaftsys.bearings.engine.evaluate_bearing`. System life: the Weibull
+4. **Lives** by :func:`shaftsys.bearings.kernel.evaluate`, the life chain the single
+   run uses, with one row per variant (the bearing's parameters, the variant's C): a
+   user error of a variant (e.g. axial load on a needle bearing) becomes its reason.
+   Errors that do not depend on the loads are found once in :func:`prepare` with a
+   zero-load evaluation and fail every variant. System life: the Weibull
    product of :mod:`shaftsys.bearings.system` solved by a vectorised Newton iteration
    on ln L (converged to round-off, where the single-model path uses brentq).
 
@@ -46,17 +46,15 @@ from __future__ import annotations
 
 import logging
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 from numpy.typing import NDArray
 
 from shaftsys.analysis.element_forces import element_loads
+from shaftsys.bearings.arrays import BearingArrays
 from shaftsys.bearings.axial import axial_reactions
-from shaftsys.bearings.engine import LIFE_BASIS_MODIFIED, LoadSpectrum, evaluate_bearing
-from shaftsys.bearings.equivalent import equivalent_dynamic_load
-from shaftsys.bearings.lubrication import a_iso_with_ep
-from shaftsys.bearings.static import equivalent_static_load, static_safety
+from shaftsys.bearings.kernel import DutyCycle, evaluate
 from shaftsys.errors import ModelError, NumericalError
 from shaftsys.fe.balance import global_balance
 from shaftsys.fe.banded_batch import planar_band, solve_supported_band
@@ -68,9 +66,9 @@ from shaftsys.fe.solve import (
     check_planar_mechanism,
     planar_support_dofs,
 )
-from shaftsys.model import Bearing, BearingKind, CaseKind, Model, Shaft
+from shaftsys.model import BearingKind, CaseKind, Model, Shaft
 from shaftsys.study.paths import Geometry
-from shaftsys.units import DENSITY_KG_PER_MM3, MEGA_REVOLUTIONS
+from shaftsys.units import DENSITY_KG_PER_MM3
 
 log = logging.getLogger(__name__)
 
@@ -79,26 +77,6 @@ Array = NDArray[np.float64]
 #: Variants solved together (keeps the working set in cache).
 CHUNK = 1024
 _LN09 = math.log(0.9)
-
-
-@dataclass(frozen=True, eq=False)
-class BearingPrep:
-    """Per-case quantities of one bearing shared by every variant (see module doc)."""
-
-    bearing: Bearing
-    dyn: NDArray[np.bool_]
-    U: Array
-    n_m: float
-    kappa: Array
-    ec: Array
-    Cu: float
-    a1: float
-    target_h: float
-    s0_min: float
-    p: float
-    af: float
-    use_mod: bool
-    ep: bool
 
 
 @dataclass(frozen=True, eq=False)
@@ -114,7 +92,8 @@ class Prepared:
     supports: tuple[tuple[int, float, float], ...]  # (bearing index, k_t, k_r)
     gravity: Array
     weight: bool
-    bearings: tuple[BearingPrep, ...]
+    bearings: tuple[BearingArrays, ...]   # one row per bearing
+    duty: DutyCycle
     slopes: Array
     reliability: float
     error: str = ""
@@ -153,47 +132,28 @@ def prepare(model: Model) -> Prepared:
         if b.kind is BearingKind.THRUST_BALL:
             continue
         supports.append((j, b.radial_stiffness_N_mm or math.inf, b.tilt_stiffness_Nmm_rad or 0.0))
-    preps = []
-    for b in shaft.bearings:
-        try:
-            preps.append(_bearing_prep(model, shaft, b))
-        except ModelError as exc:
-            error = error or f"ModelError: {exc}"
-            preps.append(_bearing_prep(model, shaft, b, dummy=True))
+    speeds = [c.drives[shaft.id].speed_rpm if shaft.id in c.drives else 0.0 for c in model.cases]
+    duty = DutyCycle(
+        case_ids=tuple(c.id for c in model.cases), speed_rpm=np.asarray(speeds, dtype=float),
+        duration=np.asarray([c.duration for c in model.cases], dtype=float),
+        duration_in_hours=model.duration_in_hours,
+        static_only=np.array([c.kind is not CaseKind.DUTY for c in model.cases], dtype=bool),
+        temperature_C=np.asarray([c.temperature_C for c in model.cases], dtype=float))
+    preps = tuple(BearingArrays.from_bearings([b]) for b in shaft.bearings)
+    for params in preps:   # errors that do not depend on the loads fail every variant
+        first = evaluate(params, np.zeros(m), np.zeros(m), duty, model.life,
+                         model.lubrication).errors[0]
+        if first is not None and not error:
+            error = f"ModelError: {first}"
     gears = tuple(j for j, e in enumerate(shaft.elements) if e.kind in ("gear", "bevel_gear"))
     g = np.asarray(model.gravity_m_s2, dtype=float)
     return Prepared(
         model=model, shaft=shaft, case_ids=tuple(c.id for c in model.cases),
         el_force=F, el_moment=M, fx_elements=F[:, :, 0].sum(axis=0), supports=tuple(supports),
         gravity=g, weight=bool(model.solver.include_shaft_weight and np.any(g)),
-        bearings=tuple(preps),
+        bearings=preps, duty=duty,
         slopes=np.array([b.kind.weibull_slope for b in shaft.bearings], dtype=float),
         reliability=float(model.life.target_reliability), error=error, gear_index=gears)
-
-
-def _bearing_prep(model: Model, shaft: Shaft, b: Bearing, dummy: bool = False) -> BearingPrep:
-    """Shared per-case life quantities from one engine call at zero load."""
-    m = len(model.cases)
-    speeds = [c.drives[shaft.id].speed_rpm if shaft.id in c.drives else 0.0 for c in model.cases]
-    sp = LoadSpectrum.build(
-        case_ids=[c.id for c in model.cases], Fr_N=np.zeros(m), Fa_N=np.zeros(m),
-        speed_rpm=speeds, duration=[c.duration for c in model.cases],
-        duration_in_hours=model.duration_in_hours,
-        static_only=[c.kind is not CaseKind.DUTY for c in model.cases],
-        temperature_C=[c.temperature_C for c in model.cases])
-    if dummy:
-        nan = np.full(m, np.nan)
-        return BearingPrep(b, np.zeros(m, bool), np.zeros(m), 0.0, nan, nan, 0.0, 1.0, 1.0,
-                           1.0, b.kind.life_exponent, 1.0, False, False)
-    life = evaluate_bearing(b, sp, model.life, model.lubrication)
-    return BearingPrep(
-        bearing=b, dyn=np.asarray(life.dynamic, bool), U=np.asarray(life.weights, float),
-        n_m=float(life.n_m_rpm), kappa=np.asarray(life.kappa, float),
-        ec=np.asarray(life.ec, float), Cu=float(life.Cu_N or 0.0), a1=float(life.a1),
-        target_h=float(life.target_h), s0_min=float(life.s0_min),
-        p=b.kind.life_exponent, af=float(life.application_factor),
-        use_mod=life.life_basis == LIFE_BASIS_MODIFIED,
-        ep=bool(model.lubrication is not None and model.lubrication.ep_additives))
 
 
 # ----------------------------------------------------------------------------- output
@@ -424,7 +384,7 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
     ok_rows = np.flatnonzero(reason == "")
     if ok_rows.size:
         C = geom.bearing_C_N[rows]
-        _lives_safe(prep, np.moveaxis(Fr, 2, 0), np.moveaxis(Fa, 2, 0), C, ok_rows, res)
+        _lives(prep, np.moveaxis(Fr, 2, 0), np.moveaxis(Fa, 2, 0), C, ok_rows, res)
     bad_rows = np.flatnonzero(res.reason != "")
     if bad_rows.size:
         for name in ("Fr_max_N", "Fa_max_N", "deflection_mm", "slope_rad",
@@ -442,78 +402,43 @@ def _axial(shaft: Shaft, Ka: Array, Fr: Array) -> Array:
 
 
 # ------------------------------------------------------------------------------ lives
-def _lives_safe(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp],
-                res: BatchArrays) -> None:
-    """Lives of ``rows``; a ModelError splits the block until the culprits are found."""
-    try:
-        _lives(prep, Fr[rows], Fa[rows], C[rows], rows, res)
-    except ModelError as exc:
-        if rows.size == 1:
-            res.reason[rows[0]] = f"ModelError: {exc}"
-            return
-        half = rows.size // 2
-        _lives_safe(prep, Fr, Fa, C, rows[:half], res)
-        _lives_safe(prep, Fr, Fa, C, rows[half:], res)
-
-
 def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp],
            res: BatchArrays) -> None:
-    """Life verdict of every bearing; Fr, Fa (b, nb, m) [N], C (b, nb) [N]."""
-    b, nb, m = Fr.shape
+    """Life verdict of every bearing by :func:`shaftsys.bearings.kernel.evaluate`.
+
+    Fr, Fa (b, nb, m) [N] and C (b, nb) [N] of the variants ``rows`` (positions in
+    ``res``); a variant with a user error gets its reason and no life results.
+    """
+    b = rows.size
+    nb = len(prep.bearings)
     L90 = np.full((b, nb), np.inf)
-    for j, bp in enumerate(prep.bearings):
-        brg = bp.bearing
-        fr = Fr[:, j, :]
-        fa = Fa[:, j, :]
-        eq = equivalent_dynamic_load(brg, fr.ravel(), fa.ravel())
-        Pd = (bp.af * eq.P_N).reshape(b, m)
-        dyn = bp.dyn
-        p = bp.p
-        aiso = np.ones((b, m))
-        if bp.use_mod and np.any(dyn):
-            Pdd = Pd[:, dyn]
-            with np.errstate(divide="ignore"):
-                cu_p = np.where(Pdd > 0.0, bp.Cu / np.where(Pdd > 0.0, Pdd, 1.0), np.inf)
-            ai, _ = a_iso_with_ep(np.broadcast_to(bp.kappa[dyn], Pdd.shape).ravel(),
-                                  np.broadcast_to(bp.ec[dyn], Pdd.shape).ravel(),
-                                  cu_p.ravel(), brg.kind, bp.ep)
-            aiso[:, dyn] = ai.reshape(Pdd.shape)
-        Cj = C[:, j][:, None]
-        with np.errstate(divide="ignore"):
-            L10 = np.where(Pd > 0.0, (Cj / np.where(Pd > 0.0, Pd, 1.0)) ** p, np.inf)
-        Lnm_case = bp.a1 * aiso * L10
-        used = dyn & (bp.U > 0.0)
-        if np.any(used):
-            with np.errstate(divide="ignore"):
-                damage = np.where(used, bp.U / np.where(used, Lnm_case, 1.0), 0.0).sum(axis=1)
-                Lnm_mrev = np.where(damage > 0.0, 1.0 / np.where(damage > 0.0, damage, 1.0),
-                                    np.inf)
-            Lnm_h = Lnm_mrev * MEGA_REVOLUTIONS / (60.0 * bp.n_m)
-            target_mrev = bp.target_h * 60.0 * bp.n_m / MEGA_REVOLUTIONS
-            f = bp.a1 * aiso
-            s = np.where(used, bp.U * np.where(used, Pd, 0.0) ** p / np.where(used, f, 1.0),
-                         0.0).sum(axis=1)
-            C_req = (target_mrev * s) ** (1.0 / p)
-        else:
-            Lnm_h = np.full(b, np.inf)
-            C_req = np.zeros(b)
-        with np.errstate(divide="ignore"):
-            margin = np.where(C_req > 0.0, C[:, j] / np.where(C_req > 0.0, C_req, 1.0), np.inf)
-        P0 = equivalent_static_load(brg, fr.ravel(), fa.ravel()).P0_N
-        s0 = static_safety(brg.C0_N, P0).reshape(b, m).min(axis=1) if m else np.full(b, np.inf)
-        life_ok = Lnm_h >= bp.target_h
-        static_ok = s0 >= bp.s0_min
-        res.Lnm_h[rows, j] = Lnm_h
-        res.margin[rows, j] = margin
-        res.life_ratio[rows, j] = margin**p
-        res.s0[rows, j] = s0
-        res.life_ok[rows, j] = life_ok
-        res.static_ok[rows, j] = static_ok
-        res.ok[rows, j] = life_ok & static_ok
-        L90[:, j] = np.where(np.isfinite(Lnm_h), Lnm_h / bp.a1, np.inf)
+    failed = np.zeros(b, dtype=bool)
+    model = prep.model
+    for j, one in enumerate(prep.bearings):
+        params = replace(one.take(np.zeros(b, dtype=np.intp)), C_N=C[rows, j])
+        la = evaluate(params, Fr[rows, j, :], Fa[rows, j, :], prep.duty, model.life,
+                      model.lubrication)
+        for i in np.flatnonzero(~la.valid & ~failed):
+            res.reason[rows[i]] = f"ModelError: {la.errors[i]}"
+        failed |= ~la.valid
+        res.Lnm_h[rows, j] = la.Lnm_h
+        res.margin[rows, j] = la.margin
+        res.life_ratio[rows, j] = la.life_ratio
+        res.s0[rows, j] = la.s0
+        res.life_ok[rows, j] = la.life_ok
+        res.static_ok[rows, j] = la.static_ok
+        res.ok[rows, j] = la.ok
+        L90[:, j] = np.where(np.isfinite(la.Lnm_h), la.Lnm_h / la.a1, np.inf)
     life, lim = system_life_batch(L90, prep.slopes, prep.reliability)
     res.system_life_h[rows] = life
     res.limiting[rows] = lim
+    bad = rows[failed]
+    if bad.size:
+        for name in ("Lnm_h", "margin", "life_ratio", "s0", "system_life_h"):
+            getattr(res, name)[bad] = np.nan
+        for name in ("life_ok", "static_ok", "ok"):
+            getattr(res, name)[bad] = False
+        res.limiting[bad] = -1
 
 
 def system_life_batch(lives: Array, slopes: Array, reliability: float
@@ -559,5 +484,5 @@ def error_text(exc: BaseException) -> str:
     return f"{type(exc).__name__}: {exc}"
 
 
-__all__ = ["CHUNK", "BatchArrays", "BearingPrep", "NumericalError", "Prepared",
+__all__ = ["CHUNK", "BatchArrays", "NumericalError", "Prepared",
            "error_text", "evaluate_geometry", "prepare", "system_life_batch"]

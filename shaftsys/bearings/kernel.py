@@ -1,0 +1,579 @@
+"""The life chain of ISO 281:2007 / ISO 76:2006, vectorised over rows and cases.
+
+One implementation for the single run (:func:`shaftsys.bearings.engine.evaluate_bearing`
+is this kernel with N = 1), the batched design study (N = variants) and bearing
+selection (N = catalogue rows). Rows are bearings (:class:`BearingArrays`), cases the
+duty cycle (:class:`DutyCycle`); loads are (N, m) arrays. No Python loop runs per row
+except to build the error of a failing row.
+
+Rules (as DEVELOPERS.md, "Bearing life engine"): which cases are dynamic, the revolution
+weights U_i, n_m with standstill time, P_design = af*P, aISO per case with EP relief,
+Lnm_i = a1*aISO_i*L10_i combined by 1/L = sum U_i/L_i, C_req on the verdict basis, s0 =
+C0/P0 worst over all cases. Units: N, mm, rpm, h, mm^2/s, degC; lives in 10^6 rev or h.
+
+User mistakes are per row: ``LifeArrays.errors[i]`` holds the ModelError the single run
+raises for that bearing (the first, in the same order), and its numbers are NaN. Errors
+of the settings or the lubricant (application factor, unknown method) reach every row.
+"""
+
+from __future__ import annotations
+
+import logging
+from dataclasses import dataclass
+
+import numpy as np
+import numpy.typing as npt
+
+from shaftsys.bearings._util import BoolArray, FloatArray, case_name
+from shaftsys.bearings.arrays import BearingArrays, RowErrors
+from shaftsys.bearings.equivalent import (
+    EquivalentLoadArrays,
+    dynamic_load_notes,
+    equivalent_dynamic_load_arrays,
+)
+from shaftsys.bearings.lubrication import (
+    KAPPA_MAX,
+    KAPPA_MIN,
+    a_iso_with_ep_arrays,
+    contamination_constants,
+    contamination_factor,
+    estimate_fatigue_load_limit_arrays,
+    reference_viscosity,
+    viscosity_at,
+)
+from shaftsys.bearings.reliability import life_factor
+from shaftsys.bearings.static import (
+    MIN_LOAD_FRACTION_BALL,
+    MIN_LOAD_FRACTION_ROLLER,
+    S0_MIN_BALL,
+    S0_MIN_ROLLER,
+    StaticFactors,
+    equivalent_static_load_arrays,
+)
+from shaftsys.errors import ModelError
+from shaftsys.model.bearing import BearingKind, LifeSettings, Lubrication
+from shaftsys.units import MEGA_REVOLUTIONS
+
+_log = logging.getLogger(__name__)
+
+LIFE_BASIS_MODIFIED = "Lnm = a1*aISO*L10 (ISO 281:2007)"
+LIFE_BASIS_BASIC = "a1*L10"
+
+IntArray = npt.NDArray[np.intp]
+
+
+@dataclass(frozen=True, eq=False)
+class DutyCycle:
+    """The cases of a spectrum without their loads (arrays of shape (m,)).
+
+    Attributes
+    ----------
+    case_ids: case names.
+    speed_rpm: signed speed of the rotating ring relative to the other [rpm].
+    duration: time share or hours per case.
+    duration_in_hours: ``duration`` is in hours (enables duty repetitions).
+    static_only: cases checked for statics only.
+    temperature_C: operating temperature [degC] (NaN = not given).
+    """
+
+    case_ids: tuple[str, ...]
+    speed_rpm: FloatArray
+    duration: FloatArray
+    duration_in_hours: bool
+    static_only: BoolArray
+    temperature_C: FloatArray
+
+    def __len__(self) -> int:
+        return len(self.case_ids)
+
+
+@dataclass(frozen=True, eq=False)
+class LifeArrays:
+    """Life and static verdict of N rows over m cases (units in the names).
+
+    Per (row, case), shape (N, m): ``P_N`` (X*Fr + Y*Fa), ``P_design_N`` (af*P), ``X``,
+    ``Y``, ``e``, ``case_L10_mrev``, ``case_L10_h``, ``aISO``, ``kappa`` (clamped at 4),
+    ``kappa_raw``, ``nu_mm2_s``, ``nu1_mm2_s``, ``ec``, ``case_Lnm_h``, ``P0_N``,
+    ``case_s0``, ``ep_relief``. NaN where a case is not dynamic.
+
+    Per case, shape (m,): ``dynamic``, ``weights`` (U_i); ``static_only_cases`` gives the
+    reason of each non-dynamic case; ``n_m_rpm`` the mean speed.
+
+    Per row, shape (N,): ``P_eq_N`` (Pm), ``L10_mrev``, ``L10_h``, ``Lnm_mrev``, ``Lnm_h``
+    (target reliability, verdict basis), ``a1``, ``reliability``, ``target_h``,
+    ``life_exponent``, ``C_required_N``, ``margin`` (C/C_req), ``life_ratio``
+    (margin^p), ``s0``, ``s0_min``, ``s0_case`` (index, -1 none), ``cycles_of_duty``
+    (NaN unless durations in hours), ``f0``, ``f0_estimated``, ``Cu_N`` (NaN = not
+    needed), ``Cu_estimated``, ``min_load_ratio`` (smallest P/(f*C) of the running cases
+    with f = 0.01 ball, 0.02 roller; below 1 = under the minimum load, common practice),
+    ``speed_ratio`` (largest running |n| / limiting speed, NaN without a limiting speed),
+    ``life_ok``, ``static_ok``, ``ok``, ``errors`` (first ModelError per row or None).
+    """
+
+    ids: tuple[str, ...]
+    case_ids: tuple[str, ...]
+    P_N: FloatArray
+    P_design_N: FloatArray
+    X: FloatArray
+    Y: FloatArray
+    e: FloatArray
+    case_L10_mrev: FloatArray
+    case_L10_h: FloatArray
+    aISO: FloatArray
+    kappa: FloatArray
+    kappa_raw: FloatArray
+    nu_mm2_s: FloatArray
+    nu1_mm2_s: FloatArray
+    ec: FloatArray
+    case_Lnm_h: FloatArray
+    P0_N: FloatArray
+    case_s0: FloatArray
+    ep_relief: BoolArray
+    dynamic: BoolArray
+    weights: FloatArray
+    static_only_cases: tuple[tuple[str, str], ...]
+    n_m_rpm: float
+    P_eq_N: FloatArray
+    L10_mrev: FloatArray
+    L10_h: FloatArray
+    Lnm_mrev: FloatArray
+    Lnm_h: FloatArray
+    a1: FloatArray
+    reliability: FloatArray
+    target_h: FloatArray
+    life_exponent: FloatArray
+    C_required_N: FloatArray
+    margin: FloatArray
+    life_ratio: FloatArray
+    s0: FloatArray
+    s0_min: FloatArray
+    s0_case: IntArray
+    cycles_of_duty: FloatArray
+    f0: FloatArray
+    f0_estimated: BoolArray
+    Cu_N: FloatArray
+    Cu_estimated: BoolArray
+    min_load_ratio: FloatArray
+    speed_ratio: FloatArray
+    life_ok: BoolArray
+    static_ok: BoolArray
+    ok: BoolArray
+    application_factor: float
+    reliability_method: str
+    life_basis: str
+    errors: tuple[ModelError | None, ...]
+    equivalent: EquivalentLoadArrays
+    static_factors: StaticFactors
+    ec_notes: tuple[str, ...]
+    ec_from_constants: BoolArray
+
+    @property
+    def valid(self) -> BoolArray:
+        """Mask of rows without a user error."""
+        return np.array([x is None for x in self.errors], dtype=bool)
+
+    @property
+    def reason(self) -> npt.NDArray[np.object_]:
+        """Per-row reason string: the error message, ``""`` for a valid row."""
+        return np.array(["" if x is None else str(x) for x in self.errors], dtype=object)
+
+
+def dynamic_cases(duty: DutyCycle, min_speed_rpm: float
+                  ) -> tuple[BoolArray, tuple[tuple[str, str], ...]]:
+    """Mask of the cases in the fatigue spectrum and the reason of each other case."""
+    n_abs = np.abs(duty.speed_rpm)
+    reasons: list[tuple[str, str]] = []
+    dyn = np.zeros(len(duty), dtype=bool)
+    for k, cid in enumerate(duty.case_ids):
+        if duty.static_only[k]:
+            reasons.append((cid, "flagged static-only"))
+        elif not (n_abs[k] >= min_speed_rpm and n_abs[k] > 0.0):
+            reasons.append((cid, f"|speed| {n_abs[k]:g} rpm below min_speed_rpm {min_speed_rpm:g}"))
+        elif not duty.duration[k] > 0.0:
+            reasons.append((cid, "zero duration"))
+        else:
+            dyn[k] = True
+    return dyn, tuple(reasons)
+
+
+def _reliability(p: BearingArrays, settings: LifeSettings, err: RowErrors
+                 ) -> tuple[FloatArray, FloatArray]:
+    """(R, a1) per row; rows whose reliability is outside the method's range fail."""
+    own = ~np.isnan(p.target_reliability)
+    R = np.where(own, p.target_reliability, float(settings.target_reliability))
+    a1 = np.full(len(p), np.nan)
+    for value in np.unique(R):
+        rows = np.equal(R, value)
+        try:
+            a1[rows] = life_factor(float(value), settings.reliability_method)
+            continue
+        except ModelError:
+            pass
+        for i in map(int, np.flatnonzero(rows)):
+            r_field = (f"bearings[{p.ids[i]}].target_reliability" if own[i]
+                       else "life.target_reliability")
+            try:
+                life_factor(float(value), settings.reliability_method, r_field)
+            except ModelError as exc:
+                if err.items[i] is None:
+                    err.items[i] = ModelError(
+                        f"bearing '{p.ids[i]}': {exc.message}",
+                        field=exc.field,
+                        line=p.lines[i] if own[i] else None,
+                        expected=exc.expected,
+                    )
+    return R, a1
+
+
+def _life_hours(L_mrev: FloatArray, n_abs: FloatArray) -> FloatArray:
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return np.where(n_abs > 0.0,
+                        L_mrev * MEGA_REVOLUTIONS / (60.0 * np.where(n_abs > 0.0, n_abs, 1.0)),
+                        np.inf)
+
+
+def evaluate(
+    params: BearingArrays,
+    Fr_N: npt.ArrayLike,
+    Fa_N: npt.ArrayLike,
+    duty: DutyCycle,
+    settings: LifeSettings,
+    lubrication: Lubrication | None,
+) -> LifeArrays:
+    """Rating life, modified life, required rating and static safety of N rows.
+
+    Parameters
+    ----------
+    params:
+        Bearing parameters of N rows (N, mm, deg, rpm, h).
+    Fr_N, Fa_N:
+        Radial load magnitude and axial load (sign ignored) [N], broadcastable to
+        (N, m): one spectrum for all rows (m,) or one per row (N, m).
+    duty:
+        Speeds [rpm], durations, static-only flags, temperatures [degC] of the m cases.
+    settings:
+        Model-wide life settings (target life h, reliability, method, af, ...).
+    lubrication:
+        Lubricant data for the modified life, or ``None`` (a1*L10 basis).
+
+    Returns
+    -------
+    LifeArrays
+        Rows with a user error carry it in ``errors`` (numbers NaN, verdicts False).
+    """
+    N, m = len(params), len(duty)
+    p = params
+    err = RowErrors(N)
+    Fr = np.broadcast_to(np.asarray(Fr_N, dtype=np.float64), (N, m))
+    Fa = np.broadcast_to(np.abs(np.asarray(Fa_N, dtype=np.float64)), (N, m))
+    own_t = ~np.isnan(p.target_life_h)
+    target_h = np.where(own_t, p.target_life_h, float(settings.target_life_h))
+    err.add(~(target_h > 0.0), lambda i: ModelError(
+        f"bearing '{p.ids[i]}': target life must be > 0 h",
+        field=f"bearings[{p.ids[i]}].target_life_h",
+        line=p.lines[i],
+    ))
+    R, a1 = _reliability(p, settings, err)
+    af = float(settings.application_factor)
+    if not af >= 1.0:
+        af_error = ModelError(
+            f"application factor {af:g} below 1",
+            field="life.application_factor",
+            expected="application_factor >= 1",
+        )
+        err.add(np.ones(N, bool), lambda i: af_error)
+
+    eq = equivalent_dynamic_load_arrays(p, Fr, Fa, duty.case_ids)
+    err.merge(eq.errors)
+    P_design = af * eq.P_N
+    n_abs = np.abs(duty.speed_rpm)
+    dyn, reasons = dynamic_cases(duty, settings.min_speed_rpm)
+    pexp = p.life_exponent
+    pc = pexp[:, None]
+    C = p.C_N[:, None]
+
+    # revolution weights and mean speed (shared by all rows)
+    revs = np.where(dyn, n_abs * duty.duration, 0.0)
+    total_rev = float(revs.sum())
+    U = revs / total_rev if total_rev > 0.0 else np.zeros_like(revs)
+    total_t = float(duty.duration.sum())
+    n_m = float(revs.sum()) / total_t if total_t > 0.0 else 0.0
+    used = U > 0.0
+    any_used = bool(np.any(used))
+    Pz = np.where(dyn, P_design, 0.0)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        if any_used:
+            Pm = np.where(used, U * np.where(used, Pz, 0.0) ** pc, 0.0).sum(axis=1) ** (1.0 / pexp)
+            L10 = np.where(Pm > 0.0, (p.C_N / np.where(Pm > 0.0, Pm, 1.0)) ** pexp, np.inf)
+            L10_h = L10 * MEGA_REVOLUTIONS / (60.0 * n_m)
+        else:
+            Pm, L10, L10_h = np.zeros(N), np.full(N, np.inf), np.full(N, np.inf)
+        P1 = np.where(dyn, P_design, 1.0)
+        L10_case = np.where(dyn, np.where(P1 > 0.0, (C / np.where(P1 > 0.0, P1, 1.0)) ** pc,
+                                          np.inf), np.nan)
+    L10h_case = np.where(dyn, _life_hours(np.where(dyn, L10_case, 0.0), n_abs), np.nan)
+
+    # modified life per case
+    use_mod = lubrication is not None and settings.use_modified_life
+    nan = np.full((N, m), np.nan)
+    aiso = np.where(dyn, 1.0, nan)
+    kappa_out, kappa_raw_out = nan.copy(), nan.copy()
+    nu_out, nu1_out, ec_out = nan.copy(), nan.copy(), nan.copy()
+    relief_out = np.zeros((N, m), dtype=bool)
+    Cu = p.Cu_N.copy()
+    Cu_est = np.zeros(N, dtype=bool)
+    ec_notes: tuple[str, ...] = ()
+    ec_from_c = np.zeros(N, dtype=bool)
+    if use_mod and lubrication is not None and np.any(dyn):
+        idx = np.flatnonzero(dyn)
+        temps = duty.temperature_C[idx]
+        missing = np.flatnonzero(~np.isfinite(temps))
+        block = True
+        if missing.size:
+            cid = duty.case_ids[int(idx[missing[0]])]
+            err.add(np.ones(N, bool), lambda i: ModelError(
+                f"bearing '{p.ids[i]}', case '{cid}': operating temperature needed for the "
+                "modified life (lubricant viscosity)",
+                field=f"cases[{cid}].temperature",
+                expected="a temperature, or life: {modified_life: false}",
+            ))
+            block = False
+        else:
+            try:
+                nu = viscosity_at(temps, lubrication.nu1_at_t1_mm2_s, lubrication.t1_C,
+                                  lubrication.nu2_at_t2_mm2_s, lubrication.t2_C)
+            except ModelError as exc:
+                lub_error = exc
+                err.add(np.ones(N, bool), lambda i: lub_error)
+                block = False
+        if block:
+            dm = p.mean_diameter_mm[:, None]
+            nu1 = reference_viscosity(n_abs[idx], np.where(dm > 0.0, dm, 1.0))
+            kappa_raw = nu[None, :] / nu1
+            low = kappa_raw < KAPPA_MIN
+            jl = np.argmax(low, axis=1)
+            err.add(np.any(low, axis=1), lambda i: ModelError(
+                f"bearing '{p.ids[i]}', case {case_name(duty.case_ids, int(idx[jl[i]]))}: "
+                f"viscosity ratio kappa = {kappa_raw[i, jl[i]]:.4g} (nu = {nu[jl[i]]:.4g}, "
+                f"nu1 = {nu1[i, jl[i]]:.4g} mm^2/s) below {KAPPA_MIN}: outside ISO 281:2007 "
+                "modified life",
+                field="lubrication.viscosity",
+                expected="a more viscous oil, lower temperature, or life: {modified_life: "
+                "false}",
+                case=duty.case_ids[int(idx[jl[i]])],
+            ))
+            kappa = np.minimum(kappa_raw, KAPPA_MAX)
+            Cu_est = np.isnan(p.Cu_N)
+            Cu = np.where(Cu_est, estimate_fatigue_load_limit_arrays(
+                p.C0_N, p.mean_diameter_mm, p.roller), p.Cu_N)
+            own_ec = ~np.isnan(p.ec)
+            k_ec = np.full((N, idx.size), np.nan)
+            k_ec[own_ec] = p.ec[own_ec, None]
+            if lubrication.ec is not None:
+                k_ec[~own_ec] = float(lubrication.ec)
+            else:
+                ec_from_c = ~own_ec
+                if np.any(ec_from_c):
+                    try:
+                        c1, c2, notes = contamination_constants(
+                            lubrication.method, lubrication.cleanliness,
+                            lubrication.filtration_beta)
+                        ec_notes = tuple(notes)
+                        k_ec[ec_from_c] = contamination_factor(c1, c2, kappa, dm)[ec_from_c]
+                    except ModelError as exc:
+                        ec_error = exc
+                        err.add(ec_from_c, lambda i: ec_error)
+                        ec_from_c = np.zeros(N, dtype=bool)
+            err.add(np.any((k_ec < 0.0) | (k_ec > 1.0), axis=1), lambda i: ModelError(
+                f"bearing '{p.ids[i]}': contamination factor ec outside [0, 1]",
+                field=f"bearings[{p.ids[i]}].ec",
+                line=p.lines[i],
+                expected="0 <= ec <= 1",
+            ))
+            Pd = P_design[:, idx]
+            bad = err.failed[:, None] | ~np.isfinite(kappa) | (kappa < KAPPA_MIN)
+            with np.errstate(divide="ignore", invalid="ignore"):
+                cu_p = np.where(Pd > 0.0, Cu[:, None] / np.where(Pd > 0.0, Pd, 1.0), np.inf)
+                ai, relief = a_iso_with_ep_arrays(
+                    np.where(bad, 1.0, kappa), np.where(bad, 0.0, k_ec),
+                    np.where(bad, 0.0, cu_p), p.roller[:, None],
+                    p.is_kind(BearingKind.THRUST_BALL)[:, None], lubrication.ep_additives)
+            aiso[:, idx] = ai
+            relief_out[:, idx] = relief & ~bad
+            kappa_out[:, idx] = kappa
+            kappa_raw_out[:, idx] = kappa_raw
+            nu_out[:, idx] = nu[None, :]
+            nu1_out[:, idx] = nu1
+            ec_out[:, idx] = k_ec
+
+    a1c = a1[:, None]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        factors = np.where(dyn, a1c * aiso, np.nan)
+        Lnm_case = np.where(dyn, a1c * np.where(dyn, aiso, 1.0) * np.where(dyn, L10_case, 0.0),
+                            np.nan)
+        Lnm_case_h = np.where(dyn, _life_hours(np.where(dyn, Lnm_case, 0.0), n_abs), np.nan)
+        if any_used:
+            Lu = np.where(dyn, Lnm_case, 1.0)
+            damage = np.where(used, U / np.where(used, Lu, 1.0), 0.0).sum(axis=1)
+            Lnm = np.where(damage > 0.0, 1.0 / np.where(damage > 0.0, damage, 1.0), np.inf)
+            Lnm_h = Lnm * MEGA_REVOLUTIONS / (60.0 * n_m)
+            target_mrev = target_h * 60.0 * n_m / MEGA_REVOLUTIONS
+            f1 = np.where(dyn, factors, 1.0)
+            s = np.where(used, U * np.where(used, Pz, 0.0) ** pc / np.where(used, f1, 1.0),
+                         0.0).sum(axis=1)
+            C_req = (target_mrev * s) ** (1.0 / pexp)
+        else:
+            Lnm, Lnm_h, C_req = np.full(N, np.inf), np.full(N, np.inf), np.zeros(N)
+        margin = np.where(C_req > 0.0, p.C_N / np.where(C_req > 0.0, C_req, 1.0), np.inf)
+        life_ratio = margin**pexp
+
+    # static safety over every case
+    P0, sf, st_errors = equivalent_static_load_arrays(p, Fr, Fa, duty.case_ids)
+    err.merge(st_errors)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        s0_case = np.where(P0 > 0.0, p.C0_N[:, None] / np.where(P0 > 0.0, P0, 1.0), np.inf)
+    if m:
+        k0 = np.argmin(s0_case, axis=1)
+        s0 = s0_case[np.arange(N), k0]
+    else:
+        k0, s0 = np.full(N, -1, dtype=np.intp), np.full(N, np.inf)
+    default_s0 = (float(settings.s0_min) if settings.s0_min is not None else np.nan)
+    s0_min = np.where(~np.isnan(p.s0_min), p.s0_min,
+                      np.where(np.isnan(default_s0),
+                               np.where(p.roller, S0_MIN_ROLLER, S0_MIN_BALL), default_s0))
+
+    # operating limits of the running cases
+    frac = np.where(p.roller, MIN_LOAD_FRACTION_ROLLER, MIN_LOAD_FRACTION_BALL)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        if np.any(dyn):
+            min_load = np.min(np.where(dyn, eq.P_N, np.inf), axis=1) / (frac * p.C_N)
+            speed_ratio = float(n_abs[dyn].max()) / p.limiting_speed_rpm
+        else:
+            min_load = np.full(N, np.nan)
+            speed_ratio = np.full(N, np.nan)
+    if duty.duration_in_hours:
+        cycles = Lnm_h / total_t if total_t > 0.0 else np.full(N, np.inf)
+    else:
+        cycles = np.full(N, np.nan)
+    life_ok = Lnm_h >= target_h
+    static_ok = s0 >= s0_min
+    errors = err.freeze()
+    bad_rows = err.failed
+    if np.any(bad_rows):
+        for arr in (P_design, L10_case, L10h_case, aiso, Lnm_case_h, s0_case, P0):
+            arr[bad_rows] = np.nan
+        Pm, L10, L10_h, Lnm, Lnm_h, C_req, margin, life_ratio, s0 = (
+            np.where(bad_rows, np.nan, v)
+            for v in (Pm, L10, L10_h, Lnm, Lnm_h, C_req, margin, life_ratio, s0))
+        life_ok = life_ok & ~bad_rows
+        static_ok = static_ok & ~bad_rows
+        k0 = np.where(bad_rows, -1, k0)
+    return LifeArrays(
+        ids=p.ids, case_ids=duty.case_ids,
+        P_N=eq.P_N, P_design_N=P_design, X=eq.X, Y=eq.Y, e=eq.e,
+        case_L10_mrev=L10_case, case_L10_h=L10h_case, aISO=aiso, kappa=kappa_out,
+        kappa_raw=kappa_raw_out, nu_mm2_s=nu_out, nu1_mm2_s=nu1_out, ec=ec_out,
+        case_Lnm_h=Lnm_case_h, P0_N=P0, case_s0=s0_case, ep_relief=relief_out,
+        dynamic=dyn, weights=U, static_only_cases=reasons, n_m_rpm=n_m,
+        P_eq_N=Pm, L10_mrev=L10, L10_h=L10_h, Lnm_mrev=Lnm, Lnm_h=Lnm_h, a1=a1,
+        reliability=R, target_h=target_h, life_exponent=pexp, C_required_N=C_req,
+        margin=margin, life_ratio=life_ratio, s0=s0, s0_min=s0_min,
+        s0_case=k0.astype(np.intp), cycles_of_duty=cycles, f0=eq.factors.f0,
+        f0_estimated=eq.factors.f0_estimated, Cu_N=Cu, Cu_estimated=Cu_est,
+        min_load_ratio=min_load, speed_ratio=speed_ratio, life_ok=life_ok,
+        static_ok=static_ok, ok=life_ok & static_ok, application_factor=af,
+        reliability_method=settings.reliability_method,
+        life_basis=LIFE_BASIS_MODIFIED if use_mod else LIFE_BASIS_BASIC,
+        errors=errors, equivalent=eq, static_factors=sf, ec_notes=ec_notes,
+        ec_from_constants=ec_from_c,
+    )
+
+
+def row_notes(params: BearingArrays, la: LifeArrays, i: int, speed_rpm: npt.ArrayLike
+              ) -> list[str]:
+    """Warnings of row ``i`` in the order the single-bearing engine gives them.
+
+    The notes of the equivalent load and of the operating limits are also logged (as the
+    single-bearing functions do); call it for the rows a user will see.
+
+    Parameters
+    ----------
+    params:
+        The rows evaluated.
+    la:
+        Their results.
+    i:
+        Row index.
+    speed_rpm:
+        Signed case speeds [rpm] (for the limiting-speed warning).
+    """
+    bid = params.ids[i]
+    ids = la.case_ids
+    notes = dynamic_load_notes(params, la.equivalent, i, ids)
+    for note in notes:
+        logging.getLogger("shaftsys.bearings.equivalent").warning(note)
+    for k in np.flatnonzero(la.kappa_raw[i] > KAPPA_MAX):
+        notes.append(
+            f"bearing '{bid}', case {case_name(ids, int(k))}: kappa = "
+            f"{la.kappa_raw[i, k]:.3g} taken as {KAPPA_MAX:g} (ISO 281:2007)"
+        )
+    if la.Cu_estimated[i]:
+        notes.append(
+            f"bearing '{bid}': Cu not given, estimated Cu = {la.Cu_N[i]:.4g} N from C0 "
+            "(ISO 281:2007 Annex B simplified approach, from memory)"
+        )
+    if la.ec_from_constants[i]:
+        notes.extend(la.ec_notes)
+    for k in np.flatnonzero(la.ep_relief[i]):
+        notes.append(
+            f"bearing '{bid}', case {case_name(ids, int(k))}: EP additives - "
+            "kappa taken as 1 in aISO, limited to 3 (ISO 281:2007 9.3.2, from memory)"
+        )
+    if la.static_factors.y0_from_e[i]:
+        notes.append(
+            f"bearing '{bid}': Y0 not given; derived from e via e = 1.5*tan(alpha) "
+            "(ISO 281 Table 4) and the ISO 76 formula"
+        )
+    if la.s0_case[i] >= 0 and la.s0[i] < la.s0_min[i]:
+        notes.append(
+            f"bearing '{bid}': static safety s0 = {la.s0[i]:.3g} < required "
+            f"{la.s0_min[i]:g} in case {case_name(ids, int(la.s0_case[i]))}"
+        )
+    operating: list[str] = []
+    frac = MIN_LOAD_FRACTION_ROLLER if params.roller[i] else MIN_LOAD_FRACTION_BALL
+    C = float(params.C_N[i])
+    P = la.P_N[i]
+    for k in np.flatnonzero(la.dynamic & (frac * C > P)):
+        operating.append(
+            f"bearing '{bid}', case {case_name(ids, int(k))}: P = {P[k]:.4g} N "
+            f"below minimum load {frac:g}*C = {frac * C:.4g} N (risk of skidding; "
+            "common practice, no source)"
+        )
+    lim = params.given(i, "limiting_speed_rpm")
+    if lim is not None:
+        n = np.abs(np.asarray(speed_rpm, dtype=float))
+        for k in np.flatnonzero(la.dynamic & (n > lim)):
+            operating.append(
+                f"bearing '{bid}', case {case_name(ids, int(k))}: speed "
+                f"{n[k]:.6g} rpm above limiting speed {lim:g} rpm"
+            )
+    for note in operating:
+        logging.getLogger("shaftsys.bearings.static").warning(note)
+    notes.extend(operating)
+    if not np.any(la.dynamic):
+        notes.append(
+            f"bearing '{bid}': no case enters the fatigue spectrum; life is infinite "
+            "and the verdict rests on static safety"
+        )
+    return notes
+
+
+__all__ = [
+    "LIFE_BASIS_BASIC",
+    "LIFE_BASIS_MODIFIED",
+    "DutyCycle",
+    "LifeArrays",
+    "dynamic_cases",
+    "evaluate",
+    "row_notes",
+]
