@@ -6,6 +6,7 @@ from dataclasses import dataclass, field
 
 from shaftsys.model.bearing import Bearing, LifeSettings, Lubrication
 from shaftsys.model.case import Case
+from shaftsys.model.selection import OpenSeat, SelectionSettings
 from shaftsys.model.shaft import Shaft
 
 
@@ -69,6 +70,11 @@ class Model:
     solver: beam-solver settings.
     source: path of the model file, or ``None``.
     sha256: SHA-256 of the model file's bytes, or ``None``.
+    links: links between shafts (machine models).
+    open_seats: supports whose bearing is to be chosen from a catalogue; each has a
+        placeholder :class:`Bearing` of the same id in its shaft (station, axial role,
+        targets are the designer's; ratings are not yet known).
+    selection: options of the choice.
     """
 
     name: str
@@ -82,6 +88,8 @@ class Model:
     source: str | None = None
     sha256: str | None = None
     links: tuple[Link, ...] = ()
+    open_seats: tuple[OpenSeat, ...] = ()
+    selection: SelectionSettings = field(default_factory=SelectionSettings)
 
     def shaft(self, shaft_id: str) -> Shaft:
         """The shaft with this id."""
