@@ -44,12 +44,13 @@ class Lives:
 
     ``bearings``: the bearing results with their life; ``shaft_system``: shaft id ->
     (system life [h], limiting bearing id); ``system_life_h``, ``limiting_bearing``: the
-    whole machine. A system life is ``math.inf`` when no bearing wears (no dynamic case).
+    whole machine. A system life is ``math.inf`` when no bearing wears (no dynamic case),
+    ``None`` when a bearing of it was not evaluated.
     """
 
     bearings: tuple[BearingResult, ...]
-    shaft_system: dict[str, tuple[float, str | None]]
-    system_life_h: float
+    shaft_system: dict[str, tuple[float | None, str | None]]
+    system_life_h: float | None
     limiting_bearing: str | None
 
 
@@ -58,12 +59,15 @@ def evaluate_lives(model: Model, bearings: tuple[BearingResult, ...]) -> Lives:
 
     System life combines the bearings' lives at 90 % reliability on the verdict's basis
     (basic L10 when the verdict uses a1*L10, aISO*L10 when it uses Lnm) and is stated
-    at the model's default target reliability.
+    at the model's default target reliability. A support still open (no catalogue row
+    qualified) has no bearing to evaluate: its life stays ``None`` (not evaluated).
     """
-    done = tuple(replace(b, life=evaluate_bearing(b.bearing, spectrum_of(model, b),
+    still_open = {o.bearing_id for o in model.open_seats}
+    done = tuple(b if b.bearing.id in still_open else
+                 replace(b, life=evaluate_bearing(b.bearing, spectrum_of(model, b),
                                                   model.life, model.lubrication))
                  for b in bearings)
-    per_shaft: dict[str, tuple[float, str | None]] = {}
+    per_shaft: dict[str, tuple[float | None, str | None]] = {}
     all_l90: list[float] = []
     all_kinds: list[str] = []
     all_ids: list[str] = []
@@ -82,15 +86,23 @@ def evaluate_lives(model: Model, bearings: tuple[BearingResult, ...]) -> Lives:
 
 
 def _life90_h(b: BearingResult) -> float:
-    """Life at 90 % reliability [h] on the verdict basis (Lnm / a1)."""
-    assert b.life is not None
+    """Life at 90 % reliability [h] on the verdict basis (Lnm / a1); NaN when the
+    bearing was not evaluated.
+    """
+    if b.life is None:
+        return math.nan
     if not math.isfinite(b.life.Lnm_h):
         return math.inf
     return float(b.life.Lnm_h / b.life.a1)
 
 
 def _system(lives: list[float], kinds: list[str], reliability: float
-            ) -> tuple[float, int | None]:
+            ) -> tuple[float | None, int | None]:
+    """System life [h] and the index of the limiting bearing; ``None`` when a bearing
+    was not evaluated (NaN life).
+    """
+    if any(math.isnan(v) for v in lives):
+        return None, None
     finite = [i for i, v in enumerate(lives) if math.isfinite(v)]
     if not finite:
         return math.inf, None

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 from shaftsys.analysis.life import evaluate_lives
 from shaftsys.analysis.results import Result
+from shaftsys.analysis.selection import choose_bearings
 from shaftsys.analysis.shaft_checks import check_shaft_results
 from shaftsys.analysis.solve import solve_model
 from shaftsys.model import Model
@@ -18,6 +19,11 @@ from shaftsys.model import Model
 def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = True
             ) -> Result:
     """Solve every shaft in every case, evaluate every bearing and check every shaft.
+
+    A model with open supports (``model.open_seats``) first gets its bearings chosen
+    (:func:`shaftsys.analysis.selection.choose_bearings`); the result holds the model
+    with the choices in and the ``selection``. A support for which no catalogue row
+    qualifies stays open: its life is not evaluated and the verdict is not a pass.
 
     ``with_life=False`` leaves every bearing's life ``None`` (verdict "not evaluated");
     ``with_shaft_checks=False`` leaves ``Result.checks`` ``None`` (likewise).
@@ -33,6 +39,9 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
     NumericalError: a singular or ill-posed system, or an equilibrium residual above
         ``model.solver.residual_tolerance``.
     """
+    selection = None
+    if model.open_seats:
+        model, selection = choose_bearings(model)
     solved = solve_model(model)
     shafts = solved.shafts
     bearings = solved.bearings
@@ -46,4 +55,5 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
     checks = check_shaft_results(model, shafts) if with_shaft_checks else None
     return Result(model=model, shafts=shafts, bearings=bearings,
                   system_life_h=system_life_h, limiting_bearing=limiting,
-                  warnings=solved.warnings, checks=checks, flows=solved.flows)
+                  warnings=solved.warnings, checks=checks, flows=solved.flows,
+                  selection=selection)

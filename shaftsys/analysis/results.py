@@ -13,6 +13,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from shaftsys.analysis.check_results import ShaftChecks
+from shaftsys.analysis.selection_results import Selection
 from shaftsys.model import Bearing, Model, Shaft
 
 if TYPE_CHECKING:
@@ -134,7 +135,7 @@ class ShaftResult:
     system_life_h: float | None = None
     limiting_bearing: str | None = None
 
-    def with_system_life(self, life_h: float, limiting: str | None) -> ShaftResult:
+    def with_system_life(self, life_h: float | None, limiting: str | None) -> ShaftResult:
         """The same shaft result with its bearings' system life [h] (built by the
         pipeline before the :class:`Result`).
         """
@@ -182,6 +183,7 @@ class Result:
     warnings: tuple[str, ...]
     checks: ShaftChecks | None
     flows: tuple[CaseFlow, ...]
+    selection: Selection | None = None
 
     @property
     def verdict(self) -> str:
@@ -203,7 +205,10 @@ class Result:
     @property
     def not_evaluated(self) -> tuple[str, ...]:
         """What was not evaluated (bearing ids, ``"shaft checks"``), for messages."""
-        out = [f"bearing '{b.bearing.id}' life" for b in self.bearings if b.life is None]
+        still_open = {o.bearing_id for o in self.model.open_seats}
+        out = [f"bearing '{b.bearing.id}' life" + (" (no catalogue bearing qualifies)"
+                                                   if b.bearing.id in still_open else "")
+               for b in self.bearings if b.life is None]
         if self.checks is None:
             out.append("shaft checks")
         return tuple(out)

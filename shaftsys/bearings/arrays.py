@@ -20,6 +20,8 @@ import numpy.typing as npt
 
 from shaftsys.errors import ModelError
 from shaftsys.model.bearing import Bearing, BearingKind, SetArrangement
+from shaftsys.model.catalogue import KINDS as CATALOGUE_KINDS
+from shaftsys.model.catalogue import Catalogue
 
 FloatArray = npt.NDArray[np.float64]
 BoolArray = npt.NDArray[np.bool_]
@@ -33,6 +35,9 @@ ARRANGEMENTS: tuple[SetArrangement, ...] = tuple(SetArrangement)
 _DOUBLE_LUT = np.array([a in (SetArrangement.BACK_TO_BACK, SetArrangement.FACE_TO_FACE,
                               SetArrangement.DOUBLE_ROW) for a in ARRANGEMENTS], dtype=bool)
 _ROLLER_LUT = np.array([k.is_roller for k in KINDS], dtype=bool)
+#: Arrangements of separate identical bearings side by side (set ratings from one row's).
+_MATCHED = frozenset({SetArrangement.BACK_TO_BACK, SetArrangement.FACE_TO_FACE,
+                      SetArrangement.TANDEM})
 
 _FLOAT_FIELDS = (
     "C_N", "C0_N", "d_mm", "D_mm", "B_mm", "Cu_N", "limiting_speed_rpm", "e", "Y", "Y0",
@@ -128,6 +133,55 @@ class BearingArrays:
             ribs=np.array([bool(b.ribs) for b in bearings], dtype=bool),
             lines=tuple(b.line for b in bearings),
             **values,  # type: ignore[arg-type]
+        )
+
+    @classmethod
+    def from_catalogue(cls, catalogue: Catalogue, index: npt.ArrayLike, *,
+                       rows: int = 1,
+                       arrangement: SetArrangement = SetArrangement.SINGLE,
+                       target_life_h: float | None = None,
+                       target_reliability: float | None = None,
+                       s0_min: float | None = None, ec: float | None = None,
+                       ribs: bool = False, line: int | None = None) -> BearingArrays:
+        """Catalogue rows ``index`` as they would sit at one support (no loop per row).
+
+        The support's own settings (rows and arrangement of a matched set, targets,
+        s0_min, ec) apply to every row. A catalogue row rates one bearing; a matched
+        set of ``rows`` = i bearings side by side gets the set's ratings exactly as
+        :meth:`~shaftsys.model.catalogue.Catalogue.to_bearing` gives them (ISO 281:2007
+        and ISO 76:2006 for identical bearings as one unit): C = i^0.7 C (ball) or
+        i^(7/9) C (roller), C0 = i C0, Cu = i Cu.
+        """
+        idx = np.asarray(index, dtype=np.intp).ravel()
+        n = idx.size
+        kinds = np.asarray(catalogue.kind_code, dtype=np.intp)[idx]
+        code_of = np.array([KINDS.index(k) for k in CATALOGUE_KINDS], dtype=np.intp)
+        kind = code_of[kinds]
+        roller = _ROLLER_LUT[kind]
+        factor_C = np.ones(n)
+        factor_0 = 1.0
+        if arrangement in _MATCHED and rows > 1:
+            factor_C = np.where(roller, rows ** (7.0 / 9.0), rows ** 0.7)
+            factor_0 = float(rows)
+
+        def col(name: str) -> FloatArray:
+            return np.asarray(getattr(catalogue, name), dtype=np.float64)[idx]
+
+        def same(value: float | None) -> FloatArray:
+            return np.full(n, _opt(value))
+
+        return cls(
+            ids=tuple(catalogue.designation[int(i)] for i in idx), kind=kind,
+            C_N=col("C_N") * factor_C, C0_N=col("C0_N") * factor_0, d_mm=col("d_mm"),
+            D_mm=col("D_mm"), B_mm=col("B_mm"), Cu_N=col("Cu_N") * factor_0,
+            limiting_speed_rpm=col("limiting_speed_rpm"), e=col("e"), Y=col("Y"),
+            Y0=col("Y0"), Y1=col("Y1"), Y2=col("Y2"), X=col("X"),
+            contact_angle_deg=col("contact_angle_deg"), f0=col("f0"),
+            rows=np.full(n, max(int(rows), 1)),
+            arrangement=np.full(n, ARRANGEMENTS.index(SetArrangement(arrangement))),
+            ribs=np.full(n, bool(ribs)), target_life_h=same(target_life_h),
+            target_reliability=same(target_reliability), s0_min=same(s0_min), ec=same(ec),
+            lines=(line,) * n,
         )
 
     def __len__(self) -> int:

@@ -25,6 +25,7 @@ from typing import Any, TextIO
 
 from shaftsys import __version__
 from shaftsys.errors import EXIT_OK, EXIT_TARGET_MISSED, ModelError, OutputError, ShaftsysError
+from shaftsys.model.selection import Objective
 
 EXIT_CODES_TEXT = """exit codes:
   0  every check passes
@@ -37,6 +38,12 @@ CHECK_EXAMPLE = """example:
   shaftsys check models/fan_drive.yaml --json results.json
   shaftsys check models/fan_drive.yaml --json - --quiet | jq .system
   shaftsys check models/fan_drive.yaml --explain A"""
+
+CHOOSE_EXAMPLE = """examples:
+  shaftsys choose models/belt_reducer_open.yaml
+  shaftsys choose models/belt_reducer_open.yaml --write chosen.yaml
+  shaftsys choose models/belt_reducer_open.yaml --objective lightest --json choice.json
+  shaftsys check chosen.yaml"""
 
 VALIDATE_EXAMPLE = """example:
   shaftsys validate models/fan_drive.yaml"""
@@ -122,6 +129,28 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
     c.add_argument("--explain", metavar="BEARING",
                    help="print the calculation sheet of one bearing, formula by formula")
     handlers["check"] = _check
+
+    o = _command(sub, "choose", "choose every open support's bearing from a catalogue",
+                 "For every bearing the model leaves open ('choose:' with a catalogue), "
+                 "evaluate every catalogue row that fits the seat over the whole duty "
+                 "cycle, choose the best by the objective, solve again with the choices "
+                 "in until they settle, then check the machine. Prints the choice, its "
+                 "runners-up and, where nothing qualifies, the closest miss and why.",
+                 CHOOSE_EXAMPLE)
+    o.add_argument("model", help="model file (YAML) with open bearings")
+    o.add_argument("--objective", choices=[x.value for x in Objective],
+                   help="ranking of the qualifying bearings (default: the model's "
+                   "'selection: objective', else smallest)")
+    o.add_argument("--write", metavar="PATH",
+                   help="write the model with the chosen bearings filled in as fixed "
+                   "bearings to a new file")
+    o.add_argument("--overwrite-input", action="store_true",
+                   help="allow --write to replace the model file itself")
+    o.add_argument("--json", metavar="PATH",
+                   help="write the results as JSON ('-' = standard output; the tables "
+                   "then go to standard error)")
+    _quiet(o)
+    handlers["choose"] = _choose
 
     r = _command(sub, "report", "write a self-contained HTML report for review and sign-off",
                  "Solve a model and write one HTML file (figures inline, no network access "
@@ -238,12 +267,19 @@ def _warn(text: str) -> None:
 
 
 def _solve(args: argparse.Namespace, bar: Any) -> Any:
-    """Read and solve ``args.model``, counting two steps on ``bar``."""
+    """Read and solve ``args.model``, counting two steps on ``bar`` (an ``--objective``
+    option replaces the model's choice objective).
+    """
     from shaftsys import analyse
     from shaftsys.io.loader import load_model
 
     bar.status("reading the model")
     model = load_model(args.model)
+    if getattr(args, "objective", None):
+        from dataclasses import replace
+
+        model = replace(model, selection=replace(model.selection,
+                                                 objective=Objective(args.objective)))
     bar.advance()
     bar.status("solving")
     result = analyse(model)
@@ -336,7 +372,12 @@ def _new(args: argparse.Namespace) -> int:
 
 def _check(args: argparse.Namespace) -> int:
     from shaftsys.cli.progress import ProgressBar
-    from shaftsys.report.tables import loads_table, shaft_checks_table, verdict_table
+    from shaftsys.report.tables import (
+        loads_table,
+        selection_table,
+        shaft_checks_table,
+        verdict_table,
+    )
 
     with ProgressBar(2, "check", quiet=args.quiet) as bar:
         result = _solve(args, bar)
@@ -350,6 +391,9 @@ def _check(args: argparse.Namespace) -> int:
     if not args.quiet:
         _emit(loads_table(result), out)
         if not args.loads_only:
+            if result.selection is not None:
+                print(file=out)
+                _emit(selection_table(result.selection), out)
             print(file=out)
             _emit(verdict_table(result), out)
             if result.checks is not None:
@@ -364,6 +408,44 @@ def _check(args: argparse.Namespace) -> int:
         from shaftsys.report.calcsheet import explain_bearing
 
         print(explain_bearing(result, args.explain), file=out)
+    return _verdict_code(result)
+
+
+def _choose(args: argparse.Namespace) -> int:
+    from shaftsys.cli.progress import ProgressBar
+    from shaftsys.report.tables import selection_table, verdict_table
+
+    with ProgressBar(2, "choose", quiet=args.quiet) as bar:
+        result = _solve(args, bar)
+    if result.selection is None:
+        raise ModelError("the model leaves no bearing open, so there is nothing to choose",
+                         file=args.model, field="shafts[].bearings[]",
+                         expected="a bearing with 'choose: {catalogue: FILE}' in place of "
+                         "its type and ratings (or run 'shaftsys check')")
+    if args.write:
+        from shaftsys.io.filled_model import write_filled_model
+
+        chosen = result.selection.chosen()
+        if chosen:
+            write_filled_model(args.model, chosen, args.write,
+                               overwrite_input=args.overwrite_input)
+    if args.json != "-":
+        _json_out(args, result)
+    out = sys.stderr if args.json == "-" else sys.stdout
+    if not args.quiet:
+        _emit(selection_table(result.selection), out)
+        print(file=out)
+        _emit(verdict_table(result), out)
+        if args.write and result.selection.chosen():
+            missing = [s.bearing_id for s in result.selection.seats if s.chosen is None]
+            print(f"wrote {args.write}: the model with the chosen bearings as fixed "
+                  "bearings" + (f" (still open: {', '.join(missing)})" if missing else ""),
+                  file=out)
+        out.flush()
+        for w in _all_warnings(result):
+            _warn(w)
+    if args.json == "-":
+        _json_out(args, result)
     return _verdict_code(result)
 
 

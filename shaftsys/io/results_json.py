@@ -62,6 +62,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
             entry["min_yield_safety"] = sc.get("min_yield_safety")
             entry["checks"] = sc
         data["shafts"].append(entry)
+    seat_ids = ({s.bearing_id for s in result.selection.seats}
+                if result.selection is not None else set())
     for b in result.bearings:
         br = b.bearing
         item: dict[str, Any] = {
@@ -83,6 +85,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
             item["misalignment"] = bearing_checks[br.id]
         item["ok"] = b.ok
         item["verdict"] = b.verdict
+        if result.selection is not None and br.id in seat_ids:
+            item["selection"] = result.selection.seat(br.id).to_dict()
         data["bearings"].append(item)
     if result.flows:
         data["links"] = _links(result)
@@ -92,6 +96,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
     if checks is not None:
         data["gears"] = checks["gears"]
         data["shaft_checks"] = checks
+    if result.selection is not None:
+        data["selection"] = result.selection.to_dict()
     data["system"] = {"life_h": result.system_life_h,
                       "limiting_bearing": result.limiting_bearing}
     return data

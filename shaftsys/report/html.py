@@ -50,6 +50,9 @@ SECTION_TITLES = (
     "Assumptions and cautions",
 )
 
+#: Title of the section shown only when the model had open supports (bearings chosen).
+SELECTION_TITLE = "Bearing choice"
+
 #: Range of the reserve gauge: log10(Lnm/target) from -1 to +2 (0.1x to 100x target).
 _GAUGE_LOG_MIN = -1.0
 _GAUGE_LOG_MAX = 2.0
@@ -360,6 +363,43 @@ def _cases(result: Result, ctx: _Render) -> str:
     return "".join(parts)
 
 
+def _selection(result: Result) -> str:
+    """The bearing choice at every open support (only when the model had some)."""
+    sel = result.selection
+    if sel is None:
+        return ""
+    rows = []
+    for seat in sel.seats:
+        where = f"{_e(seat.shaft_id)}/{_e(seat.bearing_id)}"
+        if seat.candidate is None:
+            rows.append([where, '<span class="stamp bad">none qualifies</span>',
+                         *["-"] * 9])
+            continue
+        for rank, c in enumerate((seat.candidate, *seat.runners_up)):
+            rows.append([where if rank == 0 else f"runner-up {rank}",
+                         ("<b>" + _e(c.designation) + "</b>") if rank == 0 else
+                         _e(c.designation), _e(c.kind.replace("_", " ")),
+                         _n(c.d_mm, 4) + " x " + _n(c.D_mm, 4) + " x " + _n(c.B_mm, 3),
+                         _n(c.C_N, 4), _n(c.C0_N, 4), _n(c.life_h, 4), _n(c.margin, 3),
+                         _n(c.s0, 3), _n(c.mass_kg, 3), _n(c.price, 4)])
+    table = _table(["support", "bearing", "type", "d x D x B mm", "C N", "C0 N", "life h",
+                    "C/C req", "s0", "mass kg", f"price {sel.price_unit}".strip()],
+                   rows, 4)
+    notes = [f"{s.bearing_id}: {s.reason_if_none}" for s in sel.seats if s.reason_if_none]
+    notes += [f"{s.bearing_id}: {n}" for s in sel.seats for n in s.notes]
+    state = ("settled" if sel.settled else "cycles between choices" if sel.cycle
+             else "not settled")
+    text = (f"Objective: {sel.objective.replace('_', ' ')}. Every catalogue row that fits "
+            "the seat and envelope and suits the support's axial role was evaluated over "
+            "the whole duty cycle (life at the target reliability, static safety, "
+            "limiting speed in every running case, minimum load); the chosen bearings "
+            f"were put in and the shafts solved again: {sel.passes} pass(es), {state}. "
+            "Ratings are the user's catalogue data; confirm them with the bearing maker.")
+    extra = "".join(f"<li>{_e(n)}</li>" for n in notes)
+    return (f'<section id="selection"><h2>{SELECTION_TITLE}</h2><p class="note">'
+            f'{_e(text)}</p>{table}{"<ul>" + extra + "</ul>" if extra else ""}</section>')
+
+
 def _verdicts(result: Result) -> str:
     rows = []
     for b in result.bearings:
@@ -378,9 +418,14 @@ def _verdicts(result: Result) -> str:
     legend = ("Life reserve gauge: bar length is log10(Lnm/target) from 0.1x (left edge) "
               "to 100x (right edge); the dark tick is the target (1x). Pink zone = short "
               "of the target.")
+    for b in result.bearings:
+        if b.life is None:
+            rows.append([f"{_e(b.shaft_id)}/{_e(b.bearing.id)}", *["-"] * 8,
+                         '<span class="stamp bad">NOT EVALUATED</span>'])
     stamp_ok = result.ok
     head = (f'<p><span class="stamp {"ok" if stamp_ok else "bad"}">'
-            f'{"ALL SUPPORTS PASS" if stamp_ok else "TARGET MISSED"}</span></p>')
+            f'{"ALL SUPPORTS PASS" if stamp_ok else "TARGET MISSED OR NOT EVALUATED"}'
+            '</span></p>')
     return (f'<section id="verdicts"><h2>{SECTION_TITLES[5]}</h2>{head}{table}'
             f'<p class="note">{_e(legend)}</p></section>')
 
@@ -479,7 +524,7 @@ def render_report(result: Result, date: str | None = None,
         f'bearing and shaft check by shaftsys {_e(__version__)} - '
         f'<span class="stamp {"ok" if result.ok else "bad"}">{stamp}</span></div></header>',
         _provenance(result, date), _inputs(result), _summary(result),
-        _shafts(result, ctx), _cases(result, ctx), _verdicts(result),
+        _shafts(result, ctx), _cases(result, ctx), _selection(result), _verdicts(result),
         _bearings(result, ctx),
         "" if study is None else (f'<section id="study"><h2>Design study</h2>'
                                   f"<p class=note>{_e(study[0])}</p>{study[1]}</section>"),

@@ -8,6 +8,7 @@ from collections.abc import Sequence
 from shaftsys.analysis.check_results import ShaftChecks
 from shaftsys.analysis.life import worst_case
 from shaftsys.analysis.results import Result
+from shaftsys.analysis.selection_results import Selection
 
 
 def format_table(headers: Sequence[str], rows: Sequence[Sequence[str]],
@@ -58,6 +59,8 @@ def verdict_table(result: Result) -> str:
     for b in result.bearings:
         life = b.life
         if life is None:
+            rows.append([f"{b.shaft_id}/{b.bearing.id}", "-", "-", "-", "-", "-", "-", "-",
+                         "-", "-", "-", "NOT EVALUATED"])
             continue
         d = life.to_dict()
         rows.append([
@@ -76,9 +79,53 @@ def verdict_table(result: Result) -> str:
     if result.limiting_bearing:
         lines.append(f"system life: {_num(result.system_life_h)} h, limited by "
                      f"{result.limiting_bearing}")
-    failing = [b.bearing.id for b in result.bearings if not b.ok]
-    lines.append("all supports pass" if not failing else
-                 "FAILING: " + ", ".join(failing))
+    failing = [b.bearing.id for b in result.bearings if b.verdict == "fail"]
+    missing = [b.bearing.id for b in result.bearings if b.life is None]
+    if failing:
+        lines.append("FAILING: " + ", ".join(failing))
+    if missing:
+        lines.append("NOT EVALUATED (not a pass): " + ", ".join(missing))
+    if not failing and not missing:
+        lines.append("all supports pass")
+    return "\n".join(lines)
+
+
+def selection_table(selection: Selection) -> str:
+    """The choice at every open support, its runners-up and, where nothing qualifies,
+    the closest miss and why.
+    """
+    headers = ["support", "chosen", "type", "d mm", "D mm", "B mm", "C N", "C0 N",
+               "life h", "margin", "s0", "mass kg", "price"]
+    rows = []
+    for seat in selection.seats:
+        c = seat.candidate
+        if c is None:
+            rows.append([f"{seat.shaft_id}/{seat.bearing_id}", "NONE QUALIFIES", *["-"] * 11])
+            continue
+        for rank, cand in enumerate((c, *seat.runners_up)):
+            rows.append([
+                f"{seat.shaft_id}/{seat.bearing_id}" if rank == 0 else f"  runner-up {rank}",
+                cand.designation, cand.kind.replace("_", " "), _num(cand.d_mm, 1),
+                _num(cand.D_mm, 1), _num(cand.B_mm, 1), _num(cand.C_N), _num(cand.C0_N),
+                _num(cand.life_h), _num(cand.margin, 2), _num(cand.s0, 1),
+                _num(cand.mass_kg, 2), _num(cand.price, 2)])
+    lines = [f"Bearing choice (objective: {selection.objective.replace('_', ' ')}; "
+             f"life at the target reliability; margin = C / C required)",
+             format_table(headers, rows, "llllrrrrrrrrr")]
+    for seat in selection.seats:
+        if seat.reason_if_none:
+            lines.append(f"{seat.bearing_id}: {seat.reason_if_none}")
+        lines.extend(f"{seat.bearing_id}: {n}" for n in seat.notes)
+    state = ("settled" if selection.settled else
+             "CYCLES between choices" if selection.cycle else "NOT SETTLED")
+    lines.append(f"{selection.passes} solve-and-choose pass(es), {state}")
+    totals = []
+    if selection.total_mass_kg is not None:
+        totals.append(f"mass of the chosen bearings {selection.total_mass_kg:.3g} kg")
+    if selection.total_price is not None:
+        totals.append(f"price {selection.total_price:.2f} {selection.price_unit}".rstrip())
+    if totals:
+        lines.append("; ".join(totals))
     return "\n".join(lines)
 
 
