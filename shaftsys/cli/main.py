@@ -313,8 +313,10 @@ def _validate(args: argparse.Namespace) -> int:
     model = load_model(args.model)
     if not args.quiet:
         nb = sum(len(s.bearings) for s in model.shafts)
+        seats = (f", {len(model.open_seats)} of them to choose from a catalogue"
+                 if model.open_seats else "")
         print(f"{args.model}: valid model '{model.name}': {len(model.shafts)} shaft(s), "
-              f"{nb} bearing(s), {len(model.cases)} case(s)")
+              f"{nb} bearing(s){seats}, {len(model.cases)} case(s)")
     return EXIT_OK
 
 

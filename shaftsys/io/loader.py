@@ -9,6 +9,8 @@ from __future__ import annotations
 import hashlib
 import itertools
 import math
+import os
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
@@ -44,6 +46,8 @@ from shaftsys.model import (
     Step,
     Unbalance,
 )
+from shaftsys.model.catalogue import Catalogue
+from shaftsys.model.selection import Objective, OpenSeat, SelectionSettings
 
 _AXIAL_FREE_TYPES = {BearingKind.NEEDLE_ROLLER}
 _TOL_MM = 1e-9
@@ -87,8 +91,27 @@ def load_model_text(text: str, file: str | None = None) -> Model:
     return build_model(raw, file)
 
 
+@dataclass
+class _Seats:
+    """Open bearings (``choose``) while a model is read.
+
+    folder: where relative catalogue paths start (the model file's folder, else the
+        current directory). catalogues: each catalogue read so far, by its real path
+        (a file named by several seats is read once). found: the open seats, in model
+        order.
+    """
+
+    folder: Path
+    catalogues: dict[str, Catalogue] = field(default_factory=dict)
+    found: list[OpenSeat] = field(default_factory=list)
+
+
 def build_model(raw: Any, file: str | None = None) -> Model:
-    """Build a model from located YAML values."""
+    """Build a model from located YAML values.
+
+    Catalogues named by open bearings (``choose.catalogue``) are read relative to the
+    folder of ``file``, or to the current directory when ``file`` is ``None``.
+    """
     top = Where(file, "", raw if isinstance(raw, LocatedDict) else None)
     if not isinstance(raw, LocatedDict):
         raise ModelError("a model file is a mapping with 'shaftsys: 1', 'shafts' and "
@@ -99,13 +122,15 @@ def build_model(raw: Any, file: str | None = None) -> Model:
     linked = _linked_elements(values["links"])
     shafts_raw = values["shafts"]
     shafts = []
+    seats = _Seats(Path(file).parent if file else Path.cwd())
     for i, item in enumerate(shafts_raw):
         shafts.append(_read_shaft(Where(file, "shafts", shafts_raw), i, item, materials, ids,
-                                  linked))
+                                  linked, seats))
     if not shafts:
         raise top.error("shafts", "the model has no shaft", "at least one shaft")
     shafts = _place_inner_bearings(Where(file, "shafts", shafts_raw), shafts)
     life = _read_life(top, raw.get("life"))
+    selection = _read_selection(top, raw.get("selection"))
     lubrication = _read_lubrication(top, raw.get("lubrication"))
     solver = _read_solver(top, raw.get("solver"))
     gravity = values["gravity"] if values["gravity"] is not None else (0.0, -9.80665, 0.0)
@@ -123,6 +148,8 @@ def build_model(raw: Any, file: str | None = None) -> Model:
         solver=solver,
         source=file,
         links=tuple(links),
+        open_seats=tuple(seats.found),
+        selection=selection,
     )
     if links:
         from shaftsys.machine.geometry import check_machine
@@ -238,7 +265,8 @@ def _unit_vector(where: Where, key: str, value: tuple[float, float, float] | Non
 
 
 def _read_shaft(where: Where, index: int, item: Any, materials: dict[str, Material],
-                ids: dict[str, str], linked: set[str] | None = None) -> Shaft:
+                ids: dict[str, str], linked: set[str] | None = None,
+                seats: _Seats | None = None) -> Shaft:
     v = read_section(where, item, S.SHAFT, index)
     sid = v["id"]
     here = where.child(index, item, label=sid)
@@ -270,7 +298,11 @@ def _read_shaft(where: Where, index: int, item: Any, materials: dict[str, Materi
     length = sum(s.length_mm for s in steps)
     bearings_raw = v["bearings"]
     bw = here.child("bearings", bearings_raw)
-    bearings = [_read_bearing(bw, i, b, length, ids) for i, b in enumerate(bearings_raw)]
+    seats = seats if seats is not None else _Seats(Path.cwd())
+    already_open = len(seats.found)
+    bearings = [_read_bearing(bw, i, b, length, ids, steps, seats, sid)
+                for i, b in enumerate(bearings_raw)]
+    open_ids = {seat.bearing_id for seat in seats.found[already_open:]}
     elements: list[Element] = []
     if v["elements"] is not None:
         ew = here.child("elements", v["elements"])
@@ -285,7 +317,7 @@ def _read_shaft(where: Where, index: int, item: Any, materials: dict[str, Materi
     shaft = Shaft(id=sid, steps=tuple(steps), material=material, bearings=tuple(bearings),
                   elements=tuple(elements), line=here.line_of(None),
                   origin_mm=v["origin"] or (0.0, 0.0, 0.0), axis=axis, up=up)
-    _check_support(here, shaft, bearings_raw)
+    _check_support(here, shaft, bearings_raw, open_ids)
     return shaft
 
 
@@ -320,16 +352,28 @@ def _read_steps(where: Where, raw: LocatedList) -> list[Step]:
     return steps
 
 
-def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[str, str]
-                  ) -> Bearing:
+def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[str, str],
+                  steps: list[Step] | None = None, seats: _Seats | None = None,
+                  shaft_id: str = "") -> Bearing:
+    """One bearing; an open one (``choose``) also adds its :class:`OpenSeat` to ``seats``."""
     v = read_section(where, item, S.BEARING, index)
+    _check_bearing_form(where, index, item, v)
     bid = v["id"]
     here = where.child(index, item, label=bid)
     _claim_id(here, "id", bid, "bearing", ids)
-    kind = BearingKind(v["type"])
     if not 0.0 <= v["at"] <= length + _TOL_MM:
         raise here.error("at", f"bearing at {v['at']:g} mm is outside the shaft "
                          f"(0 to {length:g} mm)", f"a station between 0 and {length:g} mm")
+    axial = AxialRole(v["axial"])
+    if v["pair"] is not None and axial not in {AxialRole.PLUS_X, AxialRole.MINUS_X}:
+        raise here.error("axial", "a bearing of an adjusted pair takes thrust in one "
+                         "direction", "axial: +x or -x")
+    if v["choose"] is not None:
+        seats = seats if seats is not None else _Seats(Path.cwd())
+        seat = _read_open_seat(here, v, steps or [], seats, shaft_id)
+        seats.found.append(seat)
+        return _placeholder(v, seat, axial, here.line_of(None))
+    kind = BearingKind(v["type"])
     if v["D"] <= v["d"]:
         raise here.error("D", f"outside diameter {v['D']:g} mm is not larger than the bore "
                          f"{v['d']:g} mm", "D > d")
@@ -340,7 +384,6 @@ def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[
         # C = i^0.7 C_single (ball), i^(7/9) C_single (roller); C0 = i C0_single.
         C = C * rows ** (7.0 / 9.0 if kind.is_roller else 0.7)
         C0 = C0 * rows
-    axial = AxialRole(v["axial"])
     no_ribs = kind in _AXIAL_FREE_TYPES or (kind is BearingKind.CYLINDRICAL_ROLLER
                                             and not v["ribs"])
     if axial is not AxialRole.FLOAT and no_ribs:
@@ -350,9 +393,6 @@ def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[
             v["contact_angle"] is None:
         raise here.error(None, f"a {kind.value} bearing needs 'contact_angle'",
                          "a key 'contact_angle'")
-    if v["pair"] is not None and axial not in {AxialRole.PLUS_X, AxialRole.MINUS_X}:
-        raise here.error("axial", "a bearing of an adjusted pair takes thrust in one "
-                         "direction", "axial: +x or -x")
     return Bearing(
         id=bid, kind=kind, x_mm=v["at"], d_mm=v["d"], D_mm=v["D"], B_mm=v["B"], C_N=C,
         C0_N=C0, Cu_N=v["Cu"], limiting_speed_rpm=v["limiting_speed"], e=v["e"], Y=v["Y"],
@@ -363,6 +403,134 @@ def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[
         tilt_stiffness_Nmm_rad=v["tilt_stiffness"], ribs=v["ribs"],
         target_life_h=v["target_life"], target_reliability=v["reliability"],
         s0_min=v["s0_min"], ec=v["ec"], line=here.line_of(None), within=v["within"],
+    )
+
+
+def _check_bearing_form(where: Where, index: int, item: LocatedDict, v: dict[str, Any]
+                        ) -> None:
+    """A bearing with ``choose`` names none of what the catalogue gives; one without has
+    its type, dimensions and ratings (:data:`shaftsys.io.spec.BEARING_FORMS`).
+    """
+    forms = S.BEARING_FORMS
+    here = where.child(index, item)  # before the id is checked: the list index
+    if v[forms.key] is not None:
+        named = where.child(index, item, label=v["id"])
+        for key in forms.excludes:
+            if key in item:
+                raise named.error(key, f"'{key}' comes from the catalogue when the bearing "
+                                 f"is chosen; remove '{key}' or '{forms.key}'",
+                                 f"either '{forms.key}' or the bearing's type, dimensions "
+                                 "and ratings")
+        return
+    for key in forms.requires:
+        if v[key] is None:
+            doc = S.BEARING[key].doc.split(" (required unless")[0]
+            what = forms.hint if key in {"C", "C0"} else doc
+            raise ModelError(f"'{key}' is missing ({what})", file=here.file,
+                             line=here.line_of(None), field=here.field(key),
+                             expected=f"a key '{key}'" + (
+                                 f", or '{forms.key}: {{catalogue: ...}}'"
+                                 if key in {"C", "C0"} else ""))
+
+
+def _read_open_seat(here: Where, v: dict[str, Any], steps: list[Step], seats: _Seats,
+                    shaft_id: str) -> OpenSeat:
+    """The :class:`OpenSeat` of a bearing with ``choose`` (catalogue read, bore found)."""
+    c = read_section(here, v["choose"], S.CHOOSE, "choose")
+    cw = here.child("choose", v["choose"])
+    catalogue = _open_catalogue(cw, c["catalogue"], seats)
+    kinds = tuple(BearingKind(k) for k in c["types"] or ())
+    if kinds and not any(catalogue.of_kind(*kinds)):
+        held = sorted({k.value for k in catalogue.kind})
+        raise cw.error("types", f"the catalogue {catalogue.source} has no bearing of type "
+                       + ", ".join(k.value for k in kinds),
+                       "types it holds: " + ", ".join(held))
+    bore = c["bore"] if c["bore"] is not None else _seat_diameter(here, cw, steps, v["at"])
+    if c["max_D"] is not None and c["max_D"] <= bore:
+        raise cw.error("max_D", f"max_D {c['max_D']:g} mm is not larger than the bore "
+                       f"{bore:g} mm", "max_D > bore")
+    housing = tuple(c["housing_bores"] or ())
+    hw = cw.child("housing_bores", v["choose"].get("housing_bores"))
+    for i, outside in enumerate(housing):
+        if outside <= bore:
+            raise hw.error(i, f"housing bore {outside:g} mm is not larger than the bore "
+                           f"{bore:g} mm", "outside diameters > bore")
+    return OpenSeat(bearing_id=v["id"], shaft_id=shaft_id, catalogue=catalogue,
+                    kinds=kinds, bore_mm=bore, max_D_mm=c["max_D"], max_B_mm=c["max_B"],
+                    housing_bores_mm=housing, bore_tolerance_mm=c["bore_tolerance"],
+                    line=here.line_of(None))
+
+
+def _open_catalogue(cw: Where, name: str, seats: _Seats) -> Catalogue:
+    """The catalogue ``name`` (relative to ``seats.folder``), read once per real path.
+
+    A catalogue that cannot be opened is refused at the model's ``choose.catalogue`` key;
+    errors inside it name the catalogue file and its line.
+    """
+    from shaftsys.io.catalogue import read_catalogue
+
+    path = Path(name)
+    if not path.is_absolute():
+        path = seats.folder / path
+    tried = os.path.abspath(path)
+    if path.suffix.lower() not in {".csv", ".yaml", ".yml"}:
+        raise cw.error("catalogue", f"cannot tell the form of the catalogue '{name}' from "
+                       "its name", "a .csv, .yaml or .yml file")
+    try:
+        key = os.path.realpath(path)
+        if key in seats.catalogues:
+            return seats.catalogues[key]
+        if not path.is_file():
+            problem = "is a folder" if path.is_dir() else "does not exist"
+            raise cw.error("catalogue", f"cannot read the catalogue: {tried} {problem}",
+                           "the path of a catalogue file, relative to the model file")
+        with open(path, "rb"):
+            pass
+    except OSError as exc:
+        raise cw.error("catalogue", f"cannot read the catalogue {tried}: "
+                       f"{exc.strerror or exc}", "a readable catalogue file") from None
+    catalogue = read_catalogue(path)
+    seats.catalogues[key] = catalogue
+    return catalogue
+
+
+def _seat_diameter(here: Where, cw: Where, steps: list[Step], x: float) -> float:
+    """Diameter [mm] of the step at station ``x`` [mm]; a station on the edge between
+    two steps of different diameter is ambiguous (refused at the ``choose`` key).
+    """
+    edge = 0.0
+    for left, right in itertools.pairwise(steps):
+        edge += left.length_mm
+        if abs(x - edge) <= STATION_SNAP_MM and left.d_mm != right.d_mm:
+            raise ModelError(f"the bearing at {x:g} mm sits on the shoulder between steps "
+                             f"of {left.d_mm:g} mm and {right.d_mm:g} mm: give the seat "
+                             "diameter as choose.bore", file=here.file,
+                             line=here.line_of("choose"), field=cw.field("bore"),
+                             expected="a key 'bore' under 'choose'")
+    end = 0.0
+    for step in steps:
+        end += step.length_mm
+        if x <= end + _TOL_MM:
+            return step.d_mm
+    return steps[-1].d_mm
+
+
+def _placeholder(v: dict[str, Any], seat: OpenSeat, axial: AxialRole, line: int | None
+                 ) -> Bearing:
+    """The stand-in :class:`Bearing` of an open seat until one is chosen.
+
+    A deep groove ball bearing (it may float and locate; the solve treats every radial
+    type alike) of the seat bore, D = 1.5 bore, ratings of 1 N, pressure centre at
+    mid-width; station, axial role, pair, set, stiffness and targets are the designer's.
+    """
+    return Bearing(
+        id=v["id"], kind=BearingKind.DEEP_GROOVE_BALL, x_mm=v["at"], d_mm=seat.bore_mm,
+        D_mm=1.5 * seat.bore_mm, B_mm=None, C_N=1.0, C0_N=1.0, rows=v["rows"],
+        arrangement=SetArrangement(v["arrangement"]), axial=axial, pair=v["pair"],
+        pressure_centre_offset_mm=0.0, radial_stiffness_N_mm=v["radial_stiffness"],
+        tilt_stiffness_Nmm_rad=v["tilt_stiffness"], ribs=v["ribs"],
+        target_life_h=v["target_life"], target_reliability=v["reliability"],
+        s0_min=v["s0_min"], ec=v["ec"], line=line, within=v["within"],
     )
 
 
@@ -449,8 +617,14 @@ def _read_element(where: Where, index: int, item: Any, length: float, ids: dict[
                      phase_deg=v["phase"])
 
 
-def _check_support(where: Where, shaft: Shaft, raw: LocatedList) -> None:
-    """Refuse shafts that the bearings cannot hold."""
+def _check_support(where: Where, shaft: Shaft, raw: LocatedList,
+                   open_ids: set[str] | None = None) -> None:
+    """Refuse shafts that the bearings cannot hold.
+
+    The rules on a bearing's type (adjusted pairs, the tapered Y) are not applied to
+    the placeholders of open seats (``open_ids``): the choice offers suitable types.
+    """
+    open_ids = open_ids or set()
     bw = where.child("bearings", raw)
 
     def at(i: int) -> Where:  # the i-th bearing's mapping, so errors name its keys
@@ -521,6 +695,8 @@ def _check_support(where: Where, shaft: Shaft, raw: LocatedList) -> None:
                 raise at(index[b.id]).error(
                     "pair", f"adjusted pair: '{b.id}' names '{b.pair}' but its opposite "
                     f"bearing is '{partner.id}'", "two bearings naming each other with 'pair'")
+            if b.id in open_ids:
+                continue
             if b.kind not in {BearingKind.ANGULAR_CONTACT_BALL, BearingKind.TAPERED_ROLLER}:
                 raise at(index[b.id]).error(
                     "type", "an adjusted pair is made of single-row angular-contact ball or "
@@ -549,6 +725,14 @@ def _read_life(top: Where, raw: Any) -> LifeSettings:
                         application_factor=v["application_factor"],
                         min_speed_rpm=v["min_speed"], s0_min=v["s0_min"],
                         use_modified_life=v["modified_life"])
+
+
+def _read_selection(top: Where, raw: Any) -> SelectionSettings:
+    if raw is None:
+        return SelectionSettings()
+    v = read_section(top, raw, S.SELECTION, "selection")
+    return SelectionSettings(objective=Objective(v["objective"]),
+                             max_passes=v["max_passes"], runners_up=v["runners_up"])
 
 
 def _read_lubrication(top: Where, raw: Any) -> Lubrication | None:

@@ -27,6 +27,12 @@ def _field(f: S.Field) -> dict[str, Any]:
         out = {"type": "boolean", "description": f.doc}
     elif f.kind == "choice":
         out = {"enum": list(f.choices), "description": f.doc}
+    elif f.kind == "choices":
+        out = {"type": "array", "items": {"enum": list(f.choices)}, "minItems": 1,
+               "uniqueItems": True, "description": f.doc}
+    elif f.kind == "quantities":
+        out = {"type": "array", "items": _QUANTITY, "minItems": 1,
+               "description": f"{f.doc} [{S.DEFAULT_UNIT_NOTE.get(f.dim or '', '')}]"}
     elif f.kind == "vector":
         out = {"type": "array", "items": _QUANTITY, "minItems": 3, "maxItems": 3,
                "description": f.doc}
@@ -41,18 +47,26 @@ def _field(f: S.Field) -> dict[str, Any]:
     return out
 
 
-def _section(fields: dict[str, S.Field]) -> dict[str, Any]:
-    return {
+def _section(fields: dict[str, S.Field], forms: S.Alternative | None = None
+             ) -> dict[str, Any]:
+    out: dict[str, Any] = {
         "type": "object",
         "additionalProperties": False,
         "properties": {k: _field(f) for k, f in fields.items()},
         "required": [k for k, f in fields.items() if f.required],
     }
+    if forms is not None:
+        # with forms.key none of forms.excludes, without it all of forms.requires
+        out["if"] = {"required": [forms.key]}
+        out["then"] = {"not": {"anyOf": [{"required": [k]} for k in forms.excludes]}}
+        out["else"] = {"required": list(forms.requires)}
+    return out
 
 
 def model_schema() -> dict[str, Any]:
     """JSON Schema (draft 2020-12) of a shaftsys model file."""
-    defs = {name: _section(fields) for name, fields in S.SECTIONS.items() if name != "model"}
+    defs = {name: _section(fields, S.ALTERNATIVES.get(name))
+            for name, fields in S.SECTIONS.items() if name != "model"}
     element_variants = []
     for etype, extra in S.ELEMENT_TYPES.items():
         fields = {**S._ELEMENT_COMMON, **extra}

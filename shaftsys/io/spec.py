@@ -15,6 +15,7 @@ from typing import Any
 from shaftsys.errors import ModelError
 from shaftsys.io.quantities import MAX_MAGNITUDE, QuantityProblem, to_internal
 from shaftsys.io.yamlsource import LocatedDict, LocatedList
+from shaftsys.model.selection import Objective, SelectionSettings
 
 
 @dataclass(frozen=True)
@@ -22,8 +23,10 @@ class Field:
     """One key of a model-file mapping.
 
     kind: ``quantity`` (with ``dim``), ``number``, ``int``, ``str``, ``id``, ``bool``,
-    ``choice`` (with ``choices``), ``vector`` (three quantities of ``dim``), ``list``
-    (of mappings ``of``), ``map`` (mapping ``of``), ``any``.
+    ``choice`` (with ``choices``), ``choices`` (a non-empty list of distinct values from
+    ``choices``), ``quantities`` (a non-empty list of quantities of ``dim``), ``vector``
+    (three quantities of ``dim``), ``list`` (of mappings ``of``), ``map`` (mapping
+    ``of``), ``any``.
     """
 
     kind: str
@@ -74,21 +77,27 @@ STEP = {
                  choices=("ground", "machined", "cold_drawn", "hot_rolled", "forged")),
 }
 
+#: The bearing types a model file names (values of ``BearingKind``).
+BEARING_TYPES = (
+    "deep_groove_ball", "angular_contact_ball", "self_aligning_ball", "cylindrical_roller",
+    "tapered_roller", "spherical_roller", "needle_roller", "thrust_ball")
+
 BEARING = {
     "id": F("id", "bearing id, unique in the model", required=True),
-    "type": F("choice", "bearing type", required=True, choices=(
-        "deep_groove_ball", "angular_contact_ball", "self_aligning_ball",
-        "cylindrical_roller", "tapered_roller", "spherical_roller", "needle_roller",
-        "thrust_ball")),
+    "designation": F("str", "the bearing's name in its catalogue (information only)"),
+    "type": F("choice", "bearing type (required unless 'choose' is given)",
+              choices=BEARING_TYPES),
     "at": F("quantity", "station of the bearing's mid-width", dim="length", required=True,
             non_negative=True),
-    "d": F("quantity", "bore diameter", dim="length", required=True, positive=True),
-    "D": F("quantity", "outside diameter", dim="length", required=True, positive=True),
-    "B": F("quantity", "width", dim="length", positive=True),
-    "C": F("quantity", "basic dynamic load rating", dim="force", required=True,
+    "d": F("quantity", "bore diameter (required unless 'choose' is given)", dim="length",
            positive=True),
-    "C0": F("quantity", "basic static load rating", dim="force", required=True,
-            positive=True),
+    "D": F("quantity", "outside diameter (required unless 'choose' is given)",
+           dim="length", positive=True),
+    "B": F("quantity", "width", dim="length", positive=True),
+    "C": F("quantity", "basic dynamic load rating (required unless 'choose' is given)",
+           dim="force", positive=True),
+    "C0": F("quantity", "basic static load rating (required unless 'choose' is given)",
+            dim="force", positive=True),
     "ratings": F("choice", "C and C0 are given for the whole set or per row/bearing",
                  default="set", choices=("set", "per_row")),
     "Cu": F("quantity", "fatigue load limit (estimated from C0 when missing)", dim="force",
@@ -130,7 +139,53 @@ BEARING = {
     "ec": F("number", "contamination factor for this bearing", minimum=0.0, maximum=1.0),
     "within": F("id", "shaft that holds the outer ring (pilot bearing, idler on a pin); "
                 "the housing when missing"),
+    "choose": F("map", "leave the bearing open: shaftsys chooses it from a catalogue "
+                "(instead of type, dimensions and ratings)", of="choose"),
 }
+
+CHOOSE = {
+    "catalogue": F("str", "bearing catalogue file (.csv, .yaml, .yml), relative to the "
+                   "model file", required=True),
+    "types": F("choices", "bearing types that may be chosen (default: every type in the "
+               "catalogue)", choices=BEARING_TYPES),
+    "bore": F("quantity", "seat diameter (default: the shaft step diameter at 'at')",
+              dim="length", positive=True),
+    "max_D": F("quantity", "largest outside diameter", dim="length", positive=True),
+    "max_B": F("quantity", "largest width", dim="length", positive=True),
+    "housing_bores": F("quantities", "allowed outside diameters (default: any)",
+                       dim="length", positive=True),
+    "bore_tolerance": F("quantity", "largest |d - bore| accepted as a fit", dim="length",
+                        default=0.01, non_negative=True),
+}
+
+
+@dataclass(frozen=True)
+class Alternative:
+    """A section read in one of two forms, told apart by ``key``.
+
+    With ``key`` none of ``excludes`` may be given; without it every one of
+    ``requires`` must be. The loader enforces it, the schema states it (if/then/else).
+    """
+
+    key: str
+    excludes: tuple[str, ...]
+    requires: tuple[str, ...]
+    hint: str
+
+
+#: A bearing has its type, dimensions and ratings typed in, or a ``choose`` mapping
+#: (then the catalogue row gives them all).
+BEARING_FORMS = Alternative(
+    key="choose",
+    excludes=("type", "designation", "d", "D", "B", "C", "C0", "Cu", "e", "Y", "Y0", "Y1",
+              "Y2", "X", "contact_angle", "f0", "limiting_speed", "ratings",
+              "pressure_centre_offset"),
+    requires=("type", "d", "D", "C", "C0"),
+    hint="give C and C0, or choose: {catalogue: ...}",
+)
+
+#: Sections with two forms (section name in :data:`SECTIONS` -> the forms).
+ALTERNATIVES: dict[str, Alternative] = {"bearing": BEARING_FORMS}
 
 _ELEMENT_COMMON = {
     "id": F("id", "element id, unique in the model", required=True),
@@ -326,6 +381,20 @@ MODEL = {
     "links": F("list", "gear meshes, belts and chains between shafts", of="link"),
     "cases": F("list", "the operating cases", required=True, of="case"),
     "study": F("any", "design study (see the sweep command)"),
+    "selection": F("map", "how open bearings ('choose') are chosen", of="selection"),
+}
+
+_SELECTION_DEFAULTS = SelectionSettings()
+
+SELECTION = {
+    "objective": F("choice", "ranking of the bearings that qualify: smallest (D, B, mass, "
+                   "price), lightest, cheapest, largest_margin (C/C_req)",
+                   default=_SELECTION_DEFAULTS.objective.value,
+                   choices=tuple(o.value for o in Objective)),
+    "max_passes": F("int", "most solve-and-choose passes",
+                    default=_SELECTION_DEFAULTS.max_passes, minimum=1, maximum=100),
+    "runners_up": F("int", "qualifying bearings reported after the chosen one",
+                    default=_SELECTION_DEFAULTS.runners_up, minimum=0, maximum=1000),
 }
 
 SECTIONS: dict[str, dict[str, Field]] = {
@@ -333,6 +402,8 @@ SECTIONS: dict[str, dict[str, Field]] = {
     "material": MATERIAL,
     "step": STEP,
     "bearing": BEARING,
+    "choose": CHOOSE,
+    "selection": SELECTION,
     "shaft": SHAFT,
     "case": CASE,
     "drive": DRIVE,
@@ -476,6 +547,21 @@ def read_value(where: Where, key: str | int, raw: Any, spec: Field) -> Any:
             raise where.error(key, f"{raw!r} is not a valid choice{hint}",
                               "one of: " + ", ".join(spec.choices))
         return raw
+    if kind in {"choices", "quantities"}:
+        items = require_list(where, key, raw)
+        if not items:
+            raise where.error(key, "the list is empty; leave the key out for the default",
+                              "a list of at least one value")
+        inner = where.child(key, items)
+        item_spec = Field("choice" if kind == "choices" else "quantity", spec.doc,
+                          dim=spec.dim, choices=spec.choices, positive=spec.positive,
+                          non_negative=spec.non_negative, minimum=spec.minimum,
+                          maximum=spec.maximum)
+        values = [read_value(inner, i, item, item_spec) for i, item in enumerate(items)]
+        for i, value in enumerate(values):
+            if value in values[:i]:
+                raise inner.error(i, f"{items[i]!r} is listed twice", "distinct values")
+        return tuple(values)
     if kind == "vector":
         assert spec.dim is not None
         items = require_list(where, key, raw)
