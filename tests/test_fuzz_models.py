@@ -38,6 +38,7 @@ import json
 import logging
 import os
 import re
+import shutil
 import tempfile
 from collections import Counter
 from collections.abc import Callable
@@ -397,7 +398,14 @@ def judge(code: int, err: str, path: Path, text: str, exc: ShaftsysError | None
 
 
 def classify(text: str | bytes, folder: Path) -> Outcome:
-    """Write ``text`` to a model file in ``folder``, run ``check`` and judge the outcome."""
+    """Write ``text`` to a model file in ``folder``, run ``check`` and judge the outcome.
+
+    The bundled catalogue goes beside it, so that seeds with open bearings
+    (``choose: {catalogue: demo_catalogue.csv}``) find it as the bundled models do.
+    """
+    catalogue = ROOT / "models" / "demo_catalogue.csv"
+    if not (folder / catalogue.name).exists():
+        shutil.copy(catalogue, folder / catalogue.name)
     path = folder / "fuzzed.yaml"
     if isinstance(text, bytes):
         path.write_bytes(text)

@@ -12,7 +12,6 @@ from __future__ import annotations
 
 import dataclasses
 import math
-from pathlib import Path
 
 import pytest
 from conftest import base_model, dump_model
@@ -235,42 +234,52 @@ def test_types_follow_the_axial_role() -> None:
 
 
 # ---------------------------------------------------------------- adjusted pair iteration
-def _tapered_catalogue() -> Catalogue:
+def _pair_catalogue(kind: str) -> Catalogue:
     rows = []
     for i, (D, C, alpha) in enumerate([(80, 45, 12.0), (85, 60, 14.0), (90, 80, 16.0),
                                        (100, 110, 15.0)]):
-        e = 1.5 * math.tan(math.radians(alpha))
-        Y = 0.4 / math.tan(math.radians(alpha))
-        rows.append(f"TR-{i},tapered_roller,40,{D},22,{C},{1.1 * C},,9000,{D / 100},{D},"
-                    f"{alpha},{e:.6f},{Y:.6f},{0.22 / math.tan(math.radians(alpha)):.6f}\n")
-    return catalogue_from_csv(HEADER + "".join(rows), file="tapered.csv")
+        if kind == "tapered_roller":
+            e = 1.5 * math.tan(math.radians(alpha))
+            Y = 0.4 / math.tan(math.radians(alpha))
+            factors = f"{alpha},{e:.6f},{Y:.6f},{0.22 / math.tan(math.radians(alpha)):.6f}"
+        else:
+            factors = f"{25.0 if i % 2 else 40.0},,,"
+        rows.append(f"P-{i},{kind},40,{D},22,{C},{1.1 * C},,9000,{D / 100},{D},{factors}\n")
+    return catalogue_from_csv(HEADER + "".join(rows), file="pair.csv")
 
 
-def _pair_model(tmp_path: Path) -> Model:
+def _pair_model(kind: str) -> Model:
     m = base_model()
     m["gravity"] = [0, 0, 0]
     m["life"] = {"target": "30000 h"}
     sh = m["shafts"][0]
     sh["bearings"] = [
-        {"id": "P", "type": "tapered_roller", "at": "60 mm", "d": "40 mm", "D": "60 mm",
-         "C": "1 N", "C0": "1 N", "e": 0.3, "Y": 2.0, "axial": "+x", "pair": "N"},
-        {"id": "N", "type": "tapered_roller", "at": "340 mm", "d": "40 mm", "D": "60 mm",
-         "C": "1 N", "C0": "1 N", "e": 0.3, "Y": 2.0, "axial": "-x", "pair": "P"}]
+        {"id": "P", "type": kind, "at": "60 mm", "d": "40 mm", "D": "60 mm",
+         "C": "1 N", "C0": "1 N", "e": 0.3, "Y": 2.0, "contact_angle": "25 deg",
+         "axial": "+x", "pair": "N"},
+        {"id": "N", "type": kind, "at": "340 mm", "d": "40 mm", "D": "60 mm",
+         "C": "1 N", "C0": "1 N", "e": 0.3, "Y": 2.0, "contact_angle": "25 deg",
+         "axial": "-x", "pair": "P"}]
+    if kind == "angular_contact_ball":
+        for b in sh["bearings"]:
+            del b["e"], b["Y"]
     sh["elements"] = [{"id": "load", "type": "load", "at": "120 mm",
                        "force": ["2500 N", "-9000 N", "3000 N"]}]
     m["cases"] = [{"id": "run", "share": 1.0, "speed": "1000 rpm"}]
     return load_model_text(dump_model(m))
 
 
-def test_adjusted_tapered_pair_reaches_a_fixed_point(tmp_path: Path) -> None:
-    """Both bearings of an adjusted tapered pair open: the first pass solves with
+@pytest.mark.parametrize("kind", ["tapered_roller", "angular_contact_ball"])
+def test_adjusted_pair_reaches_a_fixed_point(kind: str) -> None:
+    """Both bearings of an adjusted pair open: the first pass solves with
     placeholders (supports at mid-width, a placeholder Y), the chosen rows move the
     supports to their pressure centres ((dm/2) tan a from mid-width, the geometry of
-    the contact lines) and add the induced thrust 0.5 Fr/Y (common practice); the
+    the contact lines) and add the induced thrust (0.5 Fr/Y for tapered, common
+    practice; 1.32 Fr tan a for angular-contact, Harris, from memory); the
     iteration stops when a pass chooses what the pass before chose. At the fixed point
     choosing again on the final solve gives the same rows."""
-    model = _pair_model(tmp_path)
-    cat = _tapered_catalogue()
+    model = _pair_model(kind)
+    cat = _pair_catalogue(kind)
     sh = model.shafts[0]
     seats = tuple(OpenSeat(b.id, sh.id, cat, bore_mm=40.0) for b in sh.bearings)
     model = dataclasses.replace(model, open_seats=seats)
@@ -278,9 +287,9 @@ def test_adjusted_tapered_pair_reaches_a_fixed_point(tmp_path: Path) -> None:
     assert sel.settled and not sel.cycle and sel.passes >= 2
     assert sel.complete
     for b in filled.shafts[0].bearings:
-        assert b.kind is BearingKind.TAPERED_ROLLER
-        alpha = math.degrees(math.atan(b.e / 1.5)) if b.contact_angle_deg is None else \
-            b.contact_angle_deg
+        assert b.kind is BearingKind(kind)
+        alpha = b.contact_angle_deg if b.contact_angle_deg is not None else \
+            math.degrees(math.atan(b.e / 1.5))
         assert b.pressure_centre_offset_mm == pytest.approx(
             float(pressure_centre_offset_mm(b.kind, b.d_mm, b.D_mm, alpha)), rel=1e-12)
         assert b.pressure_centre_offset_mm == pytest.approx(
@@ -291,9 +300,12 @@ def test_adjusted_tapered_pair_reaches_a_fixed_point(tmp_path: Path) -> None:
     assert [s.candidate.designation for s in sel2.seats if s.candidate] == \
         [s.candidate.designation for s in sel.seats if s.candidate]
     result = analyse(model)
-    assert result.selection is not None and result.ok
+    assert result.selection is not None
+    assert all(b.verdict == "pass" for b in result.bearings)
     loads = {b.bearing.id: b.loads[0] for b in result.bearings}
-    # the induced thrust of each row (0.5 Fr / Y) is in the final loads
+    # the induced thrust of each chosen row is in the final loads
     for bid in ("P", "N"):
         brg = result.bearing(bid).bearing
-        assert loads[bid].induced_N == pytest.approx(0.5 * loads[bid].Fr_N / brg.Y, rel=1e-12)
+        expected = (0.5 * loads[bid].Fr_N / brg.Y if brg.Y is not None else
+                    1.32 * loads[bid].Fr_N * math.tan(math.radians(brg.contact_angle_deg)))
+        assert loads[bid].induced_N == pytest.approx(expected, rel=1e-12)

@@ -228,6 +228,7 @@ def choose_seat(model: Model, seat: OpenSeat, placeholder: Bearing, loads: Beari
     alive = np.ones(rows.size, dtype=bool)
     failed_stage = None
     before = alive
+    notes = []
     for k, mask in enumerate(masks):
         before = alive.copy()
         alive = alive & mask
@@ -235,7 +236,17 @@ def choose_seat(model: Model, seat: OpenSeat, placeholder: Bearing, loads: Beari
         if not alive.any():
             failed_stage = k
             break
-    notes = []
+    if failed_stage == len(masks) - 1:
+        # minimum load is a soft constraint: when every row that passes life, statics
+        # and speed is loaded below its minimum load in some running case, the choice
+        # is made among them and the risk is stated (a designer then ensures a minimum
+        # load, e.g. by preload springs, or accepts it)
+        alive, failed_stage = before, None
+        worst = float(np.nanmax(np.where(alive, la.min_load_ratio, np.nan)))
+        notes.append("every bearing that passes life, statics and speed is loaded below "
+                     "its minimum load (P < 0.01 C ball, 0.02 C roller) in some running "
+                     f"case (best {worst:.3g} of it): risk of skidding; ensure a minimum "
+                     "load (e.g. preload springs) or accept the risk")
     no_speed = int(np.sum(np.isnan(la.speed_ratio) & alive))
     if no_speed:
         notes.append(f"{no_speed} qualifying rows give no limiting speed (not checked)")
