@@ -395,6 +395,7 @@ def a_iso_arrays(
             r_b = np.where(tb, r / 3.0, r) if np.any(tb) else r
             c_b = np.where(low, 2.2649, 1.9987)
             term_b = (2.5671 - c_b / kq) ** 0.83 * np.cbrt(r_b)
+    exponent: FloatArray | float
     if all_roller:
         base, exponent = 1.0 - term_r, -9.185
     elif no_roller:
