@@ -55,3 +55,66 @@ def pynite_solve(model, shaft):
         for k, c in enumerate(model.cases):
             out[j, k] = (n.RxnFY[c.id], n.RxnFZ[c.id])
     return out
+
+
+def pynite_solve_lean(model, shaft):
+    """The shaft as a PyNiteFEA user models it; reactions (n_bearings, m, 2) [N].
+
+    Nodes only where something happens: the step edges, the bearing pressure centres and
+    the element stations (about 14 on the spindle), one frame member per interval with
+    the section of the step it lies in (A = pi/4 (d^2 - bore^2), I = pi/64 (d^4 - bore^4),
+    J = 2I), the loads of each case as a load combination, bearings as pins (axial held
+    at the locating one), the twist held at the input element. Euler-Bernoulli, no
+    shaft weight (as the comparison with shaftsys is run).
+    """
+    import math
+
+    from Pynite import FEModel3D
+
+    edges = [0.0]
+    for st in shaft.steps:
+        edges.append(edges[-1] + st.length_mm)
+    stations = {b.id: round(b.support_x_mm, 9) for b in shaft.bearings}
+    estations = {e.id: round(e.x_mm, 9) for e in shaft.elements}
+    xs = sorted({round(x, 9) for x in edges} | set(stations.values()) | set(estations.values()))
+    name = {x: f"N{i}" for i, x in enumerate(xs)}
+    fe = FEModel3D()
+    mat = shaft.material
+    fe.add_material("steel", mat.E_MPa, mat.G_MPa, mat.poisson, 0.0)
+    for x in xs:
+        fe.add_node(name[x], float(x), 0.0, 0.0)
+    for i in range(len(xs) - 1):
+        mid = 0.5 * (xs[i] + xs[i + 1])
+        k = next(j for j in range(len(shaft.steps)) if mid <= edges[j + 1])
+        st = shaft.steps[k]
+        A = math.pi / 4.0 * (st.d_mm**2 - st.bore_mm**2)
+        inertia = math.pi / 64.0 * (st.d_mm**4 - st.bore_mm**4)
+        fe.add_section(f"S{i}", A, inertia, inertia, 2.0 * inertia)
+        fe.add_member(f"M{i}", name[xs[i]], name[xs[i + 1]], "steel", f"S{i}")
+    drive_ref = xs[0]
+    for case in model.cases:
+        drive = case.drives[shaft.id]
+        drive_ref = estations.get(drive.input_element or "", xs[0])
+        applied, _ = element_loads(model, shaft, case)
+        for a in applied:
+            node = name[estations[a.element or ""]]
+            for comp, value in zip(("FX", "FY", "FZ"), a.force_N, strict=True):
+                if value:
+                    fe.add_node_load(node, comp, value, case=case.id)
+            for comp, value in zip(("MX", "MY", "MZ"), a.moment_Nmm, strict=True):
+                if value:
+                    fe.add_node_load(node, comp, value, case=case.id)
+        fe.add_load_combo(case.id, {case.id: 1.0})
+    ref = name[drive_ref]
+    fe.def_support(ref, support_RX=True)
+    for b in shaft.bearings:
+        node = name[stations[b.id]]
+        fe.def_support(node, support_DX=b.axial.value == "both", support_DY=True,
+                       support_DZ=True, support_RX=node == ref)
+    fe.analyze_linear(check_statics=False)
+    out = np.zeros((len(shaft.bearings), len(model.cases), 2))
+    for j, b in enumerate(shaft.bearings):
+        n = fe.nodes[name[stations[b.id]]]
+        for k, c in enumerate(model.cases):
+            out[j, k] = (n.RxnFY[c.id], n.RxnFZ[c.id])
+    return out, len(xs)

@@ -102,5 +102,12 @@ def registry():
     """
     import pint
 
-    ureg: Any = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    # pint caches its parsed definitions in the user's cache folder (``:auto:``, via
+    # platformdirs): a later process loads them instead of parsing them again (about
+    # 0.5 s). Where that folder cannot be used, the registry is built without a cache.
+    try:
+        ureg: Any = pint.UnitRegistry(autoconvert_offset_to_baseunit=True,
+                                      cache_folder=":auto:")
+    except (OSError, ValueError, TypeError):
+        ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
     return ureg

@@ -194,7 +194,7 @@ class BearingArrays:
         for f in dataclasses.fields(self):
             value = getattr(self, f.name)
             if isinstance(value, tuple):
-                changes[f.name] = tuple(value[int(i)] for i in idx)
+                changes[f.name] = tuple(map(value.__getitem__, idx.tolist()))
             else:
                 changes[f.name] = value[idx]
         return dataclasses.replace(self, **changes)  # type: ignore[arg-type]
@@ -239,32 +239,56 @@ class BearingArrays:
         return f"bearings[{self.ids[i]}].{name}"
 
 
+class RowErrorTuple(tuple):  # type: ignore[type-arg]
+    """The frozen errors of :class:`RowErrors` (a tuple) with the mask of failed rows.
+
+    ``failed`` saves the per-row Python scans when a later stage merges these errors or
+    asks which rows failed: a batch of thousands of rows with no error costs nothing.
+    """
+
+    failed: BoolArray
+
+
 class RowErrors:
     """First user error per row (``None`` = row fine so far)."""
 
     def __init__(self, n: int, start: Sequence[ModelError | None] | None = None) -> None:
-        self.items: list[ModelError | None] = [None] * n if start is None else list(start)
+        self.items: list[ModelError | None] = [None] * n
+        self._failed = np.zeros(n, dtype=bool)
+        if start is not None:
+            self.merge(start)
 
     def add(self, mask: npt.ArrayLike, make: Callable[[int], ModelError]) -> None:
         """Record ``make(i)`` for every row ``i`` of ``mask`` that has no error yet."""
-        for i in np.flatnonzero(np.asarray(mask, dtype=bool)):
-            if self.items[int(i)] is None:
-                self.items[int(i)] = make(int(i))
+        for i in np.flatnonzero(np.asarray(mask, dtype=bool) & ~self._failed):
+            self.put(int(i), make(int(i)))
+
+    def put(self, i: int, exc: ModelError) -> None:
+        """Record ``exc`` for row ``i`` unless it already has an error."""
+        if self.items[i] is None:
+            self.items[i] = exc
+            self._failed[i] = True
 
     def merge(self, other: Sequence[ModelError | None]) -> None:
         """Take the errors of a later stage where a row has none yet."""
-        for i, exc in enumerate(other):
-            if exc is not None and self.items[i] is None:
-                self.items[i] = exc
+        mask = getattr(other, "failed", None)
+        rows = (np.flatnonzero(mask).tolist() if mask is not None
+                else [i for i, exc in enumerate(other) if exc is not None])
+        for i in rows:
+            exc = other[i]
+            if exc is not None:
+                self.put(i, exc)
 
     @property
     def failed(self) -> BoolArray:
         """Mask of rows with an error."""
-        return np.array([x is not None for x in self.items], dtype=bool)
+        return self._failed.copy()
 
-    def freeze(self) -> tuple[ModelError | None, ...]:
-        """The errors as an immutable tuple."""
-        return tuple(self.items)
+    def freeze(self) -> RowErrorTuple:
+        """The errors as an immutable tuple (with its ``failed`` mask)."""
+        out = RowErrorTuple(self.items)
+        out.failed = self._failed.copy()
+        return out
 
 
-__all__ = ["ARRANGEMENTS", "KINDS", "BearingArrays", "RowErrors"]
+__all__ = ["ARRANGEMENTS", "KINDS", "BearingArrays", "RowErrorTuple", "RowErrors"]

@@ -544,6 +544,13 @@ def equivalent_dynamic_load_arrays(
         line=p.lines[i],
         expected="a radial support next to the thrust bearing",
     ))
+    if bool(np.all(radial)):   # P = Fr rows only (a study's floating rollers): no tables
+        nan = np.full(Fr.shape, np.nan)
+        return EquivalentLoadArrays(
+            P_N=np.array(Fr, dtype=np.float64), X=np.ones(Fr.shape), Y=np.zeros(Fr.shape),
+            e=nan, rel_load=nan.copy(), over_table=np.zeros(Fr.shape, dtype=bool),
+            ribbed_axial=ribbed, Fa_over_Fr=ratio, factors=f, errors=err.freeze(),
+        )
     with np.errstate(divide="ignore", invalid="ignore"):
         rel = f.rel_coef[:, None] * Fa / p.C0_N[:, None]
     # deep groove (Table 3)

@@ -170,6 +170,9 @@ class LifeArrays:
     @property
     def valid(self) -> BoolArray:
         """Mask of rows without a user error."""
+        failed = getattr(self.errors, "failed", None)
+        if failed is not None:
+            return ~np.asarray(failed, dtype=bool)
         return np.array([x is None for x in self.errors], dtype=bool)
 
     @property
@@ -215,13 +218,12 @@ def _reliability(p: BearingArrays, settings: LifeSettings, err: RowErrors
             try:
                 life_factor(float(value), settings.reliability_method, r_field)
             except ModelError as exc:
-                if err.items[i] is None:
-                    err.items[i] = ModelError(
-                        f"bearing '{p.ids[i]}': {exc.message}",
-                        field=exc.field,
-                        line=p.lines[i] if own[i] else None,
-                        expected=exc.expected,
-                    )
+                err.put(i, ModelError(
+                    f"bearing '{p.ids[i]}': {exc.message}",
+                    field=exc.field,
+                    line=p.lines[i] if own[i] else None,
+                    expected=exc.expected,
+                ))
     return R, a1
 
 
@@ -239,6 +241,8 @@ def evaluate(
     duty: DutyCycle,
     settings: LifeSettings,
     lubrication: Lubrication | None,
+    *,
+    per_case: bool = True,
 ) -> LifeArrays:
     """Rating life, modified life, required rating and static safety of N rows.
 
@@ -255,6 +259,11 @@ def evaluate(
         Model-wide life settings (target life h, reliability, method, af, ...).
     lubrication:
         Lubricant data for the modified life, or ``None`` (a1*L10 basis).
+    per_case:
+        ``False`` (a design study that keeps only the per-row verdicts) skips the
+        per-case outputs that are only reported: ``case_L10_h``, ``case_Lnm_h``,
+        ``kappa``, ``kappa_raw``, ``nu_mm2_s``, ``nu1_mm2_s``, ``ec`` are then read-only
+        NaN views (no memory, no work); every per-row result is the same.
 
     Returns
     -------
@@ -303,7 +312,10 @@ def evaluate(
     Pz = np.where(dyn, P_design, 0.0)
     with np.errstate(divide="ignore", invalid="ignore"):
         if any_used:
-            Pm = np.where(used, U * np.where(used, Pz, 0.0) ** pc, 0.0).sum(axis=1) ** (1.0 / pexp)
+            # U_i * P_i^p of the cases that count, once (Pm and C_req share it)
+            UPp = np.where(used, np.where(used, Pz, 0.0) ** pc, 0.0)
+            UPp *= U
+            Pm = UPp.sum(axis=1) ** (1.0 / pexp)
             L10 = np.where(Pm > 0.0, (p.C_N / np.where(Pm > 0.0, Pm, 1.0)) ** pexp, np.inf)
             L10_h = L10 * MEGA_REVOLUTIONS / (60.0 * n_m)
         else:
@@ -311,14 +323,19 @@ def evaluate(
         P1 = np.where(dyn, P_design, 1.0)
         L10_case = np.where(dyn, np.where(P1 > 0.0, (C / np.where(P1 > 0.0, P1, 1.0)) ** pc,
                                           np.inf), np.nan)
-    L10h_case = np.where(dyn, _life_hours(np.where(dyn, L10_case, 0.0), n_abs), np.nan)
+    report_nan = np.broadcast_to(np.nan, (N, m))   # per-case outputs not asked for
+    L10h_case = (np.where(dyn, _life_hours(np.where(dyn, L10_case, 0.0), n_abs), np.nan)
+                 if per_case else report_nan)
 
     # modified life per case
     use_mod = lubrication is not None and settings.use_modified_life
     nan = np.full((N, m), np.nan)
     aiso = np.where(dyn, 1.0, nan)
-    kappa_out, kappa_raw_out = nan.copy(), nan.copy()
-    nu_out, nu1_out, ec_out = nan.copy(), nan.copy(), nan.copy()
+    if per_case:
+        kappa_out, kappa_raw_out = nan.copy(), nan.copy()
+        nu_out, nu1_out, ec_out = nan.copy(), nan.copy(), nan.copy()
+    else:
+        kappa_out = kappa_raw_out = nu_out = nu1_out = ec_out = report_nan
     relief_out = np.zeros((N, m), dtype=bool)
     Cu = p.Cu_N.copy()
     Cu_est = np.zeros(N, dtype=bool)
@@ -348,7 +365,9 @@ def evaluate(
                 block = False
         if block:
             dm = p.mean_diameter_mm[:, None]
-            nu1 = reference_viscosity(n_abs[idx], np.where(dm > 0.0, dm, 1.0))
+            # nu1 depends on dm and the case speed only: once per distinct dm
+            dm_u, dm_inv = np.unique(np.where(dm > 0.0, dm, 1.0), return_inverse=True)
+            nu1 = reference_viscosity(n_abs[idx], dm_u[:, None])[dm_inv.ravel()]
             kappa_raw = nu[None, :] / nu1
             low = kappa_raw < KAPPA_MIN
             jl = np.argmax(low, axis=1)
@@ -400,18 +419,20 @@ def evaluate(
                     p.is_kind(BearingKind.THRUST_BALL)[:, None], lubrication.ep_additives)
             aiso[:, idx] = ai
             relief_out[:, idx] = relief & ~bad
-            kappa_out[:, idx] = kappa
-            kappa_raw_out[:, idx] = kappa_raw
-            nu_out[:, idx] = nu[None, :]
-            nu1_out[:, idx] = nu1
-            ec_out[:, idx] = k_ec
+            if per_case:
+                kappa_out[:, idx] = kappa
+                kappa_raw_out[:, idx] = kappa_raw
+                nu_out[:, idx] = nu[None, :]
+                nu1_out[:, idx] = nu1
+                ec_out[:, idx] = k_ec
 
     a1c = a1[:, None]
     with np.errstate(divide="ignore", invalid="ignore"):
         factors = np.where(dyn, a1c * aiso, np.nan)
         Lnm_case = np.where(dyn, a1c * np.where(dyn, aiso, 1.0) * np.where(dyn, L10_case, 0.0),
                             np.nan)
-        Lnm_case_h = np.where(dyn, _life_hours(np.where(dyn, Lnm_case, 0.0), n_abs), np.nan)
+        Lnm_case_h = (np.where(dyn, _life_hours(np.where(dyn, Lnm_case, 0.0), n_abs), np.nan)
+                      if per_case else report_nan)
         if any_used:
             Lu = np.where(dyn, Lnm_case, 1.0)
             damage = np.where(used, U / np.where(used, Lu, 1.0), 0.0).sum(axis=1)
@@ -419,8 +440,8 @@ def evaluate(
             Lnm_h = Lnm * MEGA_REVOLUTIONS / (60.0 * n_m)
             target_mrev = target_h * 60.0 * n_m / MEGA_REVOLUTIONS
             f1 = np.where(dyn, factors, 1.0)
-            s = np.where(used, U * np.where(used, Pz, 0.0) ** pc / np.where(used, f1, 1.0),
-                         0.0).sum(axis=1)
+            UPp /= np.where(used, f1, 1.0)
+            s = UPp.sum(axis=1)
             C_req = (target_mrev * s) ** (1.0 / pexp)
         else:
             Lnm, Lnm_h, C_req = np.full(N, np.inf), np.full(N, np.inf), np.zeros(N)
@@ -461,7 +482,8 @@ def evaluate(
     bad_rows = err.failed
     if np.any(bad_rows):
         for arr in (P_design, L10_case, L10h_case, aiso, Lnm_case_h, s0_case, P0):
-            arr[bad_rows] = np.nan
+            if arr.flags.writeable:
+                arr[bad_rows] = np.nan
         Pm, L10, L10_h, Lnm, Lnm_h, C_req, margin, life_ratio, s0 = (
             np.where(bad_rows, np.nan, v)
             for v in (Pm, L10, L10_h, Lnm, Lnm_h, C_req, margin, life_ratio, s0))

@@ -380,21 +380,32 @@ def a_iso_arrays(
     if np.any(r < 0.0):
         raise ValueError("ec*Cu/P must be >= 0")
     rol = np.asarray(roller, dtype=bool)
+    tb = np.asarray(thrust_ball, dtype=bool)
+    all_roller, no_roller = bool(np.all(rol)), not bool(np.any(rol))
     low = k < 0.4
     mid = (k >= 0.4) & (k < 1.0)
     q = np.where(low, 0.054381, np.where(mid, 0.19087, 0.071739))
+    # only the branch (roller / ball) that some row needs is evaluated
     with np.errstate(invalid="ignore"):
         kq = k**q
-        c_r = np.where(low, 1.3993, 1.2348)
-        term_r = (1.5859 - c_r / kq) * r**0.4
-        r_b = np.where(thrust_ball, r / 3.0, r)
-        c_b = np.where(low, 2.2649, 1.9987)
-        term_b = (2.5671 - c_b / kq) ** 0.83 * r_b ** (1.0 / 3.0)
-    base = 1.0 - np.where(rol, term_r, term_b)
-    exponent = np.where(rol, -9.185, -9.3)
+        if not no_roller:
+            c_r = np.where(low, 1.3993, 1.2348)
+            term_r = (1.5859 - c_r / kq) * r**0.4
+        if not all_roller:
+            r_b = np.where(tb, r / 3.0, r) if np.any(tb) else r
+            c_b = np.where(low, 2.2649, 1.9987)
+            term_b = (2.5671 - c_b / kq) ** 0.83 * np.cbrt(r_b)
+    exponent: FloatArray | float
+    if all_roller:
+        base, exponent = 1.0 - term_r, -9.185
+    elif no_roller:
+        base, exponent = 1.0 - term_b, -9.3
+    else:
+        base = 1.0 - np.where(rol, term_r, term_b)
+        exponent = np.where(rol, -9.185, -9.3)
     with np.errstate(divide="ignore", invalid="ignore"):
         value = np.where(base > 0.0, 0.1 * np.where(base > 0.0, base, 1.0) ** exponent, np.inf)
-    return np.minimum(value, AISO_MAX)
+    return np.minimum(value, AISO_MAX, out=value)
 
 
 def a_iso(kappa: npt.ArrayLike, ec_Cu_over_P: npt.ArrayLike, kind: BearingKind) -> FloatArray:

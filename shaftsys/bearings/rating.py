@@ -55,8 +55,6 @@ from dataclasses import dataclass
 
 import numpy as np
 import numpy.typing as npt
-from scipy.optimize import brentq
-from scipy.special import ellipe, ellipk
 
 from shaftsys.bearings._util import FloatArray
 from shaftsys.bearings.equivalent import F0_GAMMA, F0_VALUES
@@ -283,6 +281,9 @@ def _hertz_ball_load_per_dw2(
     gamma: float, f: float, outer: bool, p_max_MPa: float, E_MPa: float, poisson: float
 ) -> float:
     """Ball load Q/Dw^2 [MPa] giving contact stress ``p_max_MPa`` at one ring (Hertz)."""
+    from scipy.optimize import brentq  # lazy: only the rating estimate needs them
+    from scipy.special import ellipe, ellipk
+
     s = -1.0 if outer else 1.0
     # curvatures times Dw: ball 2 + 2, raceway along the rolling direction, groove.
     rho = (2.0, 2.0, s * 2.0 * gamma / (1.0 - s * gamma), -1.0 / f)

@@ -15,7 +15,6 @@ import math
 
 import numpy as np
 import numpy.typing as npt
-from scipy.optimize import brentq
 
 from shaftsys.bearings._util import FloatArray, as_float_array
 from shaftsys.errors import ModelError, NumericalError
@@ -104,6 +103,8 @@ def system_life(
         hi *= 2.0
     if not (g(lo) > 0.0 > g(hi)):
         raise NumericalError("system life: could not bracket the root")
+    from scipy.optimize import brentq  # lazy: only a system-life solve needs it
+
     root = float(brentq(g, lo, hi, xtol=1e-14 * hi, rtol=1e-13, maxiter=500))
     hazard = np.zeros_like(L)
     hazard[finite] = -_LN09 * (root / Lf) ** ef

@@ -39,9 +39,8 @@ import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from enum import StrEnum
+from statistics import NormalDist
 from types import MappingProxyType
-
-from scipy.stats import norm
 
 from shaftsys.checks.stress_concentration import LoadMode, NotchFactors
 from shaftsys.errors import ModelError
@@ -347,7 +346,7 @@ def reliability_factor(reliability: float) -> float:
     for key, value in RELIABILITY_FACTOR_TABLE.items():
         if abs(r - key) < 1e-12:
             return value
-    return 1.0 - 0.08 * float(norm.ppf(r))
+    return 1.0 - 0.08 * NormalDist().inv_cdf(r)  # the standard normal quantile
 
 
 @dataclass(frozen=True, slots=True)

@@ -69,7 +69,6 @@ from functools import cached_property
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 from scipy.linalg import lapack
-from scipy.sparse.linalg import LinearOperator, onenormest
 
 from shaftsys.errors import ModelError, NumericalError
 from shaftsys.fe.beam import (
@@ -567,6 +566,8 @@ class _BandedSPD:
             col[d:] += off  # upper part of column j
             col[:-d] += off  # mirrored lower part of column j-d
         n = self.n
+
+        from scipy.sparse.linalg import LinearOperator, onenormest  # lazy: sparse is heavy
 
         def mv(x: Array) -> Array:
             return self.solve_scaled(np.asarray(x, dtype=float).reshape(n, -1))

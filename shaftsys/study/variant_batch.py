@@ -74,8 +74,9 @@ log = logging.getLogger(__name__)
 
 Array = NDArray[np.float64]
 
-#: Variants solved together (keeps the working set in cache).
-CHUNK = 1024
+#: Variants solved together: the (variant x case) temporaries of the life chain stay in
+#: the 512 kB L2 cache (1024 overflowed it; 256 pays the per-chunk Python cost too often).
+CHUNK = 512
 _LN09 = math.log(0.9)
 
 
@@ -93,6 +94,8 @@ class Prepared:
     gravity: Array
     weight: bool
     bearings: tuple[BearingArrays, ...]   # one row per bearing
+    stacked: BearingArrays                # all bearings, one row each (model order)
+    kind_groups: tuple[tuple[int, ...], ...]  # bearing indices of one kind each
     duty: DutyCycle
     slopes: Array
     reliability: float
@@ -151,7 +154,10 @@ def prepare(model: Model) -> Prepared:
         model=model, shaft=shaft, case_ids=tuple(c.id for c in model.cases),
         el_force=F, el_moment=M, fx_elements=F[:, :, 0].sum(axis=0), supports=tuple(supports),
         gravity=g, weight=bool(model.solver.include_shaft_weight and np.any(g)),
-        bearings=preps, duty=duty,
+        bearings=preps, stacked=BearingArrays.from_bearings(list(shaft.bearings)),
+        kind_groups=tuple(tuple(j for j, b in enumerate(shaft.bearings) if b.kind is kind)
+                          for kind in dict.fromkeys(b.kind for b in shaft.bearings)),
+        duty=duty,
         slopes=np.array([b.kind.weibull_slope for b in shaft.bearings], dtype=float),
         reliability=float(model.life.target_reliability), error=error, gear_index=gears)
 
@@ -354,8 +360,10 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
     def combine(Z: Array) -> Array:
         """(r, nc, b) unit-column values -> (r, 2m, b) case values of both planes."""
         out_ = np.zeros((Z.shape[0], 2 * m, b))
-        for c in range(nc):
-            out_ += Z[:, c][:, None, :] * coef[c][None, :, None]
+        tmp = np.empty_like(out_)
+        for c in range(nc):   # the same sum, term by term, without a temporary per term
+            np.multiply(Z[:, c][:, None, :], coef[c][None, :, None], out=tmp)
+            out_ += tmp
         return out_
 
     Rcase = combine(Rf)                                  # (n_sup, 2m, b)
@@ -407,38 +415,57 @@ def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp
     """Life verdict of every bearing by :func:`shaftsys.bearings.kernel.evaluate`.
 
     Fr, Fa (b, nb, m) [N] and C (b, nb) [N] of the variants ``rows`` (positions in
-    ``res``); a variant with a user error gets its reason and no life results.
+    ``res``); a variant with a user error gets its reason (that of its first bearing
+    in model order with one) and no life results. One kernel call per group of bearings
+    of one kind (:attr:`Prepared.kind_groups`) covers all their (variant, bearing) rows:
+    the fixed cost is paid once per group and chunk, and each call takes the kernel's
+    one-kind paths.
     """
     b = rows.size
     nb = len(prep.bearings)
-    L90 = np.full((b, nb), np.inf)
-    failed = np.zeros(b, dtype=bool)
     model = prep.model
-    for j, one in enumerate(prep.bearings):
-        params = replace(one.take(np.zeros(b, dtype=np.intp)), C_N=C[rows, j])
-        la = evaluate(params, Fr[rows, j, :], Fa[rows, j, :], prep.duty, model.life,
-                      model.lubrication)
-        for i in np.flatnonzero(~la.valid & ~failed):
-            res.reason[rows[i]] = f"ModelError: {la.errors[i]}"
-        failed |= ~la.valid
-        res.Lnm_h[rows, j] = la.Lnm_h
-        res.margin[rows, j] = la.margin
-        res.life_ratio[rows, j] = la.life_ratio
-        res.s0[rows, j] = la.s0
-        res.life_ok[rows, j] = la.life_ok
-        res.static_ok[rows, j] = la.static_ok
-        res.ok[rows, j] = la.ok
-        L90[:, j] = np.where(np.isfinite(la.Lnm_h), la.Lnm_h / la.a1, np.inf)
+    m = Fr.shape[2]
+    bad = np.zeros((b, nb), dtype=bool)
+    errors: dict[tuple[int, int], object] = {}
+    L90 = np.full((b, nb), np.inf)
+    a1 = np.ones((b, nb))
+    for group in prep.kind_groups:
+        g = len(group)
+        cols = np.asarray(group, dtype=np.intp)
+        which = np.tile(cols, b)                      # row r = (variant r // g, bearing)
+        params = replace(prep.stacked.take(which), C_N=C[rows][:, cols].reshape(-1))
+        la = evaluate(params, Fr[rows][:, cols].reshape(-1, m),
+                      Fa[rows][:, cols].reshape(-1, m), prep.duty, model.life,
+                      model.lubrication, per_case=False)
+        failed = ~la.valid
+        for r in np.flatnonzero(failed):
+            errors[(int(r) // g, int(group[int(r) % g]))] = la.errors[int(r)]
+        bad[:, cols] = failed.reshape(b, g)
+        res.Lnm_h[rows[:, None], cols] = la.Lnm_h.reshape(b, g)
+        res.margin[rows[:, None], cols] = la.margin.reshape(b, g)
+        res.life_ratio[rows[:, None], cols] = la.life_ratio.reshape(b, g)
+        res.s0[rows[:, None], cols] = la.s0.reshape(b, g)
+        res.life_ok[rows[:, None], cols] = la.life_ok.reshape(b, g)
+        res.static_ok[rows[:, None], cols] = la.static_ok.reshape(b, g)
+        res.ok[rows[:, None], cols] = la.ok.reshape(b, g)
+        L90[:, cols] = la.Lnm_h.reshape(b, g)
+        a1[:, cols] = la.a1.reshape(b, g)
+    failed_v = bad.any(axis=1)
+    for i in np.flatnonzero(failed_v):
+        first = int(np.argmax(bad[i]))
+        res.reason[rows[i]] = f"ModelError: {errors[(int(i), first)]}"
+    with np.errstate(invalid="ignore", divide="ignore"):
+        L90 = np.where(np.isfinite(L90), L90 / a1, np.inf)
     life, lim = system_life_batch(L90, prep.slopes, prep.reliability)
     res.system_life_h[rows] = life
     res.limiting[rows] = lim
-    bad = rows[failed]
-    if bad.size:
+    badv = rows[failed_v]
+    if badv.size:
         for name in ("Lnm_h", "margin", "life_ratio", "s0", "system_life_h"):
-            getattr(res, name)[bad] = np.nan
+            getattr(res, name)[badv] = np.nan
         for name in ("life_ok", "static_ok", "ok"):
-            getattr(res, name)[bad] = False
-        res.limiting[bad] = -1
+            getattr(res, name)[badv] = False
+        res.limiting[badv] = -1
 
 
 def system_life_batch(lives: Array, slopes: Array, reliability: float
