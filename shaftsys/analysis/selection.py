@@ -187,11 +187,10 @@ def _envelope(seat: OpenSeat) -> str:
     return ", ".join(parts)
 
 
-def choose_seat(model: Model, seat: OpenSeat, placeholder: Bearing, loads: BearingResult
-                ) -> SeatChoice:
-    """Evaluate every catalogue row at one support and choose by the model's objective.
-
-    ``loads`` is the support's solved result (its spectrum over every case).
+def fitting_rows(seat: OpenSeat, placeholder: Bearing
+                 ) -> tuple[npt.NDArray[np.intp], frozenset[BearingKind]]:
+    """Catalogue rows that fit the seat (type allowed and suited to the support's axial
+    role, bore within the tolerance, envelope, housing bores) and the types allowed.
     """
     cat = seat.catalogue
     kinds = types_for_role(placeholder.axial, placeholder.pair, placeholder.arrangement)
@@ -206,7 +205,26 @@ def choose_seat(model: Model, seat: OpenSeat, placeholder: Bearing, loads: Beari
         hb = np.asarray(seat.housing_bores_mm, dtype=float)
         fit &= np.any(np.abs(cat.D_mm[:, None] - hb[None, :]) <= seat.bore_tolerance_mm,
                       axis=1)
-    rows = np.flatnonzero(fit)
+    return np.flatnonzero(fit), kinds
+
+
+def qualifying(la: LifeArrays) -> tuple[npt.NDArray[np.bool_], npt.NDArray[np.bool_]]:
+    """Rows that pass every hard check (evaluable, limiting speed, statics, life) and
+    those that also meet the minimum load (the soft check).
+    """
+    hard = (np.asarray(la.valid, dtype=bool) & ~(la.speed_ratio > 1.0)
+            & np.asarray(la.static_ok, dtype=bool) & np.asarray(la.life_ok, dtype=bool))
+    return hard, hard & ~(la.min_load_ratio < 1.0)
+
+
+def choose_seat(model: Model, seat: OpenSeat, placeholder: Bearing, loads: BearingResult
+                ) -> SeatChoice:
+    """Evaluate every catalogue row at one support and choose by the model's objective.
+
+    ``loads`` is the support's solved result (its spectrum over every case).
+    """
+    cat = seat.catalogue
+    rows, kinds = fitting_rows(seat, placeholder)
     remaining = [int(rows.size)]
     if rows.size == 0:
         return SeatChoice(seat.bearing_id, seat.shaft_id, None, None, (), tuple(remaining),
@@ -352,5 +370,5 @@ def choose_bearings(model: Model) -> tuple[Model, Selection]:
     return current, selection
 
 
-__all__ = ["choose_bearings", "choose_seat", "rank_order", "types_for_role",
-           "with_bearings"]
+__all__ = ["choose_bearings", "choose_seat", "fitting_rows", "qualifying", "rank_order",
+           "types_for_role", "with_bearings"]

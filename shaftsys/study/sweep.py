@@ -124,8 +124,12 @@ class Study:
     @property
     def batched(self) -> bool:
         """True when the batched evaluator covers this study."""
+        placeholders = {b.id: b for _, b in self.model.bearings()}
         return (len(self.model.shafts) == 1 and not getattr(self.model, "links", None)
-                and all(q.geometric for q in self.quantities))
+                and all(q.geometric for q in self.quantities)
+                # an open adjusted pair needs the solve-choose passes of analyse
+                and all(placeholders[o.bearing_id].pair is None
+                        for o in self.model.open_seats))
 
     def values_block(self, lo: int, hi: int) -> NDArray[np.float64]:
         """Values of variants ``lo..hi-1``, shape (hi - lo, n_quantities)."""
@@ -218,7 +222,8 @@ def _evaluate_each(study: Study, values: NDArray[np.float64]) -> BatchArrays:
     model = study.model
     bearings, elements, _ = _names(model)
     B = values.shape[0]
-    out = BatchArrays.empty(B, len(bearings), len(elements))
+    seat_ids = [o.bearing_id for o in model.open_seats]
+    out = BatchArrays.empty(B, len(bearings), len(elements), len(seat_ids))
     for i in range(B):
         variant, reason = model_with(model, study.quantities, values[i])
         if reason:
@@ -229,13 +234,22 @@ def _evaluate_each(study: Study, values: NDArray[np.float64]) -> BatchArrays:
         except (ModelError, NumericalError) as exc:
             out.reason[i] = error_text(exc)
             continue
+        if res.selection is not None:
+            mass = price = 0.0
+            for k, sid in enumerate(seat_ids):
+                c = res.selection.seat(sid).candidate
+                out.choice[i, k] = -1 if c is None else c.row
+                mass += math.nan if c is None else c.mass_kg
+                price += math.nan if c is None else c.price
+            out.chosen_mass_kg[i], out.chosen_price[i] = mass, price
         for j, br in enumerate(res.bearings):
             life = br.life
-            assert life is not None
             out.Fr_max_N[i, j] = max((ld.Fr_N for ld in br.loads), default=0.0)
             out.Fa_max_N[i, j] = max((ld.Fa_N for ld in br.loads), default=0.0)
             out.deflection_mm[i, j] = max((ld.deflection_mm for ld in br.loads), default=0.0)
             out.slope_rad[i, j] = max((ld.slope_rad for ld in br.loads), default=0.0)
+            if life is None:       # an open support with no qualifying catalogue row
+                continue
             out.Lnm_h[i, j] = life.Lnm_h
             out.margin[i, j] = life.margin
             out.life_ratio[i, j] = life.life_ratio
@@ -255,7 +269,7 @@ def _evaluate_each(study: Study, values: NDArray[np.float64]) -> BatchArrays:
                 out.el_deflection_mm[i, j] = d
                 out.el_slope_rad[i, j] = s
                 j += 1
-        out.system_life_h[i] = res.system_life_h
+        out.system_life_h[i] = math.nan if res.system_life_h is None else res.system_life_h
         out.limiting[i] = (bearings.index(res.limiting_bearing)
                            if res.limiting_bearing in bearings else -1)
     return out
@@ -328,6 +342,14 @@ def results_frame(study: Study, index: NDArray[np.intp], values: NDArray[np.floa
     for j, eid in enumerate(elements):
         cols[f"{eid}.deflection_mm"] = a.el_deflection_mm[:, j]
         cols[f"{eid}.slope_rad"] = a.el_slope_rad[:, j]
+    for k, seat in enumerate(study.model.open_seats):
+        names = np.array([*seat.catalogue.designation, ""], dtype=object)
+        cols[f"{seat.bearing_id}.choice"] = names[a.choice[:, k]].astype(str)
+        cols[f"{seat.bearing_id}.D_mm"] = np.where(
+            a.choice[:, k] >= 0, seat.catalogue.D_mm[np.maximum(a.choice[:, k], 0)], np.nan)
+    if study.model.open_seats:
+        cols["chosen_mass_kg"] = a.chosen_mass_kg
+        cols["chosen_price"] = a.chosen_price
     cols["system_life_h"] = a.system_life_h
     cols["limiting_bearing"] = np.array([*bearings, ""], dtype=str)[a.limiting]
     if bearings:

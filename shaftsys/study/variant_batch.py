@@ -52,6 +52,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from shaftsys.analysis.element_forces import element_loads
+from shaftsys.analysis.selection import fitting_rows, qualifying, rank_order
 from shaftsys.bearings.arrays import BearingArrays
 from shaftsys.bearings.axial import axial_reactions
 from shaftsys.bearings.kernel import DutyCycle, evaluate
@@ -67,6 +68,7 @@ from shaftsys.fe.solve import (
     planar_support_dofs,
 )
 from shaftsys.model import BearingKind, CaseKind, Model, Shaft
+from shaftsys.model.selection import Objective, OpenSeat
 from shaftsys.study.paths import Geometry
 from shaftsys.units import DENSITY_KG_PER_MM3
 
@@ -101,6 +103,25 @@ class Prepared:
     reliability: float
     error: str = ""
     gear_index: tuple[int, ...] = field(default=())
+    open_seats: tuple[OpenChoice, ...] = ()
+
+
+@dataclass(frozen=True, eq=False)
+class OpenChoice:
+    """An open support of the study's model: its catalogue rows that fit the seat, in
+    rank order of the model's objective (ties of ``largest_margin`` by D, B), as one
+    table for the life chain.
+
+    ``index``: the support's position in the shaft's bearings; ``rows``: catalogue rows
+    in rank order; ``params``: those rows at the support
+    (:meth:`BearingArrays.from_catalogue`); ``by_margin``: rank by the largest margin.
+    """
+
+    index: int
+    seat: OpenSeat
+    rows: NDArray[np.intp]
+    params: BearingArrays
+    by_margin: bool
 
 
 def prepare(model: Model) -> Prepared:
@@ -143,23 +164,54 @@ def prepare(model: Model) -> Prepared:
         static_only=np.array([c.kind is not CaseKind.DUTY for c in model.cases], dtype=bool),
         temperature_C=np.asarray([c.temperature_C for c in model.cases], dtype=float))
     preps = tuple(BearingArrays.from_bearings([b]) for b in shaft.bearings)
-    for params in preps:   # errors that do not depend on the loads fail every variant
+    still_open = {o.bearing_id for o in model.open_seats}
+    for b, params in zip(shaft.bearings, preps, strict=True):
+        # errors that do not depend on the loads fail every variant (an open support's
+        # placeholder is not evaluated: its candidates are)
+        if b.id in still_open:
+            continue
         first = evaluate(params, np.zeros(m), np.zeros(m), duty, model.life,
                          model.lubrication).errors[0]
         if first is not None and not error:
             error = f"ModelError: {first}"
     gears = tuple(j for j, e in enumerate(shaft.elements) if e.kind in ("gear", "bevel_gear"))
     g = np.asarray(model.gravity_m_s2, dtype=float)
+    opens = _open_choices(model, shaft)
+    open_idx = {o.index for o in opens}
+    fixed = [(j, b) for j, b in enumerate(shaft.bearings) if j not in open_idx]
     return Prepared(
         model=model, shaft=shaft, case_ids=tuple(c.id for c in model.cases),
         el_force=F, el_moment=M, fx_elements=F[:, :, 0].sum(axis=0), supports=tuple(supports),
         gravity=g, weight=bool(model.solver.include_shaft_weight and np.any(g)),
         bearings=preps, stacked=BearingArrays.from_bearings(list(shaft.bearings)),
-        kind_groups=tuple(tuple(j for j, b in enumerate(shaft.bearings) if b.kind is kind)
-                          for kind in dict.fromkeys(b.kind for b in shaft.bearings)),
+        kind_groups=tuple(tuple(j for j, b in fixed if b.kind is kind)
+                          for kind in dict.fromkeys(b.kind for _, b in fixed)),
         duty=duty,
         slopes=np.array([b.kind.weibull_slope for b in shaft.bearings], dtype=float),
-        reliability=float(model.life.target_reliability), error=error, gear_index=gears)
+        reliability=float(model.life.target_reliability), error=error, gear_index=gears,
+        open_seats=opens)
+
+
+def _open_choices(model: Model, shaft: Shaft) -> tuple[OpenChoice, ...]:
+    """The open supports of ``shaft`` with their fitting rows in rank order."""
+    out = []
+    index = {b.id: j for j, b in enumerate(shaft.bearings)}
+    for seat in model.open_seats:
+        if seat.bearing_id not in index:
+            continue
+        j = index[seat.bearing_id]
+        p = shaft.bearings[j]
+        rows, _ = fitting_rows(seat, p)
+        by_margin = model.selection.objective is Objective.LARGEST_MARGIN
+        order = rank_order(seat.catalogue, rows, np.zeros(rows.size),
+                           Objective.SMALLEST if by_margin else model.selection.objective)
+        rows = rows[order]
+        params = BearingArrays.from_catalogue(
+            seat.catalogue, rows, rows=p.rows, arrangement=p.arrangement,
+            target_life_h=p.target_life_h, target_reliability=p.target_reliability,
+            s0_min=p.s0_min, ec=p.ec, ribs=p.ribs, line=p.line)
+        out.append(OpenChoice(j, seat, rows, params, by_margin))
+    return tuple(out)
 
 
 # ----------------------------------------------------------------------------- output
@@ -172,6 +224,9 @@ class BatchArrays:
     ``deflection_mm`` and ``slope_rad`` (largest over the cases, at the support node).
     Per element (B, n_elements): ``el_deflection_mm``, ``el_slope_rad``. Per variant:
     ``system_life_h``, ``limiting`` (bearing index, -1 none), ``reason`` ("" = valid).
+    Per open support (B, n_open): ``choice``, the chosen catalogue row (-1: none
+    qualifies); per variant ``chosen_mass_kg``, ``chosen_price`` of the chosen set
+    (NaN where a row gives none or a support has no choice).
     """
 
     Fr_max_N: Array
@@ -190,10 +245,13 @@ class BatchArrays:
     system_life_h: Array
     limiting: NDArray[np.intp]
     reason: NDArray[np.object_]
+    choice: NDArray[np.intp] = field(default_factory=lambda: np.zeros((0, 0), np.intp))
+    chosen_mass_kg: Array = field(default_factory=lambda: np.zeros(0))
+    chosen_price: Array = field(default_factory=lambda: np.zeros(0))
 
     @classmethod
-    def empty(cls, B: int, nb: int, ne: int) -> BatchArrays:
-        """All-NaN arrays for B variants."""
+    def empty(cls, B: int, nb: int, ne: int, n_open: int = 0) -> BatchArrays:
+        """All-NaN arrays for B variants (``n_open`` open supports)."""
         def f(*shape: int) -> Array:
             return np.full(shape, np.nan)
 
@@ -202,7 +260,8 @@ class BatchArrays:
 
         return cls(f(B, nb), f(B, nb), f(B, nb), f(B, nb), f(B, nb), f(B, nb), z(B, nb),
                    z(B, nb), z(B, nb), f(B, nb), f(B, nb), f(B, ne), f(B, ne), f(B),
-                   np.full(B, -1, dtype=np.intp), np.full(B, "", dtype=object))
+                   np.full(B, -1, dtype=np.intp), np.full(B, "", dtype=object),
+                   np.full((B, n_open), -1, dtype=np.intp), f(B), f(B))
 
     def put(self, rows: NDArray[np.intp], other: BatchArrays) -> None:
         """Copy ``other`` (len(rows) variants) into ``rows``."""
@@ -219,7 +278,7 @@ def evaluate_geometry(prep: Prepared, geom: Geometry) -> BatchArrays:
     shaft = prep.shaft
     B = geom.size
     nb, ne, ns = len(shaft.bearings), len(shaft.elements), len(shaft.steps)
-    out = BatchArrays.empty(B, nb, ne)
+    out = BatchArrays.empty(B, nb, ne, len(prep.open_seats))
     out.reason[:] = geom.reason
     if prep.error:
         out.reason[out.reason == ""] = prep.error
@@ -274,7 +333,7 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
             f"shaft '{shaft.id}', bending")
         check_planar_mechanism(sups, x[0], f"shaft '{shaft.id}', bending")
     except (ModelError, NumericalError) as exc:
-        res = BatchArrays.empty(b, nb, ne)
+        res = BatchArrays.empty(b, nb, ne, len(prep.open_seats))
         res.reason[:] = error_text(exc)
         out.put(rows, res)
         return
@@ -381,7 +440,7 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
     Us = combine(U[2 * nodes + 1])
     defl = np.hypot(Ud[:, :m], Ud[:, m:]).max(axis=1)   # (nb + ne, b)
     slope = np.hypot(Us[:, :m], Us[:, m:]).max(axis=1)
-    res = BatchArrays.empty(b, nb, ne)
+    res = BatchArrays.empty(b, nb, ne, len(prep.open_seats))
     res.reason[:] = reason
     res.deflection_mm[:] = defl[:nb].T
     res.slope_rad[:] = slope[:nb].T
@@ -450,15 +509,18 @@ def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp
         res.ok[rows[:, None], cols] = la.ok.reshape(b, g)
         L90[:, cols] = la.Lnm_h.reshape(b, g)
         a1[:, cols] = la.a1.reshape(b, g)
+    for k, oc in enumerate(prep.open_seats):
+        _choose_open(prep, oc, k, Fr, Fa, rows, res, L90, a1)
     failed_v = bad.any(axis=1)
     for i in np.flatnonzero(failed_v):
         first = int(np.argmax(bad[i]))
         res.reason[rows[i]] = f"ModelError: {errors[(int(i), first)]}"
+    unchosen = np.isnan(L90).any(axis=1)     # an open support with no qualifying row
     with np.errstate(invalid="ignore", divide="ignore"):
         L90 = np.where(np.isfinite(L90), L90 / a1, np.inf)
     life, lim = system_life_batch(L90, prep.slopes, prep.reliability)
-    res.system_life_h[rows] = life
-    res.limiting[rows] = lim
+    res.system_life_h[rows] = np.where(unchosen, np.nan, life)
+    res.limiting[rows] = np.where(unchosen, -1, lim)
     badv = rows[failed_v]
     if badv.size:
         for name in ("Lnm_h", "margin", "life_ratio", "s0", "system_life_h"):
@@ -466,6 +528,68 @@ def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp
         for name in ("life_ok", "static_ok", "ok"):
             getattr(res, name)[badv] = False
         res.limiting[badv] = -1
+
+
+#: Largest (variant x candidate x case) block the choice evaluates at once.
+_CHOICE_BLOCK = 1_000_000
+
+
+def _choose_open(prep: Prepared, oc: OpenChoice, k: int, Fr: Array, Fa: Array,
+                 rows: NDArray[np.intp], res: BatchArrays, L90: Array, a1: Array) -> None:
+    """Choose open support ``oc`` for every variant ``rows`` at once.
+
+    Every fitting catalogue row (in rank order) against every variant's spectrum is one
+    table for the life chain (blocks of at most :data:`_CHOICE_BLOCK` values): per
+    variant the first row in rank order that passes the hard checks, preferring those
+    that also meet the minimum load (as :func:`shaftsys.analysis.selection.choose_seat`;
+    ``largest_margin``: the largest margin, ties in rank order). One pass: the loads are
+    those of the study's supports (the batched path is used only where the chosen row
+    cannot move its support or change the thrust, i.e. no adjusted pair is open).
+    """
+    j = oc.index
+    R = oc.rows.size
+    b = rows.size
+    model = prep.model
+    m = Fr.shape[2]
+    if R == 0:
+        res.ok[rows, j] = False
+        L90[:, j] = np.nan
+        return
+    cat = oc.seat.catalogue
+    step = max(1, _CHOICE_BLOCK // max(R * m, 1))
+    for lo in range(0, b, step):
+        sub = rows[lo: lo + step]
+        nv = sub.size
+        params = oc.params.take(np.tile(np.arange(R), nv))
+        la = evaluate(params, np.repeat(Fr[sub, j, :], R, axis=0),
+                      np.repeat(Fa[sub, j, :], R, axis=0), prep.duty, model.life,
+                      model.lubrication, per_case=False)
+        hard_rows, soft_rows = qualifying(la)
+        hard, soft = hard_rows.reshape(nv, R), soft_rows.reshape(nv, R)
+        use = np.where(np.any(soft, axis=1)[:, None], soft, hard)
+        if oc.by_margin:
+            pick = np.argmax(np.where(use, la.margin.reshape(nv, R), -np.inf), axis=1)
+        else:
+            pick = np.argmax(use, axis=1)
+        got = use.any(axis=1)
+        flat = np.arange(nv) * R + pick
+        sel = np.where(got, oc.rows[pick], -1)
+        res.choice[sub, k] = sel
+        for name in ("Lnm_h", "margin", "life_ratio", "s0"):
+            getattr(res, name)[sub, j] = np.where(got, getattr(la, name)[flat], np.nan)
+        for name in ("life_ok", "static_ok", "ok"):
+            getattr(res, name)[sub, j] = got & np.asarray(getattr(la, name))[flat]
+        pos = lo + np.arange(nv)
+        L90[pos, j] = np.where(got, la.Lnm_h[flat], np.nan)
+        a1[pos, j] = la.a1[flat]
+        mass = np.where(got, cat.mass_kg[np.maximum(sel, 0)], np.nan)
+        price = np.where(got, cat.price[np.maximum(sel, 0)], np.nan)
+        prev_m = np.where(np.isnan(res.chosen_mass_kg[sub]) & (k == 0), 0.0,
+                          res.chosen_mass_kg[sub])
+        prev_p = np.where(np.isnan(res.chosen_price[sub]) & (k == 0), 0.0,
+                          res.chosen_price[sub])
+        res.chosen_mass_kg[sub] = prev_m + mass
+        res.chosen_price[sub] = prev_p + price
 
 
 def system_life_batch(lives: Array, slopes: Array, reliability: float
