@@ -350,7 +350,7 @@ def evaluate(
             dm = p.mean_diameter_mm[:, None]
             nu1 = reference_viscosity(n_abs[idx], np.where(dm > 0.0, dm, 1.0))
             kappa_raw = nu[None, :] / nu1
-            low = kappa_raw < KAPPA_MIN
+            low = ~(kappa_raw >= KAPPA_MIN)  # NaN is low too
             jl = np.argmax(low, axis=1)
             err.add(np.any(low, axis=1), lambda i: ModelError(
                 f"bearing '{p.ids[i]}', case {case_name(duty.case_ids, int(idx[jl[i]]))}: "
