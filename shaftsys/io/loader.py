@@ -108,6 +108,8 @@ def build_model(raw: Any, file: str | None = None) -> Model:
     life = _read_life(top, raw.get("life"))
     lubrication = _read_lubrication(top, raw.get("lubrication"))
     solver = _read_solver(top, raw.get("solver"))
+    checks = (read_section(top, raw["checks"], S.CHECKS, "checks")
+              if raw.get("checks") is not None else {"fatigue": "required"})
     gravity = values["gravity"] if values["gravity"] is not None else (0.0, -9.80665, 0.0)
     links = _read_links(Where(file, "links", values["links"]), values["links"], shafts)
     cases, in_hours = _read_cases(Where(file, "cases", values["cases"]), values["cases"],
@@ -123,6 +125,7 @@ def build_model(raw: Any, file: str | None = None) -> Model:
         solver=solver,
         source=file,
         links=tuple(links),
+        fatigue_required=checks["fatigue"] == "required",
     )
     if links:
         from shaftsys.machine.geometry import check_machine
