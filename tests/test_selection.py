@@ -290,7 +290,9 @@ def test_adjusted_tapered_pair_reaches_a_fixed_point(tmp_path: Path) -> None:
     _, sel2 = choose_bearings(again)
     assert [s.candidate.designation for s in sel2.seats if s.candidate] == \
         [s.candidate.designation for s in sel.seats if s.candidate]
-    result = analyse(model)
+    # the base model's material has no Su, Sy: its fatigue is not required here (issue 19:
+    # a required check that is not evaluated is no pass)
+    result = analyse(dataclasses.replace(model, fatigue_required=False))
     assert result.selection is not None and result.ok
     loads = {b.bearing.id: b.loads[0] for b in result.bearings}
     # the induced thrust of each row (0.5 Fr / Y) is in the final loads
