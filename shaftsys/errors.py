@@ -78,9 +78,17 @@ class ModelError(ShaftsysError, ValueError):
 
 
 class NumericalError(ShaftsysError, ArithmeticError):
-    """A solve that cannot be trusted: singular, ill-posed, or residual above tolerance."""
+    """A solve that cannot be trusted: singular, ill-posed, or residual above tolerance.
+
+    ``dof`` is the index of the degree of freedom where a factorisation broke down (so
+    that the analysis can name the place in the model's words), or ``None``.
+    """
 
     exit_code = 3
+
+    def __init__(self, message: str, *, dof: int | None = None) -> None:
+        super().__init__(message)
+        self.dof = dof
 
 
 class OutputError(ShaftsysError, OSError):

@@ -299,7 +299,9 @@ def test_adjusted_pair_reaches_a_fixed_point(kind: str) -> None:
     _, sel2 = choose_bearings(again)
     assert [s.candidate.designation for s in sel2.seats if s.candidate] == \
         [s.candidate.designation for s in sel.seats if s.candidate]
-    result = analyse(model)
+    # the base model's material has no Su, Sy: its fatigue is not required here (a
+    # required check that is not evaluated is no pass)
+    result = analyse(dataclasses.replace(model, fatigue_required=False))
     assert result.selection is not None
     assert all(b.verdict == "pass" for b in result.bearings)
     loads = {b.bearing.id: b.loads[0] for b in result.bearings}

@@ -345,13 +345,19 @@ def test_asme_setting_and_unknown_options(demo_checks):
         ShaftCheckSettings(fatigue_cases="all")
 
 
-def test_fatigue_skipped_without_strength(model_yaml):
-    """The base test model's material has no Su/Sy: fatigue is skipped with a note."""
+def test_fatigue_not_evaluated_without_strength(model_yaml):
+    """The base test model's material has no Su/Sy: fatigue is "not evaluated" with the
+    reason, never a pass (issue 19; before it read as fatigue_ok). Common practice, no
+    source.
+    """
     _, text = model_yaml()
     sc = check_shafts(analyse(load_model_text(text), with_life=False)).shafts[0]
     assert sc.sections == ()
-    assert any("fatigue skipped" in n for n in sc.notes)
-    assert sc.fatigue_ok
+    assert any("fatigue not evaluated" in n for n in sc.notes)
+    assert not sc.fatigue_ok
+    assert sc.fatigue_verdict == "not evaluated"
+    assert sc.fatigue_not_evaluated == "material 'steel' has no Su, Sy"
+    assert not sc.ok
 
 
 def test_to_dict_and_table(demo_checks):

@@ -22,6 +22,21 @@ DEFAULT_CRITICAL_SPEED_MARGIN = 1.25
 DEFAULT_REQUIRED_FATIGUE_SAFETY = 1.5
 DEFAULT_REQUIRED_YIELD_SAFETY = 1.2
 _FATIGUE_CASES = ("duty_and_peak", "duty")
+#: Verdict words of every check. ``marginal``: within its limit but in the caution band
+#: (counts as passed); ``not evaluated``: could not be computed (the reason is given);
+#: it fails the run when the check is required.
+PASS = "pass"
+FAIL = "fail"
+MARGINAL = "marginal"
+NOT_EVALUATED = "not evaluated"
+
+
+def combine_verdicts(verdicts: list[str]) -> str:
+    """One verdict of several checks: fail > not evaluated > marginal > pass."""
+    for word in (FAIL, NOT_EVALUATED, MARGINAL):
+        if word in verdicts:
+            return word
+    return PASS
 
 # ----------------------------------------------------------------------------- settings
 @dataclass(frozen=True)
@@ -126,13 +141,23 @@ class DeflectionCheck:
     cases: tuple[CaseDeflection, ...]
     ok: bool
 
+    @property
+    def verdict(self) -> str:
+        """``fail`` (a limit exceeded), ``marginal`` (a bearing slope inside the typical
+        range's caution band) or ``pass``.
+        """
+        if not self.ok:
+            return FAIL
+        return MARGINAL if any(c.status == "marginal" for c in self.cases) else PASS
+
     def to_dict(self) -> dict[str, Any]:
         """JSON-ready values."""
         return {"id": self.id, "shaft": self.shaft, "x_mm": self.x_mm,
                 "slope_limit_rad": self.slope_limit_rad,
                 "slope_limit_low_rad": self.slope_limit_low_rad,
                 "deflection_limit_mm": self.deflection_limit_mm, "source": self.source,
-                "cases": [c.to_dict() for c in self.cases], "ok": self.ok}
+                "cases": [c.to_dict() for c in self.cases], "ok": self.ok,
+                "verdict": self.verdict}
 
 
 @dataclass(frozen=True)
@@ -166,6 +191,11 @@ class SectionCheck:
     ok: bool
     notes: tuple[str, ...] = ()
 
+    @property
+    def verdict(self) -> str:
+        """``pass`` or ``fail`` (both safety factors against the required ones)."""
+        return PASS if self.ok else FAIL
+
     def to_dict(self) -> dict[str, Any]:
         """JSON-ready values (infinite safety factors as ``None``)."""
         return {"x_mm": self.x_mm, "feature": self.feature, "d_mm": self.d_mm,
@@ -173,7 +203,7 @@ class SectionCheck:
                 "Kf": self.Kf, "Kfs": self.Kfs, "Se_MPa": self.Se_MPa,
                 "sigma_a_MPa": self.sigma_a_MPa, "sigma_m_MPa": self.sigma_m_MPa,
                 "n_fatigue": _finite(self.n_fatigue), "n_yield": _finite(self.n_yield),
-                "ok": self.ok, "notes": list(self.notes)}
+                "ok": self.ok, "verdict": self.verdict, "notes": list(self.notes)}
 
 
 @dataclass(frozen=True)
@@ -190,8 +220,11 @@ class ShaftCheck:
     supercritical: the shaft runs above its first bending critical.
     sections: fatigue sections (empty when fatigue was skipped).
     min_fatigue_safety, min_yield_safety: smallest over the sections [-] (``inf`` if none).
-    fatigue_ok: every section meets both required safety factors.
+    fatigue_ok: fatigue was evaluated and every section meets both required safety
+        factors (``False`` when it was not evaluated).
     notes: notes and warnings for the designer.
+    fatigue_not_evaluated: why fatigue could not be evaluated, or ``None``.
+    fatigue_required: a fatigue check that is not evaluated fails the shaft.
     """
 
     id: str
@@ -205,11 +238,50 @@ class ShaftCheck:
     min_yield_safety: float
     fatigue_ok: bool
     notes: tuple[str, ...]
+    fatigue_not_evaluated: str | None = None
+    fatigue_required: bool = True
+
+    @property
+    def critical_speed_verdict(self) -> str:
+        """``pass``, ``marginal`` (supercritical: accepted, runs through the critical at
+        start-up) or ``fail`` (within the margin).
+        """
+        if not self.critical_speed_ok:
+            return FAIL
+        return MARGINAL if self.supercritical else PASS
+
+    @property
+    def fatigue_verdict(self) -> str:
+        """``pass``, ``fail`` or ``not evaluated`` (see :attr:`fatigue_not_evaluated`)."""
+        if self.fatigue_not_evaluated is not None:
+            return NOT_EVALUATED
+        return PASS if self.fatigue_ok else FAIL
+
+    @property
+    def verdict(self) -> str:
+        """The shaft's verdict over its required checks (see :func:`combine_verdicts`);
+        fatigue that is not evaluated and not required does not count.
+        """
+        parts = [self.critical_speed_verdict]
+        if self.fatigue_required or self.fatigue_verdict != NOT_EVALUATED:
+            parts.append(self.fatigue_verdict)
+        return combine_verdicts(parts)
 
     @property
     def ok(self) -> bool:
-        """Critical speed and fatigue checks pass."""
-        return self.critical_speed_ok and self.fatigue_ok
+        """Every required check was evaluated and passes (marginal counts as passed)."""
+        return self.verdict in (PASS, MARGINAL)
+
+    @property
+    def not_evaluated_message(self) -> str | None:
+        """What is missing, in the model's words, or ``None``."""
+        if self.fatigue_not_evaluated is None:
+            return None
+        fix = (" - give them, or mark fatigue as not required (checks: {fatigue: "
+               "not_required})" if "has no" in self.fatigue_not_evaluated else "")
+        tail = "" if self.fatigue_required else " (not required)"
+        return (f"fatigue of shaft '{self.id}' not evaluated{tail}: "
+                f"{self.fatigue_not_evaluated}{fix if self.fatigue_required else ''}")
 
     def to_dict(self) -> dict[str, Any]:
         """JSON-ready values (infinite values as ``None``)."""
@@ -220,7 +292,12 @@ class ShaftCheck:
                 "min_yield_safety": _finite(self.min_yield_safety),
                 "critical_speed_ok": self.critical_speed_ok,
                 "supercritical": self.supercritical, "fatigue_ok": self.fatigue_ok,
-                "sections": [s.to_dict() for s in self.sections], "notes": list(self.notes)}
+                "sections": [s.to_dict() for s in self.sections], "notes": list(self.notes),
+                "verdict": self.verdict,
+                "critical_speed_verdict": self.critical_speed_verdict,
+                "fatigue_verdict": self.fatigue_verdict,
+                "fatigue_required": self.fatigue_required,
+                "fatigue_not_evaluated_reason": self.fatigue_not_evaluated}
 
 
 @dataclass(frozen=True)
@@ -233,10 +310,33 @@ class ShaftChecks:
     settings: ShaftCheckSettings
 
     @property
+    def verdict(self) -> str:
+        """Verdict over every slope, deflection, critical speed and fatigue check."""
+        parts = [s.verdict for s in self.shafts]
+        parts += [c.verdict for c in (*self.bearings, *self.gears)]
+        return combine_verdicts(parts)
+
+    @property
     def ok(self) -> bool:
-        """Every slope, deflection, critical speed and fatigue check passes."""
-        return (all(s.ok for s in self.shafts) and all(b.ok for b in self.bearings)
-                and all(g.ok for g in self.gears))
+        """Every required slope, deflection, critical speed and fatigue check was
+        evaluated and passes (marginal counts as passed).
+        """
+        return self.verdict in (PASS, MARGINAL)
+
+    @property
+    def not_evaluated(self) -> tuple[str, ...]:
+        """Messages of the required checks that were not evaluated."""
+        return tuple(m for s in self.shafts if s.fatigue_required
+                     and (m := s.not_evaluated_message) is not None)
+
+    @property
+    def marginal(self) -> tuple[str, ...]:
+        """The checks that pass inside their caution band, for messages."""
+        out = [f"slope at {c.kind} '{c.id}' of shaft '{c.shaft}'"
+               for c in (*self.bearings, *self.gears) if c.verdict == MARGINAL]
+        out += [f"critical speed of shaft '{s.id}' (supercritical)"
+                for s in self.shafts if s.critical_speed_verdict == MARGINAL]
+        return tuple(out)
 
     def shaft(self, shaft_id: str) -> ShaftCheck:
         """The check of one shaft."""
@@ -250,6 +350,9 @@ class ShaftChecks:
         st = self.settings
         return {
             "ok": self.ok,
+            "verdict": self.verdict,
+            "not_evaluated": list(self.not_evaluated),
+            "marginal": list(self.marginal),
             "shafts": [s.to_dict() for s in self.shafts],
             "bearings": [b.to_dict() for b in self.bearings],
             "gears": [g.to_dict() for g in self.gears],

@@ -12,7 +12,13 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 from numpy.typing import NDArray
 
-from shaftsys.analysis.check_results import ShaftChecks
+from shaftsys.analysis.check_results import (
+    FAIL,
+    MARGINAL,
+    NOT_EVALUATED,
+    PASS,
+    ShaftChecks,
+)
 from shaftsys.analysis.selection_results import Selection
 from shaftsys.model import Bearing, Model, Shaft
 
@@ -24,10 +30,6 @@ if TYPE_CHECKING:
 
 #: Version of the JSON result contract (keys are added, never renamed or dropped).
 SCHEMA_VERSION = "1.1"
-#: Verdict words of every check.
-PASS = "pass"
-FAIL = "fail"
-NOT_EVALUATED = "not evaluated"
 
 
 @dataclass(frozen=True)
@@ -192,7 +194,7 @@ class Result:
         """
         parts = [b.verdict for b in self.bearings]
         parts.append(NOT_EVALUATED if self.checks is None else
-                     PASS if self.checks.ok else FAIL)
+                     PASS if self.checks.verdict == MARGINAL else self.checks.verdict)
         if FAIL in parts:
             return FAIL
         return NOT_EVALUATED if NOT_EVALUATED in parts else PASS
@@ -211,6 +213,8 @@ class Result:
                for b in self.bearings if b.life is None]
         if self.checks is None:
             out.append("shaft checks")
+        else:
+            out.extend(self.checks.not_evaluated)
         return tuple(out)
 
     def bearing(self, bearing_id: str) -> BearingResult:

@@ -52,8 +52,10 @@ N*mm, N, degC.
    Sy over the largest peak von Mises stress of any single case (duty, peak, static)
    and of the fatigue classification. Marin factors: the section step's surface finish,
    the model's target reliability, the highest given temperature of the cases used (20
-   degC when none is given). Fatigue is skipped with a note when the material has no Su
-   or Sy.
+   degC when none is given). Fatigue is "not evaluated" (with the reason) when the
+   material has no Su or Sy or no duty case gives loads; a required fatigue check that is
+   not evaluated fails the run (``Model.fatigue_required``, the model file's
+   ``checks: {fatigue: not_required}`` lifts it).
 """
 
 from __future__ import annotations
@@ -305,7 +307,7 @@ def _shaft_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings) -> Shaft
     if n_max > 0.0 and n_max / margin < f_tors < margin * n_max:
         notes.append(f"WARNING: first torsional frequency {f_tors:.0f} rpm lies within "
                      f"the margin {margin:g} of the top speed {n_max:.0f} rpm")
-    sections, fnotes = _fatigue_sections(model, sr, st)
+    sections, fnotes, skipped = _fatigue_sections(model, sr, st)
     notes.extend(fnotes)
     n_f = min((s.n_fatigue for s in sections), default=math.inf)
     n_y = min((s.n_yield for s in sections), default=math.inf)
@@ -313,7 +315,8 @@ def _shaft_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings) -> Shaft
         id=shaft.id, first_critical_rpm=f_bend, first_torsional_rpm=f_tors,
         max_speed_rpm=n_max, critical_speed_ok=crit_ok, supercritical=supercritical,
         sections=tuple(sections), min_fatigue_safety=n_f, min_yield_safety=n_y,
-        fatigue_ok=all(s.ok for s in sections), notes=tuple(notes))
+        fatigue_ok=skipped is None and all(s.ok for s in sections), notes=tuple(notes),
+        fatigue_not_evaluated=skipped, fatigue_required=model.fatigue_required)
 
 
 # ----------------------------------------------------------------------------- fatigue
@@ -421,16 +424,21 @@ def _step_index(shaft: Shaft, x_mm: float) -> int:
 
 
 def _fatigue_sections(model: Model, sr: ShaftResult, st: ShaftCheckSettings
-                      ) -> tuple[list[SectionCheck], list[str]]:
+                      ) -> tuple[list[SectionCheck], list[str], str | None]:
+    """Section checks, notes, and why fatigue was not evaluated (``None`` if it was)."""
     mat = sr.shaft.material
     if mat.Su_MPa is None or mat.Sy_MPa is None:
-        return [], [f"fatigue skipped: material '{mat.name}' has no Su or Sy"]
+        missing = ", ".join(n for n, v in (("Su", mat.Su_MPa), ("Sy", mat.Sy_MPa))
+                            if v is None)
+        why = f"material '{mat.name}' has no {missing}"
+        return [], [f"fatigue not evaluated: {why}"], why
     kinds = (CaseKind.DUTY, CaseKind.PEAK) if st.fatigue_cases == "duty_and_peak" \
         else (CaseKind.DUTY,)
     by_id = {c.id: c for c in model.cases}
     fat_sols = [s for s in sr.cases if by_id[s.case].kind in kinds]
     if not fat_sols:
-        return [], ["fatigue skipped: no duty case"]
+        why = "no duty case gives the fatigue loads"
+        return [], [f"fatigue not evaluated: {why}"], why
     temps = [by_id[s.case].temperature_C for s in fat_sols]
     temps = [t for t in temps if math.isfinite(t)]
     temperature = max(temps, default=ROOM_TEMPERATURE_C)
@@ -440,7 +448,7 @@ def _fatigue_sections(model: Model, sr: ShaftResult, st: ShaftCheckSettings
     out = []
     for sec in _sections(sr):
         out.append(_section_check(model, sr, st, sec, fat_sols, temperature))
-    return out, notes
+    return out, notes, None
 
 
 def _section_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings, sec: _Section,

@@ -282,7 +282,8 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
                 f"nodal residual {nodal_rel:.3g} (backward error of the solve) exceeds the "
                 f"tolerance {tol:.1g}")
         why = ("the bending stiffness is too ill-conditioned to trust the reactions (look "
-               "for very soft bearing springs or extreme stiffness ratios between steps)"
+               f"for very soft bearing springs or extreme stiffness ratios between steps: "
+               f"{_stiffness_suspects(shaft)})"
                if roundoff > MAX_ROUNDOFF_RESIDUAL else "the reactions cannot be trusted")
         raise NumericalError(
             f"shaft '{shaft.id}', case '{case.id}': {what} (force {f_res:.3g} N, moment "
@@ -519,6 +520,68 @@ def _backward_error(system: Any, u: NDArray[np.float64], F: NDArray[np.float64],
     return np.asarray(absolute / np.maximum(norm_f + ku, np.finfo(float).tiny))
 
 
+def _stiffness_suspects(shaft: Shaft) -> str:
+    """The steps and bearing springs to look at first, in the model's words: the
+    thinnest and thickest step (bending stiffness goes with d^4) and the softest
+    bearing spring.
+    """
+    edges = shaft.step_edges_mm
+    order = sorted(range(len(shaft.steps)), key=lambda k: shaft.steps[k].d_mm)
+    thin, thick = order[0], order[-1]
+    ratio = (shaft.steps[thick].d_mm / shaft.steps[thin].d_mm) ** 4
+    out = [f"step {thin + 1} (x = {edges[thin]:g} to {edges[thin + 1]:g} mm, d = "
+           f"{shaft.steps[thin].d_mm:g} mm) against step {thick + 1} (d = "
+           f"{shaft.steps[thick].d_mm:g} mm), a bending stiffness ratio of {ratio:.2g}"]
+    springs = [b for b in shaft.bearings if b.radial_stiffness_N_mm is not None]
+    if springs:
+        soft = min(springs, key=lambda b: b.radial_stiffness_N_mm or math.inf)
+        out.append(f"bearing '{soft.id}' at x = {soft.support_x_mm:g} mm with "
+                   f"radial_stiffness {soft.radial_stiffness_N_mm:g} N/mm")
+    return "; ".join(out)
+
+
+def _not_held_message(shaft: Shaft, x_mm: float, plane: str, detail: str) -> str:
+    """A singular bending stiffness in the model's words: which shaft and plane, which
+    span is free, which bearing and step to look at (``x_mm``: where the factorisation
+    broke down [mm]; ``detail``: the solver's own message).
+    """
+    radial = sorted((b for b in shaft.bearings if b.kind is not BearingKind.THRUST_BALL),
+                    key=lambda b: b.support_x_mm)
+    left = [b for b in radial if b.support_x_mm <= x_mm]
+    right = [b for b in radial if b.support_x_mm > x_mm]
+    if left and right:
+        lo, hi = left[-1].support_x_mm, right[0].support_x_mm
+        span = (f"between x = {lo:g} mm (bearing '{left[-1].id}') and x = {hi:g} mm "
+                f"(bearing '{right[0].id}')")
+    elif left:
+        lo, hi = left[-1].support_x_mm, shaft.length_mm
+        span = f"between bearing '{left[-1].id}' at x = {lo:g} mm and the free end x = {hi:g} mm"
+    elif right:
+        lo, hi = 0.0, right[0].support_x_mm
+        span = f"between the free end x = 0 mm and bearing '{right[0].id}' at x = {hi:g} mm"
+    else:
+        span = f"along its whole length (0 to {shaft.length_mm:g} mm: no radial bearing)"
+    edges = shaft.step_edges_mm
+    j = next((k for k in range(len(shaft.steps)) if x_mm < edges[k + 1]),
+             len(shaft.steps) - 1)
+    step = shaft.steps[j]
+    thin = min(range(len(shaft.steps)), key=lambda k: shaft.steps[k].d_mm)
+    look = []
+    near = min(radial, key=lambda b: abs(b.support_x_mm - x_mm), default=None)
+    if near is not None:
+        spring = ("" if near.radial_stiffness_N_mm is None else
+                  f", radial_stiffness {near.radial_stiffness_N_mm:g} N/mm")
+        look.append(f"bearing '{near.id}' at x = {near.support_x_mm:g} mm{spring}")
+    look.append(f"step {j + 1} (x = {edges[j]:g} to {edges[j + 1]:g} mm, d = "
+                f"{step.d_mm:g} mm, length {step.length_mm:g} mm)")
+    if thin != j:
+        look.append(f"the thinnest step {thin + 1} (d = {shaft.steps[thin].d_mm:g} mm)")
+    return (f"shaft '{shaft.id}' is not held in the {plane} plane {span} (the bending "
+            f"stiffness is singular or nearly so near x = {x_mm:g} mm): add a support, "
+            f"or check {'; '.join(look)} (a support too soft, or steps whose stiffness "
+            f"differs by many orders of magnitude) [solver: {detail}]")
+
+
 def solve_shaft_bending(shaft: Shaft, sm: ShaftMesh, model: Model,
                         applied_all: list[list[AppliedLoad]]) -> BendingSolution:
     """Factor the bending stiffness of ``shaft`` once and solve every case.
@@ -540,10 +603,16 @@ def solve_shaft_bending(shaft: Shaft, sm: ShaftMesh, model: Model,
                                 b.radial_stiffness_N_mm or math.inf,
                                 b.tilt_stiffness_Nmm_rad))
     shear = model.solver.shear_deformation
-    xy = PlanarBending.from_mesh(mesh, supports, shear=shear,
-                                 label=f"shaft '{shaft.id}', bending in the x-y plane")
-    xz = PlanarBending.from_mesh(mesh, supports, shear=shear,
-                                 label=f"shaft '{shaft.id}', bending in the x-z plane")
+    try:
+        xy = PlanarBending.from_mesh(mesh, supports, shear=shear,
+                                     label=f"shaft '{shaft.id}', bending in the x-y plane")
+        xz = PlanarBending.from_mesh(mesh, supports, shear=shear,
+                                     label=f"shaft '{shaft.id}', bending in the x-z plane")
+    except NumericalError as exc:
+        if exc.dof is None:
+            raise
+        raise NumericalError(_not_held_message(shaft, float(mesh.x_mm[exc.dof // 2]),
+                                               "x-y", str(exc)), dof=exc.dof) from None
     F_xy, F_xz, q_y, q_z, axial_weight = _nodal_loads(sm, model, applied_all)
     qy_cols = None if q_y is None else np.repeat(q_y[:, None], m, axis=1)
     qz_cols = None if q_z is None else np.repeat(q_z[:, None], m, axis=1)

@@ -369,7 +369,7 @@ def evaluate(
             dm_u, dm_inv = np.unique(np.where(dm > 0.0, dm, 1.0), return_inverse=True)
             nu1 = reference_viscosity(n_abs[idx], dm_u[:, None])[dm_inv.ravel()]
             kappa_raw = nu[None, :] / nu1
-            low = kappa_raw < KAPPA_MIN
+            low = ~(kappa_raw >= KAPPA_MIN)  # NaN is low too
             jl = np.argmax(low, axis=1)
             err.add(np.any(low, axis=1), lambda i: ModelError(
                 f"bearing '{p.ids[i]}', case {case_name(duty.case_ids, int(idx[jl[i]]))}: "

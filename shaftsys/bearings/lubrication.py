@@ -95,7 +95,7 @@ def walther_constants(
             field="lubrication",
             expected="two distinct temperatures",
         )
-    if min(nu_a_mm2_s, nu_b_mm2_s) <= 0.3:
+    if not min(nu_a_mm2_s, nu_b_mm2_s) > 0.3:  # written so that NaN fails
         raise ModelError(
             "viscosity must exceed 0.3 mm^2/s for the Walther relation",
             field="lubrication",
@@ -106,7 +106,7 @@ def walther_constants(
     la = math.log10(t_a_C + KELVIN)
     lb = math.log10(t_b_C + KELVIN)
     B = -(zb - za) / (lb - la)
-    if B <= 0.0:
+    if not B > 0.0:
         raise ModelError(
             "viscosity must fall as temperature rises",
             field="lubrication",
@@ -138,6 +138,10 @@ def viscosity_at(
     """
     A, B = walther_constants(nu_a_mm2_s, t_a_C, nu_b_mm2_s, t_b_C)
     t = np.asarray(temperature_C, dtype=np.float64)
+    if np.any(np.isfinite(t) & ~(t > -KELVIN)):
+        raise ModelError(f"a case temperature is not above absolute zero (-{KELVIN} degC)",
+                         field="cases.temperature",
+                         expected=f"a temperature above -{KELVIN} degC")
     return np.atleast_1d(10.0 ** (10.0 ** (A - B * np.log10(t + KELVIN))) - WALTHER_C)
 
 
@@ -160,7 +164,7 @@ def reference_viscosity(speed_rpm: npt.ArrayLike, dm_mm: npt.ArrayLike) -> Float
     """
     n = np.abs(np.atleast_1d(np.asarray(speed_rpm, dtype=np.float64)))
     dm = np.asarray(dm_mm, dtype=np.float64)
-    if np.any(n <= 0.0) or np.any(dm <= 0.0):
+    if not (np.all(n > 0.0) and np.all(dm > 0.0)):  # NaN fails too
         raise ValueError("reference viscosity needs n > 0 rpm and dm > 0 mm")
     slow = 45000.0 * n**-0.83 * dm**-0.5
     fast = 4500.0 * n**-0.5 * dm**-0.5
@@ -375,9 +379,9 @@ def a_iso_arrays(
     """
     k = np.atleast_1d(np.asarray(kappa, dtype=np.float64))
     r = np.atleast_1d(np.asarray(ec_Cu_over_P, dtype=np.float64))
-    if np.any(k < KAPPA_MIN - 1e-12) or np.any(k > KAPPA_MAX + 1e-12):
+    if not np.all((k >= KAPPA_MIN - 1e-12) & (k <= KAPPA_MAX + 1e-12)):  # NaN fails too
         raise ValueError(f"aISO needs {KAPPA_MIN} <= kappa <= {KAPPA_MAX}, got {k}")
-    if np.any(r < 0.0):
+    if not np.all(r >= 0.0):
         raise ValueError("ec*Cu/P must be >= 0")
     rol = np.asarray(roller, dtype=bool)
     tb = np.asarray(thrust_ball, dtype=bool)

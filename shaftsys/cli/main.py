@@ -376,6 +376,7 @@ def _check(args: argparse.Namespace) -> int:
     from shaftsys.cli.progress import ProgressBar
     from shaftsys.report.tables import (
         loads_table,
+        overall_verdict,
         selection_table,
         shaft_checks_table,
         verdict_table,
@@ -401,6 +402,8 @@ def _check(args: argparse.Namespace) -> int:
             if result.checks is not None:
                 print(file=out)
                 _emit(shaft_checks_table(result.checks), out)
+            print(file=out)
+            _emit(overall_verdict(result), out)
         out.flush()
         for w in _all_warnings(result):
             _warn(w)

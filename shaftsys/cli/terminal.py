@@ -32,11 +32,14 @@ _RESET = "\x1b[0m"
 _VERDICT_ROLE = {
     "PASS": "good", "ok": "good",
     "FAIL": "bad", "EXCEEDED": "bad", "TOO CLOSE": "bad", "LOW": "bad",
-    "marginal": "caution", "supercritical": "caution",
+    "marginal": "caution", "supercritical": "caution", "NOT EVALUATED": "bad",
+    "(not required)": "caution",
 }
 _ROW_END = re.compile(r"(?<= )(" + "|".join(sorted((re.escape(w) for w in _VERDICT_ROLE),
                                                   key=len, reverse=True)) + r")$")
-_SUMMARY = {"all supports pass": "good", "FAILING:": "bad"}
+_SUMMARY = {"all supports pass": "good", "FAILING:": "bad", "VERDICT: PASS": "good",
+            "VERDICT: FAIL": "bad", "VERDICT: NOT EVALUATED": "bad",
+            "NOT EVALUATED (not a pass)": "bad"}
 
 
 def colour_wanted(stream: TextIO, environ: Mapping[str, str] | None = None) -> bool:

@@ -520,21 +520,24 @@ class _BandedSPD:
         bad = np.flatnonzero(~np.isfinite(s))  # diagonal <= 0 after elimination
         if bad.size:
             raise NumericalError(
-                f"{label}: no stiffness at {describe(int(bad[0]))}: the system is singular"
+                f"{label}: no stiffness at {describe(int(bad[0]))}: the system is singular",
+                dof=int(bad[0]),
             )
         c, info = lapack.dpbtrf(ab, lower=0)
         if info != 0:
             where = describe(int(info - 1)) if info > 0 else "(invalid input)"
             raise NumericalError(
                 f"{label}: stiffness matrix is singular or not positive definite "
-                f"(factorisation failed at {where}); the shaft is not fully restrained"
+                f"(factorisation failed at {where}); the shaft is not fully restrained",
+                dof=int(info - 1) if info > 0 else None,
             )
         piv = c[u] ** 2
         i_min = int(np.argmin(piv))
         if piv[i_min] < pivot_tol:
             raise NumericalError(
                 f"{label}: near-zero pivot {piv[i_min]:.3g} at {describe(i_min)}: "
-                "the shaft is (nearly) a mechanism; check supports and spring stiffnesses"
+                "the shaft is (nearly) a mechanism; check supports and spring stiffnesses",
+                dof=i_min,
             )
         self.scale = s
         self.factor = c

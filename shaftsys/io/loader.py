@@ -133,6 +133,8 @@ def build_model(raw: Any, file: str | None = None) -> Model:
     selection = _read_selection(top, raw.get("selection"))
     lubrication = _read_lubrication(top, raw.get("lubrication"))
     solver = _read_solver(top, raw.get("solver"))
+    checks = (read_section(top, raw["checks"], S.CHECKS, "checks")
+              if raw.get("checks") is not None else {"fatigue": "required"})
     gravity = values["gravity"] if values["gravity"] is not None else (0.0, -9.80665, 0.0)
     links = _read_links(Where(file, "links", values["links"]), values["links"], shafts)
     cases, in_hours = _read_cases(Where(file, "cases", values["cases"]), values["cases"],
@@ -150,6 +152,7 @@ def build_model(raw: Any, file: str | None = None) -> Model:
         links=tuple(links),
         open_seats=tuple(seats.found),
         selection=selection,
+        fatigue_required=checks["fatigue"] == "required",
     )
     if links:
         from shaftsys.machine.geometry import check_machine

@@ -41,6 +41,74 @@ DEFAULT_UNITS: dict[str, str] = {
 }
 
 _NUMBER = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$")
+#: A leading number, then the unit text.
+_LEADING_NUMBER = re.compile(r"\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)")
+#: Tokens of a unit expression: a unit name, a small integer exponent, an operator,
+#: brackets, blanks, or the ``1`` of ``1/s``.
+_UNIT_TOKEN = re.compile(
+    r"(?P<name>[A-Za-z_\u00b5\u03bc\u00b0\u2126\u03a9][A-Za-z0-9_\u00b5\u03bc\u00b0\u2126\u03a9]*)"
+    r"|(?P<exp>(?:\^|\*\*)\s*\(?[-+]?\d{1,2}\)?)"
+    r"|(?P<op>[*/\u00b7\u22c5])|(?P<open>\()|(?P<close>\))|(?P<one>1(?![0-9.eE]))|(?P<blank>\s+)")
+#: Longest text of a quantity (number and unit) [characters]; units are short words.
+MAX_QUANTITY_TEXT = 100
+#: Longest unit expression [characters].
+MAX_UNIT_TEXT = 40
+#: Longest excerpt of a value quoted in a message [characters].
+EXCERPT_CHARS = 40
+
+
+def excerpt(value: object, limit: int = EXCERPT_CHARS) -> str:
+    """``repr`` of a value, cut to ``limit`` characters (with its length) when longer,
+    so that a message never echoes a huge value whole.
+    """
+    if isinstance(value, str) and len(value) > limit:
+        return f"{value[:limit]!r}... ({len(value)} characters)"
+    text = repr(value)
+    if len(text) > limit + 2:
+        return f"{text[:limit]}... ({len(text)} characters)"
+    return text
+
+
+def split_quantity(text: str) -> tuple[float | None, str]:
+    """``"45 mm"`` -> ``(45.0, "mm")``; ``"1/s"`` -> ``(None, "1/s")``.
+
+    The number is read by ``float``; the unit must be a product and quotient of unit
+    names with small integer exponents (at most two digits) and brackets, at most
+    :data:`MAX_UNIT_TEXT` characters. Nothing is evaluated as arithmetic, so the work is
+    bounded whatever the text.
+
+    Raises
+    ------
+    QuantityProblem: the text is not a number followed by a unit of that form.
+    """
+    m = _LEADING_NUMBER.match(text)
+    number = float(m.group(1)) if m else None
+    unit = text[m.end():].strip() if m else text.strip()
+    if number is not None and unit.startswith("/"):
+        unit = "1" + unit
+    expected = "a number and a unit such as '45 mm', '1450 rpm' or '68 mm^2/s'"
+    if len(unit) > MAX_UNIT_TEXT:
+        raise QuantityProblem(f"the unit of {excerpt(text)} is longer than "
+                              f"{MAX_UNIT_TEXT} characters", expected)
+    pos = 0
+    depth = 0
+    previous = ""
+    while pos < len(unit):
+        tok = _UNIT_TOKEN.match(unit, pos)
+        if tok is None or (tok.lastgroup == "exp" and previous not in ("name", "close")):
+            raise QuantityProblem(f"cannot read {excerpt(text)} as a number and a unit "
+                                  "(arithmetic is not evaluated)", expected)
+        kind = tok.lastgroup or ""
+        depth += (kind == "open") - (kind == "close")
+        if depth < 0 or depth > 3:
+            raise QuantityProblem(f"unbalanced or deep brackets in {excerpt(text)}",
+                                  expected)
+        if kind != "blank":
+            previous = kind
+        pos = tok.end()
+    if depth:
+        raise QuantityProblem(f"unbalanced brackets in {excerpt(text)}", expected)
+    return number, unit
 
 
 class QuantityProblem(Exception):
@@ -80,7 +148,7 @@ def to_internal(value: object, dimension: str) -> float:
     if number != 0.0 and not MIN_MAGNITUDE <= abs(number) <= MAX_MAGNITUDE:
         unit = DEFAULT_UNITS[dimension] or "(no unit)"
         raise QuantityProblem(
-            f"{value!r} is {number:.3g} {unit}, outside the range shaftsys computes with",
+            f"{excerpt(value)} is {number:.3g} {unit}, outside the range shaftsys computes with",
             f"0 or a magnitude from {MIN_MAGNITUDE:g} to {MAX_MAGNITUDE:g} {unit}")
     return number
 
@@ -89,36 +157,46 @@ def _to_internal(value: object, dimension: str) -> float:
     unit = DEFAULT_UNITS[dimension]
     expected = f"a {dimension.replace('_', ' ')} such as '{_example(dimension)}'"
     if isinstance(value, bool) or value is None:
-        raise QuantityProblem(f"{value!r} is not a {dimension}", expected)
+        raise QuantityProblem(f"{excerpt(value)} is not a {dimension}", expected)
     if isinstance(value, int) and abs(value) > 10**300:
         raise QuantityProblem(f"a whole number of about {value.bit_length() * 0.30103:.0f} "
                               "digits is not a finite number", expected)
     if isinstance(value, int | float):
         number = float(value)
         if not math.isfinite(number):
-            raise QuantityProblem(f"{value!r} is not a finite number", expected)
+            raise QuantityProblem(f"{excerpt(value)} is not a finite number", expected)
         return number
     if not isinstance(value, str):
         raise QuantityProblem(f"{type(value).__name__} given, not a {dimension}", expected)
+    if len(value) > MAX_QUANTITY_TEXT:
+        raise QuantityProblem(f"a text of {len(value)} characters is not a {dimension} "
+                              f"({excerpt(value)})", expected + f", at most "
+                              f"{MAX_QUANTITY_TEXT} characters")
     text = value.strip()
     if _NUMBER.match(text):
         return _to_internal(float(text), dimension)
-    if text.lower() in {"nan", "inf", "-inf", "+inf", "infinity"}:
-        raise QuantityProblem(f"{value!r} is not a finite number", expected)
+    if text.lower().split(" ")[0].lstrip("+-") in {"nan", "inf", "infinity"}:
+        raise QuantityProblem(f"{excerpt(value)} is not a finite number", expected)
     text = text.replace("%", " percent")
+    try:
+        given, unit_text = split_quantity(text)
+    except QuantityProblem as exc:
+        raise QuantityProblem(exc.message, expected) from None
     ureg = U.registry()
     try:
-        q = ureg.Quantity(text)
+        # the unit alone is parsed (a bounded expression); the number is a float
+        q = ureg.Quantity(1.0 if given is None else given, unit_text or "dimensionless")
     except Exception:  # pint raises many types for unparsable text
-        raise QuantityProblem(f"cannot read {value!r} as a quantity", expected) from None
+        raise QuantityProblem(f"cannot read {excerpt(value)} as a quantity",
+                              expected) from None
     if not hasattr(q, "magnitude") or not isinstance(q.magnitude, int | float):
-        raise QuantityProblem(f"cannot read {value!r} as a quantity", expected)
+        raise QuantityProblem(f"cannot read {excerpt(value)} as a quantity", expected)
     try:
         finite = math.isfinite(float(q.magnitude))
     except OverflowError:  # an integer too large for a float
         finite = False
     if not finite:
-        raise QuantityProblem(f"{value!r} is not a finite number", expected)
+        raise QuantityProblem(f"{excerpt(value)} is not a finite number", expected)
     try:
         if dimension == "speed":
             return _speed_rpm(q)
@@ -127,7 +205,7 @@ def _to_internal(value: object, dimension: str) -> float:
         return float(q.to(unit).magnitude)
     except Exception:
         raise QuantityProblem(
-            f"{value!r} has units of {q.units:~} which are not a {dimension}", expected
+            f"{excerpt(value)} has units of {q.units:~} which are not a {dimension}", expected
         ) from None
 
 

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 from typing import Any
 
 from shaftsys import __version__
@@ -35,6 +36,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         "ok": result.ok,
         "verdict": result.verdict,
         "not_evaluated": list(result.not_evaluated),
+        "marginal": list(result.checks.marginal) if result.checks is not None else [],
+        "checks_required": {"fatigue": model.fatigue_required},
         "warnings": list(result.warnings),
     }
     for s in result.shafts:
@@ -100,7 +103,35 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         data["selection"] = result.selection.to_dict()
     data["system"] = {"life_h": result.system_life_h,
                       "limiting_bearing": result.limiting_bearing}
-    return data
+    for entry, life_h in [(e["system"], s.system_life_h)
+                          for e, s in zip(data["shafts"], result.shafts, strict=True)] + [
+            (data["system"], result.system_life_h)]:
+        if life_h is not None and math.isinf(life_h):
+            entry["life_note"] = ("unbounded: no bearing wears (no case turns at or above "
+                                  "life.min_speed with a load), the verdicts rest on static "
+                                  "safety")
+    return finite_results(data)
+
+
+def finite_results(value: Any) -> Any:
+    """The same tree with no non-finite number: an infinite value under key ``k`` is
+    written ``null`` with ``k_unbounded: true`` beside it (e.g. ``life_h: null,
+    life_h_unbounded: true``), NaN as ``null`` with ``k_undefined: true``; in a list an
+    infinite number becomes ``null``.
+    """
+    if isinstance(value, dict):
+        out: dict[str, Any] = {}
+        for k, v in value.items():
+            if isinstance(v, float) and not math.isfinite(v):
+                out[k] = None
+                out[f"{k}_unbounded" if math.isinf(v) else f"{k}_undefined"] = True
+            else:
+                out[k] = finite_results(v)
+        return out
+    if isinstance(value, list | tuple):
+        return [None if isinstance(v, float) and not math.isfinite(v) else finite_results(v)
+                for v in value]
+    return value
 
 
 def _housing(shaft_id: str, result: Result, force: tuple[float, float, float]

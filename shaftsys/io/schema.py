@@ -42,8 +42,35 @@ def _field(f: S.Field) -> dict[str, Any]:
         out = {"type": "array", "items": {"$ref": f"#/$defs/{f.of}"}, "description": f.doc}
     else:
         out = {"description": f.doc}
+    bounds = _bounds(f)
+    if bounds and f.kind == "quantity":
+        out["oneOf"] = [{"type": "number", **bounds}, _QUANTITY["oneOf"][1]]
+    elif bounds and f.kind in {"number", "int"}:
+        out.update(bounds)
+    if f.kind == "list" and f.max_items is not None:
+        out["maxItems"] = f.max_items
     if f.default is not None and f.kind not in {"list", "map"}:
         out["default"] = list(f.default) if isinstance(f.default, tuple) else f.default
+    return out
+
+
+def _bounds(f: S.Field) -> dict[str, float]:
+    """The field's range for a bare number (in its default unit), as the loader checks
+    it: the schema and the loader refuse the same bare numbers.
+    """
+    out: dict[str, float] = {}
+    if f.positive:
+        out["exclusiveMinimum"] = 0.0
+    if f.non_negative:
+        out["minimum"] = 0.0
+    if f.minimum is not None:
+        out["minimum"] = max(f.minimum, out.get("minimum", f.minimum))
+    if f.above is not None:
+        out["exclusiveMinimum"] = max(f.above, out.get("exclusiveMinimum", f.above))
+    if f.maximum is not None:
+        out["maximum"] = f.maximum
+    if f.below is not None:
+        out["exclusiveMaximum"] = f.below
     return out
 
 

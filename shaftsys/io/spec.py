@@ -9,11 +9,12 @@ both.
 from __future__ import annotations
 
 import difflib
+import math
 from dataclasses import dataclass
 from typing import Any
 
 from shaftsys.errors import ModelError
-from shaftsys.io.quantities import MAX_MAGNITUDE, QuantityProblem, to_internal
+from shaftsys.io.quantities import MAX_MAGNITUDE, QuantityProblem, excerpt, to_internal
 from shaftsys.io.yamlsource import LocatedDict, LocatedList
 from shaftsys.model.selection import Objective, SelectionSettings
 
@@ -40,9 +41,32 @@ class Field:
     of: str | None = None  # name of a nested section in SECTIONS
     minimum: float | None = None
     maximum: float | None = None
+    above: float | None = None  # exclusive minimum
+    below: float | None = None  # exclusive maximum
+    max_items: int | None = None  # longest list
 
 
 F = Field
+
+#: Longest text of a name or other text value [characters].
+MAX_TEXT = 200
+#: Plausible ranges (common practice, no source): beyond them a value is a typing
+#: mistake, and the numerics would meet ratios they were not built for.
+MAX_DIAMETER_MM = 10_000.0
+MIN_STEP_DIAMETER_MM = 0.1
+MAX_LENGTH_MM = 100_000.0
+MAX_SPEED_RPM = 1_000_000.0
+#: Absolute zero [degC]; case temperatures must lie above it, and within a plausible
+#: range for lubricated machinery [degC] (common practice, no source).
+ABSOLUTE_ZERO_C = -273.15
+MIN_TEMPERATURE_C = -100.0
+MAX_TEMPERATURE_C = 500.0
+#: Most items of a list (steps, bearings, elements, shafts, links, cases).
+MAX_STEPS = 1000
+MAX_BEARINGS = 100
+MAX_ELEMENTS = 1000
+MAX_SHAFTS = 200
+MAX_CASES = 10_000
 
 #: Default unit of a bare number, per dimension (for the schema's descriptions).
 DEFAULT_UNIT_NOTE = {
@@ -56,7 +80,7 @@ DEFAULT_UNIT_NOTE = {
 MATERIAL = {
     "E": F("quantity", "Young's modulus", dim="stress", required=True, positive=True),
     "G": F("quantity", "shear modulus (default E / (2 (1 + nu)))", dim="stress", positive=True),
-    "nu": F("number", "Poisson's ratio", default=0.3, minimum=0.0, maximum=0.5),
+    "nu": F("number", "Poisson's ratio", default=0.3, minimum=0.0, below=0.5),
     "density": F("quantity", "density", dim="density", default=7850.0, positive=True),
     "Su": F("quantity", "ultimate tensile strength", dim="stress", positive=True),
     "Sy": F("quantity", "yield strength", dim="stress", positive=True),
@@ -64,11 +88,13 @@ MATERIAL = {
 
 STEP = {
     "length": F("quantity", "axial length of the step (give length or to)", dim="length",
-                positive=True),
+                positive=True, maximum=MAX_LENGTH_MM),
     "to": F("quantity", "station where the step ends (instead of length)", dim="length",
-            positive=True),
-    "d": F("quantity", "outer diameter", dim="length", required=True, positive=True),
-    "bore": F("quantity", "bore diameter", dim="length", default=0.0, non_negative=True),
+            positive=True, maximum=MAX_LENGTH_MM),
+    "d": F("quantity", "outer diameter", dim="length", required=True, positive=True,
+           minimum=MIN_STEP_DIAMETER_MM, maximum=MAX_DIAMETER_MM),
+    "bore": F("quantity", "bore diameter", dim="length", default=0.0, non_negative=True,
+              maximum=MAX_DIAMETER_MM),
     "fillet": F("quantity", "fillet radius at the shoulder where the step starts",
                 dim="length", positive=True),
     "keyway": F("choice", "keyway in the step", choices=("profile", "sled_runner")),
@@ -90,9 +116,9 @@ BEARING = {
     "at": F("quantity", "station of the bearing's mid-width", dim="length", required=True,
             non_negative=True),
     "d": F("quantity", "bore diameter (required unless 'choose' is given)", dim="length",
-           positive=True),
+           positive=True, maximum=MAX_DIAMETER_MM),
     "D": F("quantity", "outside diameter (required unless 'choose' is given)",
-           dim="length", positive=True),
+           dim="length", positive=True, maximum=MAX_DIAMETER_MM),
     "B": F("quantity", "width", dim="length", positive=True),
     "C": F("quantity", "basic dynamic load rating (required unless 'choose' is given)",
            dim="force", positive=True),
@@ -102,7 +128,8 @@ BEARING = {
                  default="set", choices=("set", "per_row")),
     "Cu": F("quantity", "fatigue load limit (estimated from C0 when missing)", dim="force",
             positive=True),
-    "limiting_speed": F("quantity", "maker's limiting speed", dim="speed", positive=True),
+    "limiting_speed": F("quantity", "maker's limiting speed", dim="speed", positive=True,
+                         maximum=MAX_SPEED_RPM),
     "e": F("number", "maker's e factor", positive=True),
     "X": F("number", "override: radial factor X above e", non_negative=True),
     "Y": F("number", "maker's axial factor Y (single row), or override", non_negative=True),
@@ -205,7 +232,7 @@ _ELEMENT_COMMON = {
 ELEMENT_TYPES: dict[str, dict[str, Field]] = {
     "gear": {
         "pitch_diameter": F("quantity", "working pitch diameter (or module and teeth)",
-                            dim="length", positive=True),
+                            dim="length", positive=True, maximum=MAX_DIAMETER_MM),
         "module": F("quantity", "normal module", dim="length", positive=True),
         "teeth": F("int", "number of teeth", minimum=1),
         "pressure_angle": F("quantity", "normal pressure angle", dim="angle", default=20.0,
@@ -219,7 +246,8 @@ ELEMENT_TYPES: dict[str, dict[str, Field]] = {
     },
     "bevel_gear": {
         "mean_pitch_diameter": F("quantity", "pitch diameter at mid face width",
-                                 dim="length", required=True, positive=True),
+                                 dim="length", required=True, positive=True,
+                                 maximum=MAX_DIAMETER_MM),
         "pitch_cone_angle": F("quantity", "pitch cone angle", dim="angle", required=True,
                               positive=True, maximum=90.0),
         "pressure_angle": F("quantity", "pressure angle", dim="angle", default=20.0,
@@ -230,11 +258,11 @@ ELEMENT_TYPES: dict[str, dict[str, Field]] = {
     },
     "pulley": {
         "diameter": F("quantity", "pitch diameter", dim="length", required=True,
-                      positive=True),
+                      positive=True, maximum=MAX_DIAMETER_MM),
         "belt_angle": F("quantity", "direction toward the other pulley's axis (single "
                         "shafts)", dim="angle"),
         "wrap_angle": F("quantity", "wrap angle on this pulley", dim="angle", default=180.0,
-                        positive=True, maximum=360.0),
+                        positive=True, below=360.0),
         "pretension": F("quantity", "installation tension of each strand (single shafts; "
                         "a linked pulley takes the link's)", dim="force", positive=True),
         "friction": F("number", "friction coefficient belt/pulley", default=0.3,
@@ -244,11 +272,11 @@ ELEMENT_TYPES: dict[str, dict[str, Field]] = {
     },
     "sprocket": {
         "pitch_diameter": F("quantity", "pitch diameter", dim="length", required=True,
-                            positive=True),
+                            positive=True, maximum=MAX_DIAMETER_MM),
         "chain_angle": F("quantity", "direction toward the other sprocket's axis (single "
                          "shafts)", dim="angle"),
         "wrap_angle": F("quantity", "wrap angle", dim="angle", default=180.0, positive=True,
-                        maximum=360.0),
+                        below=360.0),
     },
     "coupling": {
         "radial_force": F("quantity", "constant radial force (misalignment)", dim="force",
@@ -275,10 +303,12 @@ SHAFT = {
     "id": F("id", "shaft id", required=True),
     "material": F("any", "a material name from 'materials' or a material mapping",
                   required=True),
-    "steps": F("list", "cylindrical steps from x = 0", required=True, of="step"),
-    "bearings": F("list", "bearings on the shaft", required=True, of="bearing"),
+    "steps": F("list", "cylindrical steps from x = 0", required=True, of="step",
+               max_items=MAX_STEPS),
+    "bearings": F("list", "bearings on the shaft", required=True, of="bearing",
+                  max_items=MAX_BEARINGS),
     "elements": F("list", "gears, pulleys, loads... on the shaft", default=None,
-                  of="element"),
+                  of="element", max_items=MAX_ELEMENTS),
     "origin": F("vector", "housing-frame position of the shaft's x = 0 (machine models)",
                 dim="length"),
     "axis": F("vector", "housing-frame direction of the shaft's +x", dim="dimensionless"),
@@ -298,7 +328,8 @@ LINK = {
 }
 
 DRIVE = {
-    "speed": F("quantity", "signed shaft speed about +x", dim="speed", required=True),
+    "speed": F("quantity", "signed shaft speed about +x", dim="speed", required=True,
+               minimum=-MAX_SPEED_RPM, maximum=MAX_SPEED_RPM),
     "input": F("map", "where power enters", of="input"),
     "outputs": F("any", "element id -> share of the power leaving there"),
 }
@@ -322,12 +353,15 @@ CASE = {
     "share": F("quantity", "time fraction of the duty cycle", dim="dimensionless",
                non_negative=True),
     "hours": F("quantity", "hours in the duty cycle", dim="time", non_negative=True),
-    "speed": F("quantity", "signed speed of the shaft (single-shaft models)", dim="speed"),
+    "speed": F("quantity", "signed speed of the shaft (single-shaft models)", dim="speed",
+               minimum=-MAX_SPEED_RPM, maximum=MAX_SPEED_RPM),
     "input": F("map", "where power enters (single-shaft models)", of="input"),
     "outputs": F("any", "element id -> share of the power leaving there"),
     "shafts": F("any", "per-shaft speed/input/outputs (several unlinked shafts)"),
     "loads": F("any", "element id -> {force, moment} of this case"),
-    "temperature": F("quantity", "operating temperature", dim="temperature"),
+    "temperature": F("quantity", "operating temperature", dim="temperature",
+                     above=ABSOLUTE_ZERO_C, minimum=MIN_TEMPERATURE_C,
+                     maximum=MAX_TEMPERATURE_C),
 }
 
 LUBRICATION = {
@@ -354,7 +388,7 @@ LIFE = {
     "application_factor": F("number", "load application factor on P", default=1.0,
                             minimum=1.0),
     "min_speed": F("quantity", "cases slower than this count for static checks only",
-                   dim="speed", default=10.0, non_negative=True),
+                   dim="speed", default=10.0, non_negative=True, maximum=MAX_SPEED_RPM),
     "s0_min": F("number", "required static safety for every bearing", positive=True),
     "modified_life": F("bool", "use Lnm when lubrication data is given", default=True),
 }
@@ -363,10 +397,17 @@ SOLVER = {
     "shear_deformation": F("bool", "Timoshenko (true) or Euler-Bernoulli (false)",
                            default=True),
     "max_element": F("quantity", "longest beam element", dim="length", default=10.0,
-                     positive=True),
+                     positive=True, maximum=MAX_LENGTH_MM),
     "residual_tolerance": F("number", "largest equilibrium residual", default=1e-9,
                             positive=True, maximum=1e-3),
     "shaft_weight": F("bool", "include the shaft's own weight", default=True),
+}
+
+CHECKS = {
+    "fatigue": F("choice", "fatigue and first-cycle yield of the shafts (needs Su and Sy "
+                 "of every shaft material): required, or not_required (then a shaft "
+                 "without Su, Sy is reported as not evaluated but does not fail the run)",
+                 default="required", choices=("required", "not_required")),
 }
 
 MODEL = {
@@ -377,9 +418,13 @@ MODEL = {
     "lubrication": F("map", "lubricant and cleanliness (enables Lnm)", of="lubrication"),
     "life": F("map", "life targets and methods", of="life"),
     "solver": F("map", "beam solver settings", of="solver"),
-    "shafts": F("list", "the shafts", required=True, of="shaft"),
-    "links": F("list", "gear meshes, belts and chains between shafts", of="link"),
-    "cases": F("list", "the operating cases", required=True, of="case"),
+    "shafts": F("list", "the shafts", required=True, of="shaft", max_items=MAX_SHAFTS),
+    "links": F("list", "gear meshes, belts and chains between shafts", of="link",
+               max_items=MAX_SHAFTS),
+    "cases": F("list", "the operating cases", required=True, of="case",
+               max_items=MAX_CASES),
+    "checks": F("map", "which shaft checks are required (a required check that cannot be "
+                "evaluated fails the run)", of="checks"),
     "study": F("any", "design study (see the sweep command)"),
     "selection": F("map", "how open bearings ('choose') are chosen", of="selection"),
 }
@@ -413,6 +458,7 @@ SECTIONS: dict[str, dict[str, Field]] = {
     "link": LINK,
     "life": LIFE,
     "solver": SOLVER,
+    "checks": CHECKS,
 }
 
 
@@ -481,7 +527,7 @@ def _describe(value: Any) -> str:
         return "a list"
     if value is None:
         return "nothing"
-    return f"{type(value).__name__} {value!r}"
+    return f"{type(value).__name__} {excerpt(value)}"
 
 
 def check_keys(where: Where, mapping: LocatedDict, allowed: dict[str, Field] | set[str]
@@ -490,9 +536,10 @@ def check_keys(where: Where, mapping: LocatedDict, allowed: dict[str, Field] | s
     names = list(allowed)
     for key in mapping:
         if key not in allowed:
-            close = difflib.get_close_matches(key, names, n=1, cutoff=0.6)
+            close = difflib.get_close_matches(str(key)[:MAX_TEXT], names, n=1, cutoff=0.6)
             hint = f"; did you mean '{close[0]}'?" if close else ""
-            raise where.error(key, f"unknown key '{key}'{hint}",
+            shown = key if len(str(key)) <= 40 else excerpt(str(key))
+            raise where.error(key, f"unknown key '{shown}'{hint}",
                               "one of: " + ", ".join(sorted(names)))
 
 
@@ -530,8 +577,11 @@ def read_value(where: Where, key: str | int, raw: Any, spec: Field) -> Any:
         if isinstance(raw, bool) or not isinstance(raw, str | int) or raw == "":
             raise where.error(key, f"expected a name, got {_describe(raw)}", "a text")
         text = str(raw)
+        if len(text) > MAX_TEXT:
+            raise where.error(key, f"a text of {len(text)} characters ({excerpt(text)})",
+                              f"at most {MAX_TEXT} characters")
         if kind == "id" and (len(text) > 64 or any(c.isspace() for c in text)):
-            raise where.error(key, f"id {text!r} must be a word of at most 64 characters",
+            raise where.error(key, f"id {excerpt(text)} must be a word of at most 64 characters",
                               "a short id without spaces")
         return text
     if kind == "bool":
@@ -541,10 +591,10 @@ def read_value(where: Where, key: str | int, raw: Any, spec: Field) -> Any:
         return raw
     if kind == "choice":
         if not isinstance(raw, str) or raw not in spec.choices:
-            text = str(raw)
+            text = str(raw)[:MAX_TEXT]
             close = difflib.get_close_matches(text, list(spec.choices), n=1, cutoff=0.6)
             hint = f"; did you mean '{close[0]}'?" if close else ""
-            raise where.error(key, f"{raw!r} is not a valid choice{hint}",
+            raise where.error(key, f"{excerpt(raw)} is not a valid choice{hint}",
                               "one of: " + ", ".join(spec.choices))
         return raw
     if kind in {"choices", "quantities"}:
@@ -579,23 +629,57 @@ def read_value(where: Where, key: str | int, raw: Any, spec: Field) -> Any:
     if kind == "map":
         return require_mapping(where, key, raw)
     if kind == "list":
-        return require_list(where, key, raw)
+        items = require_list(where, key, raw)
+        if spec.max_items is not None and len(items) > spec.max_items:
+            raise where.error(key, f"{len(items)} items are more than shaftsys takes",
+                              f"at most {spec.max_items} items")
+        return items
     if kind == "any":
         return raw
     raise ValueError(f"unknown field kind {kind!r}")  # pragma: no cover - spec bug
 
 
 def _check_range(where: Where, key: str | int, value: float, spec: Field) -> None:
+    """Every comparison is written so that NaN fails it (NaN compares false)."""
+    unit = f" {DEFAULT_UNIT_NOTE[spec.dim]}" if spec.dim and spec.dim != "dimensionless" \
+        else ""
+    if math.isnan(value):
+        raise where.error(key, "is not a number (NaN)", "a finite number")
     if spec.positive and not value > 0:
         raise where.error(key, f"must be positive, got {value:g}", "a value > 0")
-    if spec.non_negative and value < 0:
+    if spec.non_negative and not value >= 0:
         raise where.error(key, f"must not be negative, got {value:g}", "a value >= 0")
-    if spec.minimum is not None and value < spec.minimum:
-        raise where.error(key, f"{value:g} is below the smallest allowed {spec.minimum:g}",
-                          f"a value >= {spec.minimum:g}")
-    if spec.maximum is not None and value > spec.maximum:
-        raise where.error(key, f"{value:g} is above the largest allowed {spec.maximum:g}",
-                          f"a value <= {spec.maximum:g}")
+    if spec.above is not None and not value > spec.above:
+        what = (" (absolute zero)" if spec.dim == "temperature"
+                and spec.above == ABSOLUTE_ZERO_C else "")
+        raise where.error(key, f"{value:g}{unit} is not above {spec.above:g}{unit}{what}",
+                          _range_text(spec, unit))
+    if spec.below is not None and not value < spec.below:
+        raise where.error(key, f"{value:g}{unit} is not below {spec.below:g}{unit}",
+                          _range_text(spec, unit))
+    if spec.minimum is not None and not value >= spec.minimum:
+        raise where.error(key, f"{value:g}{unit} is below the smallest allowed "
+                          f"{spec.minimum:g}{unit}", _range_text(spec, unit))
+    if spec.maximum is not None and not value <= spec.maximum:
+        raise where.error(key, f"{value:g}{unit} is above the largest allowed "
+                          f"{spec.maximum:g}{unit}", _range_text(spec, unit))
+
+
+def _range_text(spec: Field, unit: str) -> str:
+    """The allowed range of a field, e.g. ``a value > 0 and < 360 deg``."""
+    parts = []
+    low = max((v for v in (spec.above, spec.minimum) if v is not None), default=None)
+    if spec.positive and (low is None or low < 0):
+        parts.append("> 0")
+    elif spec.non_negative and (low is None or low < 0):
+        parts.append(">= 0")
+    elif low is not None:
+        parts.append(f"{'>=' if low == spec.minimum else '>'} {low:g}")
+    if spec.below is not None:
+        parts.append(f"< {spec.below:g}")
+    elif spec.maximum is not None:
+        parts.append(f"<= {spec.maximum:g}")
+    return "a value " + " and ".join(parts) + unit
 
 
 def read_section(where: Where, mapping: Any, fields: dict[str, Field],

@@ -75,6 +75,8 @@ class Model:
         placeholder :class:`Bearing` of the same id in its shaft (station, axial role,
         targets are the designer's; ratings are not yet known).
     selection: options of the choice.
+    fatigue_required: the shafts' fatigue check is required: a shaft whose fatigue
+        cannot be evaluated (material without Su, Sy) fails the run as "not evaluated".
     """
 
     name: str
@@ -90,6 +92,7 @@ class Model:
     links: tuple[Link, ...] = ()
     open_seats: tuple[OpenSeat, ...] = ()
     selection: SelectionSettings = field(default_factory=SelectionSettings)
+    fatigue_required: bool = True
 
     def shaft(self, shaft_id: str) -> Shaft:
         """The shaft with this id."""

@@ -423,9 +423,14 @@ def _verdicts(result: Result) -> str:
             rows.append([f"{_e(b.shaft_id)}/{_e(b.bearing.id)}", *["-"] * 8,
                          '<span class="stamp bad">NOT EVALUATED</span>'])
     stamp_ok = result.ok
-    head = (f'<p><span class="stamp {"ok" if stamp_ok else "bad"}">'
-            f'{"ALL SUPPORTS PASS" if stamp_ok else "TARGET MISSED OR NOT EVALUATED"}'
-            '</span></p>')
+    stamp_text = "ALL SUPPORTS PASS" if stamp_ok else "TARGET MISSED OR NOT EVALUATED"
+    head = (f'<p><span class="stamp {"ok" if stamp_ok else "bad"}">{stamp_text}</span></p>')
+    missing = "".join(f"<li>{_e(m)}</li>" for m in result.not_evaluated)
+    if missing:
+        head += f'<p class="note">Not evaluated (not a pass):</p><ul>{missing}</ul>'
+    if result.checks is not None and result.checks.marginal:
+        head += ('<p class="note">Marginal (within the limit, in its caution band): '
+                 f'{_e("; ".join(result.checks.marginal))}</p>')
     return (f'<section id="verdicts"><h2>{SECTION_TITLES[5]}</h2>{head}{table}'
             f'<p class="note">{_e(legend)}</p></section>')
 
@@ -515,7 +520,7 @@ def render_report(result: Result, date: str | None = None,
     ctx = _Render(_no_step if progress is None else progress)
     m = result.model
     title = f"shaftsys report - {m.name}"
-    stamp = "PASS" if result.ok else "FAIL"
+    stamp = "PASS" if result.ok else result.verdict.upper()
     n_duty = sum(1 for c in m.cases if c.kind is CaseKind.DUTY)
     sub = (f"{len(result.shafts)} shaft(s), {len(result.bearings)} support(s), "
            f"{len(m.cases)} case(s) ({n_duty} in the duty cycle)")

@@ -90,6 +90,21 @@ def verdict_table(result: Result) -> str:
     return "\n".join(lines)
 
 
+def overall_verdict(result: Result) -> str:
+    """The run's verdict over every required check, and what is missing or marginal."""
+    verdict = result.verdict
+    if verdict == "pass":
+        lines = ["VERDICT: PASS (every required check was evaluated and passes)"]
+    elif verdict == "fail":
+        lines = ["VERDICT: FAIL (a target or limit is missed)"]
+    else:
+        lines = ["VERDICT: NOT EVALUATED (not a pass)"]
+    lines += [f"  not evaluated: {m}" for m in result.not_evaluated]
+    if result.checks is not None:
+        lines += [f"  marginal: {m}" for m in result.checks.marginal]
+    return "\n".join(lines)
+
+
 def selection_table(selection: Selection) -> str:
     """The choice at every open support, its runners-up and, where nothing qualifies,
     the closest miss and why.
@@ -170,7 +185,10 @@ def shaft_checks_table(sc: ShaftChecks) -> str:
               f"{'Kfs':>5} {'Se MPa':>7} {'sa MPa':>7} {'sm MPa':>7} {'n_f':>6} {'n_y':>6} "
               "verdict"]
     for s in sc.shafts:
-        if not s.sections:
+        if s.fatigue_not_evaluated is not None:
+            lines.append(f"{s.id:<10} fatigue {s.fatigue_not_evaluated}: NOT EVALUATED"
+                         + ("" if s.fatigue_required else " (not required)"))
+        elif not s.sections:
             lines.append(f"{s.id:<10} (no fatigue sections: see notes)")
         for x in s.sections:
             lines.append(f"{s.id:<10} {x.x_mm:>8.1f} {x.feature:<20} {x.d_mm:>6.1f} "
