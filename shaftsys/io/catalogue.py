@@ -118,7 +118,13 @@ from shaftsys import units as U
 from shaftsys.errors import ModelError
 from shaftsys.io.quantities import MAX_MAGNITUDE, MIN_MAGNITUDE, QuantityProblem, to_internal
 from shaftsys.io.spec import DEFAULT_UNIT_NOTE, Where, check_keys
-from shaftsys.io.yamlsource import MAX_FILE_BYTES, LocatedDict, LocatedList, parse_yaml
+from shaftsys.io.yamlsource import (
+    MAX_FILE_BYTES,
+    LocatedDict,
+    LocatedList,
+    parse_yaml,
+    read_text_file,
+)
 from shaftsys.model.bearing import BearingKind
 from shaftsys.model.catalogue import KIND_CODE, Catalogue
 
@@ -290,24 +296,7 @@ def read_catalogue(path: str | Path) -> Catalogue:
         raise ModelError(f"cannot tell the form of a catalogue file ending in "
                          f"{suffix or '(nothing)'!r}", file=name,
                          expected="a .csv, .yaml or .yml file")
-    try:
-        size = p.stat().st_size
-        if size > MAX_FILE_BYTES:
-            raise ModelError(f"the catalogue file is larger than {MAX_FILE_BYTES // 1000} kB",
-                             file=name, line=1, expected="a smaller catalogue file")
-        data = p.read_bytes()
-    except OSError as exc:
-        raise ModelError(f"cannot read the catalogue file: {exc.strerror}",
-                         file=name) from None
-    if len(data) > MAX_FILE_BYTES:  # grew since stat
-        raise ModelError(f"the catalogue file is larger than {MAX_FILE_BYTES // 1000} kB",
-                         file=name, line=1, expected="a smaller catalogue file")
-    try:
-        text = data.decode("utf-8")
-    except UnicodeDecodeError as exc:
-        line = data[: exc.start].count(b"\n") + 1
-        raise ModelError("the file is not UTF-8 text", file=name, line=line,
-                         expected="a UTF-8 text file") from None
+    text = read_text_file(path, "catalogue file")
     if suffix == ".csv":
         return catalogue_from_csv(text, file=name)
     return catalogue_from_yaml(text, file=name)

@@ -18,7 +18,12 @@ from shaftsys.errors import ModelError
 from shaftsys.fe.mesh import STATION_SNAP_MM
 from shaftsys.io import spec as S
 from shaftsys.io.spec import Where, read_section, read_value, require_list, require_mapping
-from shaftsys.io.yamlsource import MAX_FILE_BYTES, LocatedDict, LocatedList, parse_yaml
+from shaftsys.io.yamlsource import (
+    LocatedDict,
+    LocatedList,
+    parse_yaml,
+    read_text_file,
+)
 from shaftsys.model import (
     AxialRole,
     Bearing,
@@ -60,29 +65,14 @@ def load_model(path: str | Path) -> Model:
     ------
     ModelError: anything wrong in the file, with file, line, field and expectation.
     """
-    p = Path(path)
     name = str(path)
-    try:
-        size = p.stat().st_size
-    except OSError as exc:
-        raise ModelError(f"cannot read the model file: {exc.strerror}", file=name) from None
-    if size > MAX_FILE_BYTES:
-        raise ModelError(f"the model file is larger than {MAX_FILE_BYTES // 1000} kB",
-                         file=name, line=1, expected="a smaller model file")
-    try:
-        data = p.read_bytes()
-    except OSError as exc:
-        raise ModelError(f"cannot read the model file: {exc.strerror}", file=name) from None
-    try:
-        text = data.decode("utf-8")
-    except UnicodeDecodeError as exc:
-        line = data[: exc.start].count(b"\n") + 1
-        raise ModelError("the file is not UTF-8 text", file=name, line=line,
-                         expected="a UTF-8 text file") from None
+    text = read_text_file(path, "model file")
     model = load_model_text(text, file=name)
     from dataclasses import replace
 
-    return replace(model, source=name, sha256=hashlib.sha256(data).hexdigest())
+    # the text is exactly the file's bytes decoded (UTF-8 round-trips), so this hashes the file
+    return replace(model, source=name,
+                   sha256=hashlib.sha256(text.encode("utf-8")).hexdigest())
 
 
 def load_model_text(text: str, file: str | None = None) -> Model:

@@ -15,6 +15,7 @@ Mappings become :class:`LocatedDict` (a ``dict`` with ``line`` and ``lines``), l
 from __future__ import annotations
 
 import math
+from pathlib import Path
 from typing import Any
 
 import yaml
@@ -230,3 +231,33 @@ class _DepthLimitedLoader(yaml.SafeLoader):
             return super().compose_node(parent, index)
         finally:
             self._depth -= 1
+
+
+def read_text_file(path: str | Path, what: str, max_bytes: int = MAX_FILE_BYTES) -> str:
+    """The UTF-8 text of a user's file (a model file, a catalogue), at most ``max_bytes``.
+
+    ``what`` names the file in messages ("model file", "catalogue file").
+
+    Raises
+    ------
+    ModelError: the file cannot be read, is larger than ``max_bytes`` (also when it grew
+        while being read) or is not UTF-8 (with the line of the first bad byte).
+    """
+    p = Path(path)
+    name = str(path)
+    too_big = ModelError(f"the {what} is larger than {max_bytes // 1000} kB", file=name,
+                         line=1, expected=f"a smaller {what}")
+    try:
+        if p.stat().st_size > max_bytes:
+            raise too_big
+        data = p.read_bytes()
+    except OSError as exc:
+        raise ModelError(f"cannot read the {what}: {exc.strerror}", file=name) from None
+    if len(data) > max_bytes:
+        raise too_big
+    try:
+        return data.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = data[: exc.start].count(b"\n") + 1
+        raise ModelError("the file is not UTF-8 text", file=name, line=line,
+                         expected="a UTF-8 text file") from None
