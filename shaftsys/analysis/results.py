@@ -25,7 +25,7 @@ from shaftsys.model import Bearing, Model, Shaft
 if TYPE_CHECKING:
     import pandas as pd
 
-    from shaftsys.analysis.thermal import ThermalResult
+    from shaftsys.analysis.thermal_results import ThermalResult
     from shaftsys.bearings.engine import BearingLife
     from shaftsys.machine.flow import CaseFlow
 
