@@ -280,3 +280,23 @@ def test_oil_flow_sets_the_sink() -> None:
     k = th.case_ids.index("forward_full")
     assert th.total_power_W[k] == pytest.approx(hb.oil_flow_W_K * (th.used_C[k] - 40.0),
                                                 rel=1e-6)
+
+
+def test_report_and_table_show_the_balance(demo) -> None:  # type: ignore[no-untyped-def]
+    """The report and the terminal table carry the friction, loss and temperature of
+    every bearing and duty case, and the caution that the estimate does not replace a
+    measured temperature (issue 18, done-when; common practice, no source).
+    """
+    from shaftsys.report.html import render_report
+    from shaftsys.report.thermal_table import thermal_table
+
+    _, res = demo
+    th = res.thermal
+    text = thermal_table(res)
+    html = render_report(res, date="2026-01-01")
+    assert 'id="thermal"' in html and "measured temperature" in html
+    n_rows = int(np.sum(th.evaluated)) * (len(th.bearing_ids) + 1)
+    assert len(text.splitlines()) == n_rows + 4
+    k = th.case_ids.index("forward_full")
+    assert f"{th.power_loss_W[0, k]:.1f}" in text
+    assert f"{th.used_C[k]:.1f}" in html
