@@ -17,11 +17,13 @@ from shaftsys.bearings.engine import LoadSpectrum, evaluate_bearing, system_life
 from shaftsys.model import CaseKind, Model
 
 
-def spectrum_of(model: Model, result: BearingResult) -> LoadSpectrum:
+def spectrum_of(model: Model, result: BearingResult,
+                temperatures: dict[str, float] | None = None) -> LoadSpectrum:
     """The load spectrum of one bearing: Fr, Fa, signed speed, duration per case.
 
     Peak and static cases, and cases slower than ``model.life.min_speed_rpm``, are
-    static-only (the engine records why).
+    static-only (the engine records why). ``temperatures`` (case id -> degC, e.g. from
+    the heat balance) replaces the cases' typed temperatures where given and finite.
     """
     cases = {c.id: c for c in model.cases}
     loads = result.loads
@@ -34,8 +36,16 @@ def spectrum_of(model: Model, result: BearingResult) -> LoadSpectrum:
         duration=[cases[ld.case].duration for ld in loads],
         duration_in_hours=model.duration_in_hours,
         static_only=static_only,
-        temperature_C=[cases[ld.case].temperature_C for ld in loads],
+        temperature_C=[_temperature(cases[ld.case].temperature_C, ld.case, temperatures)
+                       for ld in loads],
     )
+
+
+def _temperature(typed: float, case: str, temperatures: dict[str, float] | None) -> float:
+    if temperatures is None:
+        return typed
+    value = temperatures.get(case, math.nan)
+    return value if math.isfinite(value) else typed
 
 
 @dataclass(frozen=True, eq=False)
@@ -54,17 +64,19 @@ class Lives:
     limiting_bearing: str | None
 
 
-def evaluate_lives(model: Model, bearings: tuple[BearingResult, ...]) -> Lives:
+def evaluate_lives(model: Model, bearings: tuple[BearingResult, ...],
+                   temperatures: dict[str, float] | None = None) -> Lives:
     """Life verdict of every bearing from its solved loads, and the system lives.
 
     System life combines the bearings' lives at 90 % reliability on the verdict's basis
     (basic L10 when the verdict uses a1*L10, aISO*L10 when it uses Lnm) and is stated
     at the model's default target reliability. A support still open (no catalogue row
     qualified) has no bearing to evaluate: its life stays ``None`` (not evaluated).
+    ``temperatures``: case id -> operating temperature [degC] from the heat balance.
     """
     still_open = {o.bearing_id for o in model.open_seats}
     done = tuple(b if b.bearing.id in still_open else
-                 replace(b, life=evaluate_bearing(b.bearing, spectrum_of(model, b),
+                 replace(b, life=evaluate_bearing(b.bearing, spectrum_of(model, b, temperatures),
                                                   model.life, model.lubrication))
                  for b in bearings)
     per_shaft: dict[str, tuple[float | None, str | None]] = {}

@@ -13,6 +13,7 @@ from shaftsys.analysis.results import Result
 from shaftsys.analysis.selection import choose_bearings
 from shaftsys.analysis.shaft_checks import check_shaft_results
 from shaftsys.analysis.solve import solve_model
+from shaftsys.analysis.thermal import evaluate_thermal, thermal_notes
 from shaftsys.model import Model
 
 
@@ -47,13 +48,17 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
     bearings = solved.bearings
     system_life_h: float | None = None
     limiting: str | None = None
-    if with_life:
-        lives = evaluate_lives(model, bearings)
+    thermal = evaluate_thermal(model, bearings)
+    warnings = solved.warnings + (tuple(thermal_notes(thermal)) if thermal else ())
+    # a case without a steady temperature leaves the lives unevaluated (not a pass)
+    if with_life and not (thermal is not None and thermal.any_runaway):
+        lives = evaluate_lives(model, bearings,
+                               thermal.life_temperatures() if thermal else None)
         bearings = lives.bearings
         system_life_h, limiting = lives.system_life_h, lives.limiting_bearing
         shafts = tuple(s.with_system_life(*lives.shaft_system[s.shaft.id]) for s in shafts)
     checks = check_shaft_results(model, shafts) if with_shaft_checks else None
     return Result(model=model, shafts=shafts, bearings=bearings,
                   system_life_h=system_life_h, limiting_bearing=limiting,
-                  warnings=solved.warnings, checks=checks, flows=solved.flows,
-                  selection=selection)
+                  warnings=warnings, checks=checks, flows=solved.flows,
+                  selection=selection, thermal=thermal)

@@ -25,6 +25,7 @@ from shaftsys.model import Bearing, Model, Shaft
 if TYPE_CHECKING:
     import pandas as pd
 
+    from shaftsys.analysis.thermal_results import ThermalResult
     from shaftsys.bearings.engine import BearingLife
     from shaftsys.machine.flow import CaseFlow
 
@@ -186,13 +187,17 @@ class Result:
     checks: ShaftChecks | None
     flows: tuple[CaseFlow, ...]
     selection: Selection | None = None
+    thermal: ThermalResult | None = None
 
     @property
     def verdict(self) -> str:
         """``"pass"`` only when every bearing and every shaft check was evaluated and
         passed; ``"fail"`` when one was evaluated and failed; else ``"not evaluated"``.
+        The heat balance's checks (when the model has heat-balance data) count too.
         """
         parts = [b.verdict for b in self.bearings]
+        if self.thermal is not None:
+            parts.append(self.thermal.verdict)
         parts.append(NOT_EVALUATED if self.checks is None else
                      PASS if self.checks.verdict == MARGINAL else self.checks.verdict)
         if FAIL in parts:

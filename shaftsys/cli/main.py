@@ -399,6 +399,11 @@ def _check(args: argparse.Namespace) -> int:
                 _emit(selection_table(result.selection), out)
             print(file=out)
             _emit(verdict_table(result), out)
+            if result.thermal is not None:
+                from shaftsys.report.thermal_table import thermal_table
+
+                print(file=out)
+                _emit(thermal_table(result), out)
             if result.checks is not None:
                 print(file=out)
                 _emit(shaft_checks_table(result.checks), out)

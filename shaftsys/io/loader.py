@@ -18,6 +18,7 @@ from shaftsys.errors import ModelError
 from shaftsys.fe.mesh import STATION_SNAP_MM
 from shaftsys.io import spec as S
 from shaftsys.io.spec import Where, read_section, read_value, require_list, require_mapping
+from shaftsys.io.thermal_loader import read_thermal
 from shaftsys.io.yamlsource import (
     LocatedDict,
     LocatedList,
@@ -143,6 +144,8 @@ def build_model(raw: Any, file: str | None = None) -> Model:
         open_seats=tuple(seats.found),
         selection=selection,
         fatigue_required=checks["fatigue"] == "required",
+        thermal=read_thermal(top, raw.get("thermal"), lubrication,
+                             {b.id for s in shafts for b in s.bearings}),
     )
     if links:
         from shaftsys.machine.geometry import check_machine

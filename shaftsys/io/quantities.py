@@ -38,6 +38,12 @@ DEFAULT_UNITS: dict[str, str] = {
     "angular_stiffness": "N*mm/radian",
     "unbalance": "g*mm",
     "dimensionless": "",
+    "area": "m**2",
+    "heat_transfer_coefficient": "W/(m**2*K)",
+    "thermal_resistance": "K/W",
+    "volume_flow": "l/min",
+    "temperature_difference": "K",
+    "specific_heat": "J/(kg*K)",
 }
 
 _NUMBER = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$")
@@ -240,4 +246,10 @@ def _example(dimension: str) -> str:
         "angular_stiffness": "5e6 N*mm/rad",
         "unbalance": "500 g*mm",
         "dimensionless": "0.3",
+        "area": "0.6 m^2",
+        "heat_transfer_coefficient": "15 W/(m^2*K)",
+        "thermal_resistance": "0.2 K/W",
+        "volume_flow": "2 l/min",
+        "temperature_difference": "50 K",
+        "specific_heat": "1950 J/(kg*K)",
     }[dimension]

@@ -86,6 +86,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
             item["life"] = b.life.to_dict()
         if checks is not None and br.id in bearing_checks:
             item["misalignment"] = bearing_checks[br.id]
+        if result.thermal is not None:
+            item["thermal"] = result.thermal.bearing_cases(br.id)
         item["ok"] = b.ok
         item["verdict"] = b.verdict
         if result.selection is not None and br.id in seat_ids:
@@ -101,6 +103,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         data["shaft_checks"] = checks
     if result.selection is not None:
         data["selection"] = result.selection.to_dict()
+    if result.thermal is not None:
+        data["thermal"] = result.thermal.to_dict()
     data["system"] = {"life_h": result.system_life_h,
                       "limiting_bearing": result.limiting_bearing}
     for entry, life_h in [(e["system"], s.system_life_h)

@@ -75,6 +75,8 @@ DEFAULT_UNIT_NOTE = {
     "angle": "deg", "mass": "kg", "density": "kg/m^3", "acceleration": "m/s^2",
     "inertia": "kg*m^2", "linear_stiffness": "N/mm", "angular_stiffness": "N*mm/rad",
     "unbalance": "g*mm", "dimensionless": "-",
+    "area": "m^2", "heat_transfer_coefficient": "W/(m^2*K)", "thermal_resistance": "K/W",
+    "volume_flow": "l/min", "temperature_difference": "K", "specific_heat": "J/(kg*K)",
 }
 
 MATERIAL = {
@@ -378,6 +380,49 @@ LUBRICATION = {
     "ep_additives": F("bool", "lubricant with effective EP additives", default=False),
 }
 
+#: Heat balance of the housing (friction and operating temperature per case).
+THERMAL = {
+    "ambient": F("quantity", "ambient air temperature", dim="temperature", required=True,
+                 above=ABSOLUTE_ZERO_C, minimum=MIN_TEMPERATURE_C,
+                 maximum=MAX_TEMPERATURE_C),
+    "heat_transfer_coefficient": F("quantity", "heat-transfer coefficient of the housing "
+                                   "surface to ambient (with 'area')",
+                                   dim="heat_transfer_coefficient", positive=True),
+    "area": F("quantity", "housing surface that sheds heat (with "
+              "'heat_transfer_coefficient')", dim="area", positive=True),
+    "thermal_resistance": F("quantity", "thermal resistance housing to ambient (instead "
+                            "of coefficient and area)", dim="thermal_resistance",
+                            positive=True),
+    "oil_flow": F("quantity", "circulating oil flow (with 'oil_inlet')", dim="volume_flow",
+                  positive=True),
+    "oil_inlet": F("quantity", "inlet temperature of the circulating oil",
+                   dim="temperature", above=ABSOLUTE_ZERO_C, minimum=MIN_TEMPERATURE_C,
+                   maximum=MAX_TEMPERATURE_C),
+    "oil_density": F("quantity", "density of the circulating oil", dim="density",
+                     default=870.0, positive=True),
+    "oil_specific_heat": F("quantity", "specific heat of the circulating oil",
+                           dim="specific_heat", default=1950.0, positive=True),
+    "extra_loss": F("quantity", "further heat into the housing in every duty case "
+                    "(gears, seals)", dim="power", default=0.0, non_negative=True),
+    "max_temperature": F("quantity", "highest admissible operating temperature (default "
+                         "100 degC oil, 80 degC grease; common practice)",
+                         dim="temperature", above=ABSOLUTE_ZERO_C,
+                         minimum=MIN_TEMPERATURE_C, maximum=MAX_TEMPERATURE_C),
+    "reference_rise": F("quantity", "temperature rise above ambient of the heat-balance "
+                        "speed", dim="temperature_difference", default=50.0,
+                        positive=True, maximum=400.0),
+    "search_limit": F("quantity", "no steady temperature below this is thermal runaway",
+                      dim="temperature", default=250.0, above=ABSOLUTE_ZERO_C,
+                      minimum=MIN_TEMPERATURE_C, maximum=MAX_TEMPERATURE_C),
+    "friction": F("any", "bearing id -> {f0, f1}: the supplier's friction factors"),
+}
+
+#: The supplier's friction factors of one bearing (Palmgren's model).
+THERMAL_FRICTION = {
+    "f0": F("number", "load-independent friction factor f0", above=0.0, maximum=50.0),
+    "f1": F("number", "load-dependent friction factor f1", above=0.0, maximum=0.01),
+}
+
 LIFE = {
     "target": F("quantity", "default target life", dim="time", default=20000.0,
                 positive=True),
@@ -427,6 +472,8 @@ MODEL = {
                 "evaluated fails the run)", of="checks"),
     "study": F("any", "design study (see the sweep command)"),
     "selection": F("map", "how open bearings ('choose') are chosen", of="selection"),
+    "thermal": F("map", "heat balance of the housing: bearing friction and operating "
+                 "temperature per case", of="thermal"),
 }
 
 _SELECTION_DEFAULTS = SelectionSettings()
@@ -455,6 +502,8 @@ SECTIONS: dict[str, dict[str, Field]] = {
     "input": INPUT,
     "case_load": CASE_LOAD,
     "lubrication": LUBRICATION,
+    "thermal": THERMAL,
+    "thermal_friction": THERMAL_FRICTION,
     "link": LINK,
     "life": LIFE,
     "solver": SOLVER,

@@ -8,6 +8,7 @@ from shaftsys.model.bearing import Bearing, LifeSettings, Lubrication
 from shaftsys.model.case import Case
 from shaftsys.model.selection import OpenSeat, SelectionSettings
 from shaftsys.model.shaft import Shaft
+from shaftsys.model.thermal import HeatBalance
 
 
 @dataclass(frozen=True, slots=True)
@@ -77,6 +78,8 @@ class Model:
     selection: options of the choice.
     fatigue_required: the shafts' fatigue check is required: a shaft whose fatigue
         cannot be evaluated (material without Su, Sy) fails the run as "not evaluated".
+    thermal: heat-balance data of the housing (friction and operating temperature per
+        case), or ``None``.
     """
 
     name: str
@@ -93,6 +96,7 @@ class Model:
     open_seats: tuple[OpenSeat, ...] = ()
     selection: SelectionSettings = field(default_factory=SelectionSettings)
     fatigue_required: bool = True
+    thermal: HeatBalance | None = None
 
     def shaft(self, shaft_id: str) -> Shaft:
         """The shaft with this id."""

@@ -126,6 +126,9 @@ _CAUTIONS = (
     "Bearing ratings and factors (C, C0, Cu, e, X, Y, Y0) come from the bearing "
     "maker's current data for the bearing actually bought; values estimated here "
     "(Cu, f0) are flagged as estimates.",
+    "Bearing friction and operating temperatures from the heat balance are estimates "
+    "(Palmgren's friction model, one lumped housing temperature): they do not replace a "
+    "measured temperature or the bearing supplier's friction data.",
     "These results support but do not replace engineering judgement. The maker's "
     "recommendations, local codes and standards, and licensed engineering practice "
     "govern; check every result that matters against an independent calculation.",
@@ -475,6 +478,18 @@ def _warnings(result: Result) -> str:
     return f'<section id="warnings"><h2>{SECTION_TITLES[7]}</h2>{body}</section>'
 
 
+def _thermal(result: Result) -> str:
+    """Friction, power loss and operating temperature per bearing and case."""
+    if result.thermal is None:
+        return ""
+    from shaftsys.report.thermal_table import CAUTION, HEADERS, thermal_rows
+
+    rows = [[_e(c) for c in r] for r in thermal_rows(result)]
+    return ('<section id="thermal"><h2>Friction and operating temperature</h2>'
+            f"{_table(HEADERS, rows, (0, 1, 7, 10))}<p class=note>{_e(CAUTION)}</p>"
+            "</section>")
+
+
 def _cautions() -> str:
     lis = "".join(f"<li>{_e(c)}</li>" for c in _CAUTIONS)
     return f'<section id="cautions"><h2>{SECTION_TITLES[8]}</h2><ul>{lis}</ul></section>'
@@ -530,7 +545,7 @@ def render_report(result: Result, date: str | None = None,
         f'<span class="stamp {"ok" if result.ok else "bad"}">{stamp}</span></div></header>',
         _provenance(result, date), _inputs(result), _summary(result),
         _shafts(result, ctx), _cases(result, ctx), _selection(result), _verdicts(result),
-        _bearings(result, ctx),
+        _bearings(result, ctx), _thermal(result),
         "" if study is None else (f'<section id="study"><h2>Design study</h2>'
                                   f"<p class=note>{_e(study[0])}</p>{study[1]}</section>"),
         _warnings(result), _cautions(),
