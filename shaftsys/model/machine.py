@@ -75,6 +75,8 @@ class Model:
         placeholder :class:`Bearing` of the same id in its shaft (station, axial role,
         targets are the designer's; ratings are not yet known).
     selection: options of the choice.
+    warnings: what the loader found plausible but suspicious (a value that looks like a
+        unit slip), each naming file, line, field and the value as read.
     """
 
     name: str
@@ -90,6 +92,7 @@ class Model:
     links: tuple[Link, ...] = ()
     open_seats: tuple[OpenSeat, ...] = ()
     selection: SelectionSettings = field(default_factory=SelectionSettings)
+    warnings: tuple[str, ...] = ()
 
     def shaft(self, shaft_id: str) -> Shaft:
         """The shaft with this id."""
