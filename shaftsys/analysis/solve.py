@@ -90,8 +90,9 @@ def mesh_shaft(shaft: Shaft, max_element_mm: float,
         rho_kg_m3=np.full(n, mat.density_kg_m3),
     )
     extra = list(extra_stations_mm)
+    hubs = [x for e in shaft.elements for x in getattr(e, "hubs_mm", ())]
     stations = snap_stations([b.support_x_mm for b in shaft.bearings]
-                             + [e.x_mm for e in shaft.elements] + extra,
+                             + [e.x_mm for e in shaft.elements] + extra + hubs,
                              shaft.step_edges_mm)
     mesh, nodes = build_mesh(steps, stations, max_element_mm)
     nb = len(shaft.bearings)
@@ -312,8 +313,10 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
 def _node_of(sm: ShaftMesh, load: AppliedLoad) -> int:
     """Node that carries ``load``: its element's node, else the node nearest its station."""
     if load.element is not None and load.element in sm.element_nodes:
-        return sm.element_nodes[load.element]
-    return int(np.argmin(np.abs(sm.mesh.x_mm - load.x_mm)))
+        node = sm.element_nodes[load.element]
+        if abs(float(sm.mesh.x_mm[node]) - load.x_mm) <= 2.0 * STATION_SNAP_MM:
+            return node
+    return int(np.argmin(np.abs(sm.mesh.x_mm - load.x_mm)))  # e.g. a drum's hubs
 
 
 def _axial_reference_node(shaft: Shaft, sm: ShaftMesh, axial: dict[str, float]) -> int:

@@ -125,7 +125,9 @@ class Study:
     def batched(self) -> bool:
         """True when the batched evaluator covers this study."""
         return (len(self.model.shafts) == 1 and not getattr(self.model, "links", None)
-                and all(q.geometric for q in self.quantities))
+                and all(q.geometric for q in self.quantities)
+                and not any(getattr(e, "hubs_mm", ())  # a drum's hubs: loads off its station
+                            for e in self.model.shafts[0].elements))
 
     def values_block(self, lo: int, hi: int) -> NDArray[np.float64]:
         """Values of variants ``lo..hi-1``, shape (hi - lo, n_quantities)."""
