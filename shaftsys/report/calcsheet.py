@@ -60,7 +60,7 @@ def _axial_rule(br: BearingResult) -> list[str]:
             f"adjusted pair with bearing '{b.pair}' (this one stops motion toward "
             f"{b.axial.value}).",
             "Induced axial force Fi: tapered roller 0.5*Fr/Y (common practice); angular-",
-            "contact ball 1.32*Fr*tan(alpha) (Harris, Rolling Bearing Analysis, from memory).",
+            "contact ball 1.32*Fr*tan(alpha) (Harris, Rolling Bearing Analysis).",
             "With P the +x and N the -x bearing, Ka the external thrust on the shaft:",
             "  if Fi_N + Ka >= Fi_P: Fa_P = Fi_N + Ka, Fa_N = Fi_N; else Fa_N = Fi_P - Ka,",
             "  Fa_P = Fi_P (zero clearance, no preload assumed; common practice).",
@@ -234,8 +234,8 @@ def explain_bearing(result: Result, bearing_id: str) -> str:
                 "(n < 1000 rpm),")
             add("   nu1 = 4500*n^-0.5*dm^-0.5 (n >= 1000 rpm); kappa = nu/nu1, "
                 "taken as 4 above 4")
-            cu_src = ("estimated from C0, ISO 281:2007 Annex B simplified approach, "
-                      "from memory" if life.Cu_estimated else "maker's value")
+            cu_src = ("estimated from C0, ISO 281:2007 Annex B simplified "
+                      "approach" if life.Cu_estimated else "maker's value")
             add(f"   Cu = {_f(life.Cu_N)} N ({cu_src})")
             add("   ec: contamination factor [ISO 281:2007, 9.3 and Annex A]")
             out.extend(_aiso_formula(b.kind.is_roller))
@@ -249,7 +249,7 @@ def explain_bearing(result: Result, bearing_id: str) -> str:
                 add(f"      ec = {_f(life.ec[k])}, ec*Cu/P = {_f(life.ec[k])}*{_f(cu)}/"
                     f"{_f(life.P_design_N[k])} = {_f(ecu, 4)}, aISO = {_f(life.aISO[k])}")
         else:
-            add("   not used (no lubrication data or use_modified_life: false): aISO = 1")
+            add("   not used (no lubrication data, or life: {modified_life: false}): aISO = 1")
 
         add("")
         add("9. Life at the target reliability per case and over the spectrum")
