@@ -24,7 +24,8 @@ from shaftsys.errors import ModelError
 from shaftsys.io import spec as S
 from shaftsys.io.loader import load_model
 from shaftsys.loads import capstan_limit, takeup_belt_hub_load
-from shaftsys.report.tables import shaft_checks_table, sig
+from shaftsys.report.calcsheet import _distinct
+from shaftsys.report.tables import shaft_checks_table, sig, sig_apart
 
 ROOT = Path(__file__).resolve().parent.parent
 
@@ -312,6 +313,9 @@ def test_significant_figures() -> None:
     assert sig(0.012345) == "0.0123"
     assert sig(-10_990.4, 4) == "-10 990"
     assert sig(float("nan")) == "-" and sig(float("inf")) == "inf"
+    # a life just below its target never prints as the target
+    assert sig_apart(49_990.0, 50_000.0) == "49 990" and sig_apart(165_821.0, 5e4) == "166 000"
+    assert _distinct(49_990.0, 50_000.0) == ("49990", "50000")
 
 
 def test_long_ids_keep_the_columns(model_yaml: Any) -> None:

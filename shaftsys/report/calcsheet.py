@@ -53,6 +53,17 @@ def format_value(value: float | None, digits: int = 6) -> str:
 _f = format_value
 
 
+def _distinct(value: float | None, limit: float | None) -> tuple[str, str]:
+    """``value`` and ``limit`` to 3 significant figures, more (up to 6) where 3 would
+    print a value that misses its limit as equal to it.
+    """
+    for digits in (3, 4, 5, 6):
+        a, b = format_value(value, digits), format_value(limit, digits)
+        if a != b or value == limit:
+            break
+    return a, b
+
+
 def _axial_rule(br: BearingResult) -> list[str]:
     b = br.bearing
     if b.pair is not None:
@@ -293,11 +304,14 @@ def explain_bearing(result: Result, bearing_id: str) -> str:
         f"{_f(life.s0_min)}")
 
     add("")
-    add("12. Verdict")
-    add(f"   life:   Lnm_h = {_f(life.Lnm_h)} h {'>=' if life.life_ok else '<'} target "
-        f"{_f(life.target_h)} h -> {'PASS' if life.life_ok else 'FAIL'}")
-    add(f"   static: s0 = {_f(life.s0)} {'>=' if life.static_ok else '<'} "
-        f"{_f(life.s0_min)} -> {'PASS' if life.static_ok else 'FAIL'}")
+    add("12. Verdict   (results to 3 significant figures; the steps above keep 6 so that")
+    add("   their arithmetic can be followed)")
+    lf, lt = _distinct(life.Lnm_h, life.target_h)
+    add(f"   life:   Lnm_h = {lf} h {'>=' if life.life_ok else '<'} target "
+        f"{lt} h -> {'PASS' if life.life_ok else 'FAIL'}")
+    sf, st = _distinct(life.s0, life.s0_min)
+    add(f"   static: s0 = {sf} {'>=' if life.static_ok else '<'} "
+        f"{st} -> {'PASS' if life.static_ok else 'FAIL'}")
     add(f"   support {b.id}: {'PASS' if life.ok else 'FAIL'}")
     if life.warnings:
         add("")

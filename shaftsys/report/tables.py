@@ -63,6 +63,18 @@ def sig(value: float | None, digits: int = 3) -> str:
     return f"{rounded:.{decimals}f}"
 
 
+def sig_apart(value: float | None, limit: float | None, digits: int = 3) -> str:
+    """``value`` as :func:`sig`, with more figures (up to 6) where ``digits`` would
+    print a value that differs from ``limit`` as equal to it (a life just below its
+    target must not read as the target).
+    """
+    for n in range(digits, 7):
+        text = sig(value, n)
+        if value == limit or text != sig(limit, n):
+            return text
+    return sig(value, 6)
+
+
 def loads_table(result: Result) -> str:
     """Reaction components and resultant radial/axial load of every bearing and case."""
     headers = ["bearing", "case", "n rpm", "Fy N", "Fz N", "Fx N", "Fr N", "Fa N"]
@@ -90,8 +102,9 @@ def verdict_table(result: Result) -> str:
         d = life.to_dict()
         rows.append([
             f"{b.shaft_id}/{b.bearing.id}", b.bearing.kind.value.replace("_", " "),
-            str(worst_case(b) or "-"), sig(d["P_eq_N"], 4), sig(d["L10_h"]),
-            sig(d["Lnm_h"]), sig(d["target_h"]), sig(b.bearing.C_N, 4),
+            str(worst_case(b) or "-"), sig(d["P_eq_N"], 4),
+            sig_apart(d["L10_h"], d["target_h"]), sig_apart(d["Lnm_h"], d["target_h"]),
+            sig(d["target_h"]), sig(b.bearing.C_N, 4),
             sig(d["C_required_N"], 4), _num(d["margin"], 2), _num(d["s0"], 1),
             "PASS" if b.ok else "FAIL",
         ])
