@@ -360,3 +360,51 @@ def test_validate_reads_a_model_without_scipy_linalg_or_pint() -> None:
                          check=True, cwd=ROOT, env={"PYTHONPATH": str(ROOT),
                                                     "PATH": "/usr/bin:/bin"})
     assert out.stdout.strip() == "[]", out.stderr
+
+
+def test_open_seat_bore_follows_the_seat_rule(tmp_path: Path) -> None:
+    """An open bearing's seat bore (``choose.bore``) must match the step under it too:
+    the demo's in_B seat is a 45 mm step; a bore of 50 mm there is refused, naming it.
+    """
+    source = (ROOT / "models" / "belt_reducer_open.yaml").read_text(encoding="utf-8")
+    needle = "types: [deep_groove_ball, cylindrical_roller]}"
+    assert needle in source
+    path = tmp_path / "open.yaml"
+    (tmp_path / "demo_catalogue.csv").write_bytes(
+        (ROOT / "models" / "demo_catalogue.csv").read_bytes())
+    model = load_model(ROOT / "models" / "belt_reducer_open.yaml")
+    seat = next(s for s in model.open_seats if s.bearing_id == "in_B")
+    wrong = seat.bore_mm + 5.0
+    path.write_text(source.replace(needle, needle[:-1] + f", bore: {wrong:g} mm}}"),
+                    encoding="utf-8")
+    exc = _error(path)
+    assert exc.field == "shafts[input].bearings[in_B].choose.bore"
+    assert f"{wrong:g} mm" in exc.message and f"{seat.bore_mm:g} mm" in exc.message
+
+
+def test_validate_refuses_a_mesh_the_solve_would_refuse(model_yaml: Any,
+                                                        capsys: Any) -> None:
+    """``solver.max_element: 0.1 mm`` on the 400 mm shaft means 4000 beam elements, more
+    than the solve takes: ``validate`` now says so (before, only ``check`` did).
+    """
+    path, _ = model_yaml(edit=lambda m: m.update(solver={"max_element": "0.1 mm"}))
+    assert main(["validate", str(path), "--quiet"]) == 2
+    err = capsys.readouterr().err
+    assert "solver.max_element" in err and "4e+03 beam elements" in err
+
+
+def test_validate_runs_the_power_flow_of_every_case(tmp_path: Path, capsys: Any) -> None:
+    """Two links between the same two shafts (a split power path) were refused by
+    ``check`` only; ``validate`` now runs the power flow of every case and names the
+    second link with its line.
+    """
+    text = (ROOT / "models" / "belt_reducer.yaml").read_text(encoding="utf-8")
+    link = "  - {id: stage2, type: gear_mesh, members: [pinion2, wheel2], efficiency: 0.985}\n"
+    assert link in text
+    path = tmp_path / "split.yaml"
+    path.write_text(text.replace(link, link + link.replace("stage2", "stage2b", 1)),
+                    encoding="utf-8")
+    assert main(["validate", str(path), "--quiet"]) == 2
+    err = capsys.readouterr().err
+    line = text.splitlines().index(link.rstrip("\n")) + 2
+    assert f"{path}:{line}: links[stage2b]" in err and "two links" in err

@@ -29,6 +29,7 @@ from shaftsys.analysis.results import (
 from shaftsys.bearings.axial import axial_reactions
 from shaftsys.errors import ModelError, NumericalError
 from shaftsys.fe.balance import global_balance
+from shaftsys.fe.mesh import MAX_ELEMENTS as MAX_ELEMENTS  # noqa: PLC0414 (re-export)
 from shaftsys.fe.mesh import STATION_SNAP_MM as STATION_SNAP_MM  # noqa: PLC0414 (re-export)
 from shaftsys.fe.mesh import BeamMesh, Steps, build_mesh, snap_stations
 from shaftsys.model import AxialRole, BearingKind, Case, Model, Shaft
@@ -47,9 +48,6 @@ ROUNDOFF_FACTOR = 1000.0
 #: Largest relative residual round-off may excuse (bearing loads to about four digits);
 #: beyond it the system is too ill-conditioned to trust (NumericalError, exit 3).
 MAX_ROUNDOFF_RESIDUAL = 1e-4
-#: Most beam elements a shaft is meshed into (the dense modal analysis of the shaft
-#: checks grows with the cube of it: some 30 s at 2000 elements).
-MAX_ELEMENTS = 2000
 
 
 

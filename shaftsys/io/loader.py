@@ -175,7 +175,41 @@ def _build_model(raw: LocatedDict, file: str | None, top: Where) -> Model:
                 raise ModelError(exc.message, file=file, line=exc.line, field=exc.field,
                                  expected=exc.expected) from None
             raise
+        # the power flow of every case, as the solve finds it (validate equals check)
+        from shaftsys.io.locate import locate_error
+        from shaftsys.machine.flow import case_flow, machine_graph
+
+        try:
+            machine = machine_graph(model)
+            for case in model.cases:
+                case_flow(model, case, machine)
+        except ModelError as exc:
+            raise locate_error(exc, model) from None
+    _check_mesh_size(top, raw, shafts, solver)
     return model
+
+
+def _check_mesh_size(top: Where, raw: LocatedDict, shafts: list[Shaft],
+                     solver: SolverSettings) -> None:
+    """A shaft may be meshed into at most :data:`shaftsys.fe.mesh.MAX_ELEMENTS` beam
+    elements (the solve's own limit, checked here before solving).
+    """
+    from shaftsys.fe.mesh import MAX_ELEMENTS
+
+    solver_raw = raw.get("solver")
+    given = isinstance(solver_raw, LocatedDict) and "max_element" in solver_raw
+    for shaft in shafts:
+        if not shaft.length_mm / solver.max_element_mm <= MAX_ELEMENTS:
+            message = (f"shaft '{shaft.id}' ({shaft.length_mm:g} mm long) would need "
+                       f"{shaft.length_mm / solver.max_element_mm:.3g} beam elements of at "
+                       f"most {solver.max_element_mm:g} mm; shaftsys meshes a shaft into at "
+                       f"most {MAX_ELEMENTS}")
+            expected = (f"solver max_element of at least {shaft.length_mm / MAX_ELEMENTS:.3g}"
+                        " mm or a shorter shaft")
+            if given:  # the user's max_element is what to change
+                raise top.child("solver", solver_raw).error("max_element", message, expected)
+            raise ModelError(message, file=top.file, line=shaft.line,
+                             field=f"shafts[{shaft.id}].steps", expected=expected)
 
 
 # ----------------------------------------------------------------------------- sections
