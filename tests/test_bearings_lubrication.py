@@ -170,7 +170,9 @@ def test_ec_grease_normal() -> None:
     """
     c1, c2, notes = contamination_constants("grease", "normal")
     assert (c1, c2) == (0.0432, 1.141)
-    assert any("from memory" in n for n in notes)
+    # the note a user reads names the standard and annex, not how the value was typed in
+    assert any("ISO 281:2007 Annex A" in n for n in notes)
+    assert not any("memory" in n or "recalled" in n for n in notes)
     assert contamination_factor(c1, c2, [1.0], 50.0)[0] == pytest.approx(0.25641631, rel=REL)
 
 

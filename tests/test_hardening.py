@@ -360,10 +360,11 @@ def test_ill_conditioned_system_warns_with_its_condition_estimate(
 
 
 def test_extreme_stiffness_ratio_warns(caplog: pytest.LogCaptureFixture) -> None:
-    """A 0.2 mm neck between 50 mm steps (EI ratio about 4e9)."""
+    """A 0.2 mm neck between a 40 mm bearing seat and a 50 mm step (EI ratio about
+    4e9; the seats keep the 40 mm of the bearings' bores, as the seat rule wants)."""
     caplog.set_level(logging.WARNING, logger="shaftsys.fe.solve")
-    steps = ("[{length: 100 mm, d: 0.2 mm}, {length: 200 mm, d: 50 mm}, "
-             "{length: 100 mm, d: 40 mm}]")
+    steps = ("[{length: 100 mm, d: 40 mm}, {length: 10 mm, d: 0.2 mm}, "
+             "{length: 190 mm, d: 50 mm}, {length: 100 mm, d: 40 mm}]")
     text = _two_bearing_yaml(steps=steps, elements="[{id: L1, type: load, at: 200 mm, "
                                                    "force: [0, 1000 N, 0]}]")
     result = analyse(load_model_text(text, "neck.yaml"), with_shaft_checks=False)
@@ -415,7 +416,7 @@ def test_near_mechanism_from_a_file_is_exit_3_with_the_shaft(tmp_path: Path) -> 
     """One bearing with a tilt stiffness of 1e-12 N*mm/rad: the loader accepts it (a
     tilt stiffness is given) and the solver names the near-mechanism."""
     text = _two_bearing_yaml(steps=STEPS_40_50_40, elements="[]").replace(
-        "C0: 19 kN, axial: both}", "C0: 19 kN, axial: both, tilt_stiffness: 1e-12}")
+        "C0: 19 kN, axial: both}", "C0: 19 kN, axial: both, tilt_stiffness: 1e-12 N*mm/rad}")
     text = text[:text.index("      - {id: B")] + text[text.index("    elements"):]
     path = tmp_path / "tilt.yaml"
     path.write_text(text, encoding="utf-8")

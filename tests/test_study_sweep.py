@@ -155,15 +155,19 @@ def _compare(model, study, rows, rtol=1e-9):
 
 def test_batched_matches_analyse_fan(fan):
     """Reference: shaftsys.analyse of the same variant (1e-9 relative)."""
+    # the seat step moves with B (seat rule): without it B would leave its 50 mm seat
     st = make_study(fan, [("bearing.B.at", "480:600:4"), ("step.fan_shaft.2.d", [55, 62]),
-                          ("element.pulley.at", [40, 50])])
+                          ("element.pulley.at", [40, 50])], seat=["B"])
     _compare(fan, st, range(st.n_variants))
 
 
 def test_batched_matches_analyse_spindle(spindle):
     """Three bearings, 20 cases, helical gear thrust; reference shaftsys.analyse."""
-    st = make_study(spindle, [("bearing.B.at", "212:248:3"), ("spacing.B.C", "205:265:3"),
-                              ("step.spindle.4.d", [66, 74]), ("bearing.A.C", [20000, 24000])])
+    # B moves with its seat step; C stays on its 440..520 mm seat (452..508 mm): a
+    # bearing pushed across a shoulder is an invalid variant (seat rule)
+    st = make_study(spindle, [("bearing.B.at", "212:248:3"), ("spacing.B.C", "240:260:3"),
+                              ("step.spindle.4.d", [66, 74]), ("bearing.A.C", [20000, 24000])],
+                    seat=["B"])
     _compare(spindle, st, [0, 7, 13, 22, 35])
 
 
@@ -208,7 +212,8 @@ def test_fallback_runs_analyse_and_logs(fan, caplog):
 
 
 def test_forced_fallback_agrees_with_batched(fan):
-    st = make_study(fan, {"bearing.B.at": [500.0, 600.0], "step.fan_shaft.2.d": [58.0]})
+    st = make_study(fan, {"bearing.B.at": [500.0, 600.0], "step.fan_shaft.2.d": [58.0]},
+                    seat=["B"])
     fast = sweep(st)
     slow = sweep(st, batched=False)
     cols = [c for c in fast.columns if c.endswith((".Lnm_h", ".margin", "system_life_h"))]
@@ -216,7 +221,7 @@ def test_forced_fallback_agrees_with_batched(fan):
 
 
 def test_limits_and_outputs(fan, tmp_path):
-    st = make_study(fan, {"bearing.B.at": "500:600:3"},
+    st = make_study(fan, {"bearing.B.at": "500:600:3"}, seat=["B"],
                     limits=[Limit("slope", ("bearings",), 1e-9)])
     df = sweep(st)
     assert not df["limits_ok"].any() and not df["ok"].any()   # 1e-9 rad is never met

@@ -218,7 +218,7 @@ def test_runaway_is_a_failed_check_exit_1(tmp_path: Path, capsys) -> None:  # ty
     above 30 000 degC, far beyond the search limit: thermal runaway, reported as a failed
     check (exit 1), the lives not evaluated, no traceback.
     """
-    p = _variant(tmp_path, {"ambient": "25 degC", "heat_transfer_coefficient": 15,
+    p = _variant(tmp_path, {"ambient": "25 degC", "heat_transfer_coefficient": "15 W/(m^2*K)",
                             "area": "0.01 m^2", "extra_loss": "5 kW"})
     out = tmp_path / "r.json"
     assert main(["check", str(p), "--json", str(out)]) == 1
@@ -241,17 +241,18 @@ def test_hot_case_fails_temperature_check(tmp_path: Path) -> None:
 
 
 @pytest.mark.parametrize(("thermal", "field"), [
-    ({"ambient": 20, "heat_transfer_coefficient": 0, "area": 1},
+    ({"ambient": "20 degC", "heat_transfer_coefficient": 0, "area": "1 m^2"},
      "thermal.heat_transfer_coefficient"),
-    ({"ambient": 20, "heat_transfer_coefficient": -3, "area": 1},
+    ({"ambient": "20 degC", "heat_transfer_coefficient": "-3 W/(m^2*K)", "area": "1 m^2"},
      "thermal.heat_transfer_coefficient"),
-    ({"ambient": 20, "heat_transfer_coefficient": 15}, "thermal.area"),
-    ({"ambient": 20, "oil_flow": "2 l/min"}, "thermal.oil_inlet"),
-    ({"ambient": 20, "thermal_resistance": 0.2, "friction": {"in_A": {"f0": 0}}},
+    ({"ambient": "20 degC", "heat_transfer_coefficient": "15 W/(m^2*K)"}, "thermal.area"),
+    ({"ambient": "20 degC", "oil_flow": "2 l/min"}, "thermal.oil_inlet"),
+    ({"ambient": "20 degC", "thermal_resistance": "0.2 K/W", "friction": {"in_A": {"f0": 0}}},
      "thermal.friction.in_A.f0"),
-    ({"ambient": 20, "thermal_resistance": 0.2, "friction": {"in_A": {"f1": 0.5}}},
+    ({"ambient": "20 degC", "thermal_resistance": "0.2 K/W",
+      "friction": {"in_A": {"f1": 0.5}}},
      "thermal.friction.in_A.f1"),
-    ({"ambient": 20}, "thermal"),
+    ({"ambient": "20 degC"}, "thermal"),
 ])
 def test_bad_thermal_input_names_field(tmp_path: Path, thermal: dict, field: str,  # type: ignore[type-arg]
                                        capsys) -> None:  # type: ignore[no-untyped-def]

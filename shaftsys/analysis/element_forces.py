@@ -72,19 +72,31 @@ def element_loads(model: Model, shaft: Shaft, case: Case, flow: CaseFlow | None 
                 torque[out_id] = -share * drive.input_torque_Nmm
     overrides = {ld.element: ld for ld in case.loads}
     g = np.asarray(model.gravity_m_s2, dtype=float)
+    slack = dict(case.slack_tensions)
     for el in shaft.elements:
         if el.id not in linked:   # linked elements carry the link forces added above
-            axis = _element_axis_load(el, torque.get(el.id, 0.0), speed, overrides)
+            axis = _element_axis_load(el, torque.get(el.id, 0.0), speed, overrides,
+                                      slack.get(el.id))
             if axis is not None:
-                out.append(AppliedLoad(el.id, el.x_mm, vec3(axis.force_N),
-                                       vec3(axis.moment_Nmm), element=el.id))
+                out.extend(_at_hubs(el, el.id, axis.force_N, axis.moment_Nmm))
                 warnings.extend(f"case '{case.id}', element '{el.id}': {w}"
                                 for w in axis.warnings)
         if el.mass_kg > 0 and np.any(g):
             w = loads.weight_load(el.mass_kg, g)
-            out.append(AppliedLoad(f"{el.id} weight", el.x_mm, vec3(w.force_N),
-                                   vec3(w.moment_Nmm), element=el.id))
+            out.extend(_at_hubs(el, f"{el.id} weight", w.force_N, w.moment_Nmm))
     return out, warnings
+
+
+def _at_hubs(el: Element, label: str, force: Any, moment: Any) -> list[AppliedLoad]:
+    """The load of ``el`` at its station, or shared equally among a drum's hubs."""
+    hubs = getattr(el, "hubs_mm", ())
+    if not hubs:
+        return [AppliedLoad(label, el.x_mm, vec3(force), vec3(moment), element=el.id)]
+    n = float(len(hubs))
+    f = vec3(np.asarray(force, dtype=float) / n)
+    m = vec3(np.asarray(moment, dtype=float) / n)
+    return [AppliedLoad(f"{label} hub {k + 1}", x, f, m, element=el.id)
+            for k, x in enumerate(hubs)]
 
 
 def vec3(a: Any) -> tuple[float, float, float]:
@@ -93,7 +105,8 @@ def vec3(a: Any) -> tuple[float, float, float]:
 
 
 def _element_axis_load(el: Element, torque_Nmm: float, speed_rpm: float,
-                       overrides: dict[str, Any]) -> loads.AxisLoad | None:
+                       overrides: dict[str, Any], slack_tension_N: float | None = None
+                       ) -> loads.AxisLoad | None:
     if isinstance(el, Gear):
         return loads.spur_helical_mesh_load(torque_Nmm, el.pitch_diameter_mm, el.mesh_angle_deg,
                                         el.normal_pressure_angle_deg, el.helix_angle_deg,
@@ -103,6 +116,11 @@ def _element_axis_load(el: Element, torque_Nmm: float, speed_rpm: float,
                                  el.pitch_cone_angle_deg, el.pressure_angle_deg,
                                  el.mesh_angle_deg, el.apex)
     if isinstance(el, Pulley):
+        slack = slack_tension_N if slack_tension_N is not None else el.slack_tension_N
+        if slack is not None:
+            return loads.takeup_belt_hub_load(torque_Nmm, el.diameter_mm,
+                                              el.mesh_angle_deg, el.wrap_angle_deg, slack,
+                                              el.friction_coefficient, el.groove_angle_deg)
         return loads.belt_hub_load(torque_Nmm, el.diameter_mm, el.mesh_angle_deg,
                                el.wrap_angle_deg, el.pretension_N, el.friction_coefficient,
                                el.groove_angle_deg)

@@ -8,6 +8,10 @@ onto the model and the result is built once, complete: what was not evaluated is
 
 from __future__ import annotations
 
+from typing import Any
+
+import numpy as np
+
 from shaftsys.analysis.life import evaluate_lives
 from shaftsys.analysis.results import Result
 from shaftsys.analysis.selection import choose_bearings
@@ -60,5 +64,25 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
     checks = check_shaft_results(model, shafts) if with_shaft_checks else None
     return Result(model=model, shafts=shafts, bearings=bearings,
                   system_life_h=system_life_h, limiting_bearing=limiting,
-                  warnings=warnings, checks=checks, flows=solved.flows,
-                  selection=selection, thermal=thermal)
+                  warnings=(*model.warnings, *warnings, *_rating_slips(model, bearings)),
+                  checks=checks, flows=solved.flows, selection=selection, thermal=thermal)
+
+
+def _rating_slips(model: Model, bearings: Any) -> list[str]:
+    """A dynamic rating C below the largest static equivalent load P0 the bearing
+    carries is almost certainly a unit slip (kN written as N): warned, naming the file,
+    line, field and the value as read.
+    """
+    out = []
+    for b in bearings:
+        if b.life is None:
+            continue
+        P0 = np.asarray(b.life.P0_N, dtype=float)
+        worst = float(np.nanmax(P0)) if P0.size and np.any(np.isfinite(P0)) else 0.0
+        if worst > b.bearing.C_N:
+            where = f"{model.source}:{b.bearing.line}: " if model.source else ""
+            out.append(f"{where}shafts[{b.shaft_id}].bearings[{b.bearing.id}].C: the dynamic "
+                       f"rating read as {b.bearing.C_N:.4g} N is below the largest static "
+                       f"equivalent load on the bearing, {worst:.4g} N: is the unit right "
+                       "(kN)?")
+    return out

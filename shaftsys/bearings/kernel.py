@@ -542,14 +542,14 @@ def row_notes(params: BearingArrays, la: LifeArrays, i: int, speed_rpm: npt.Arra
     if la.Cu_estimated[i]:
         notes.append(
             f"bearing '{bid}': Cu not given, estimated Cu = {la.Cu_N[i]:.4g} N from C0 "
-            "(ISO 281:2007 Annex B simplified approach, from memory)"
+            "(ISO 281:2007 Annex B simplified approach)"
         )
     if la.ec_from_constants[i]:
         notes.extend(la.ec_notes)
     for k in np.flatnonzero(la.ep_relief[i]):
         notes.append(
             f"bearing '{bid}', case {case_name(ids, int(k))}: EP additives - "
-            "kappa taken as 1 in aISO, limited to 3 (ISO 281:2007 9.3.2, from memory)"
+            "kappa taken as 1 in aISO, limited to 3 (ISO 281:2007, 9.3.2)"
         )
     if la.static_factors.y0_from_e[i]:
         notes.append(

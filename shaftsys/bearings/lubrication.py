@@ -267,8 +267,7 @@ def contamination_constants(
             expected=", ".join(EC_METHODS),
         )
     notes.append(
-        f"ec from ISO 281:2007 Annex A ({method}, {cleanliness}): c1 = {c1:g}, c2 = {c2:g} "
-        "recalled from memory - verify against the standard"
+        f"ec from ISO 281:2007 Annex A ({method}, {cleanliness}): c1 = {c1:g}, c2 = {c2:g}"
     )
     return c1, c2, notes
 

@@ -47,7 +47,7 @@ from shaftsys.errors import ModelError
 from shaftsys.model.bearing import BearingKind
 from shaftsys.units import DENSITY_KG_PER_MM3, STANDARD_GRAVITY_M_S2
 
-_T72 = "Shigley 9th ed. Table 7-2 (from memory)"
+_T72 = "Shigley 9th ed. Table 7-2"
 _CP = "common practice, no source"
 
 #: mm per m: g [m/s^2] * 1000 = g [mm/s^2]; 1 N = 1000 kg*mm/s^2.

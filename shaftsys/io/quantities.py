@@ -183,6 +183,9 @@ def _to_internal(value: object, dimension: str) -> float:
         return _to_internal(float(text), dimension)
     if text.lower().split(" ")[0].lstrip("+-") in {"nan", "inf", "infinity"}:
         raise QuantityProblem(f"{excerpt(value)} is not a finite number", expected)
+    quick = _plain_unit(text, dimension)
+    if quick is not None:
+        return quick
     text = text.replace("%", " percent")
     try:
         given, unit_text = split_quantity(text)
@@ -213,6 +216,52 @@ def _to_internal(value: object, dimension: str) -> float:
         raise QuantityProblem(
             f"{excerpt(value)} has units of {q.units:~} which are not a {dimension}", expected
         ) from None
+
+
+#: Units model files use most, per dimension: factor to the internal unit. A value in
+#: one of them is read without pint (importing pint takes most of a second, which
+#: ``validate`` should not spend on "45 mm"); anything else goes through pint.
+_PLAIN_UNITS: dict[str, dict[str, float]] = {
+    "length": {"mm": 1.0, "cm": 10.0, "m": 1000.0, "um": 1e-3},
+    "force": {"N": 1.0, "kN": 1e3, "MN": 1e6},
+    "moment": {"N*mm": 1.0, "N*m": 1e3, "kN*m": 1e6},
+    "stress": {"MPa": 1.0, "GPa": 1e3, "kPa": 1e-3, "N/mm^2": 1.0},
+    "speed": {"rpm": 1.0, "1/min": 1.0, "Hz": 60.0},
+    "power": {"W": 1.0, "kW": 1e3, "MW": 1e6},
+    "time": {"h": 1.0},
+    "viscosity": {"mm^2/s": 1.0, "cSt": 1.0},
+    "temperature": {"degC": 1.0},
+    "angle": {"deg": 1.0, "degree": 1.0},
+    "mass": {"kg": 1.0, "g": 1e-3},
+    "density": {"kg/m^3": 1.0},
+    "acceleration": {"m/s^2": 1.0},
+    "inertia": {"kg*m^2": 1.0},
+    "linear_stiffness": {"N/mm": 1.0, "kN/mm": 1e3},
+    "angular_stiffness": {"N*mm/rad": 1.0, "N*m/rad": 1e3},
+    "unbalance": {"g*mm": 1.0},
+    "area": {"m^2": 1.0},
+    "heat_transfer_coefficient": {"W/(m^2*K)": 1.0},
+    "thermal_resistance": {"K/W": 1.0},
+    "volume_flow": {"l/min": 1.0},
+    "temperature_difference": {"K": 1.0},
+    "specific_heat": {"J/(kg*K)": 1.0},
+    "dimensionless": {"%": 0.01},
+}
+_PLAIN = re.compile(r"^([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(\S+)$")
+
+
+def _plain_unit(text: str, dimension: str) -> float | None:
+    """``"<number> <unit>"`` with a unit of :data:`_PLAIN_UNITS`, else ``None``."""
+    found = _PLAIN.match(text)
+    if found is None:
+        return None
+    factor = _PLAIN_UNITS.get(dimension, {}).get(found.group(2))
+    if factor is None:
+        return None
+    number = float(found.group(1))
+    if not math.isfinite(number):
+        return None
+    return number * factor
 
 
 def _speed_rpm(q: object) -> float:

@@ -13,10 +13,18 @@ from shaftsys.io import spec as S
 _QUANTITY = {"oneOf": [{"type": "number"}, {"type": "string", "pattern": r"^\s*[-+0-9.]"}]}
 
 
+def _unit_note(f: S.Field) -> str:
+    """How a quantity is written: with its unit (a bare number only under ``units:``)."""
+    if f.dim in S.UNITLESS:
+        return "[-]"
+    unit = S.DEFAULT_UNIT_NOTE.get(f.dim or "", "")
+    return f"[with its unit, e.g. '... {unit}'; a bare number only under 'units:']"
+
+
 def _field(f: S.Field) -> dict[str, Any]:
     out: dict[str, Any]
     if f.kind == "quantity":
-        out = {**_QUANTITY, "description": f"{f.doc} [{S.DEFAULT_UNIT_NOTE.get(f.dim or '', '')}]"}
+        out = {**_QUANTITY, "description": f"{f.doc} {_unit_note(f)}"}
     elif f.kind == "number":
         out = {"type": ["number", "string"], "description": f.doc}
     elif f.kind == "int":
@@ -32,7 +40,7 @@ def _field(f: S.Field) -> dict[str, Any]:
                "uniqueItems": True, "description": f.doc}
     elif f.kind == "quantities":
         out = {"type": "array", "items": _QUANTITY, "minItems": 1,
-               "description": f"{f.doc} [{S.DEFAULT_UNIT_NOTE.get(f.dim or '', '')}]"}
+               "description": f"{f.doc} {_unit_note(f)}"}
     elif f.kind == "vector":
         out = {"type": "array", "items": _QUANTITY, "minItems": 3, "maxItems": 3,
                "description": f.doc}

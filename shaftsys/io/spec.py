@@ -10,11 +10,21 @@ from __future__ import annotations
 
 import difflib
 import math
+import re
+from collections.abc import Iterator
+from contextlib import contextmanager
+from contextvars import ContextVar
 from dataclasses import dataclass
 from typing import Any
 
 from shaftsys.errors import ModelError
-from shaftsys.io.quantities import MAX_MAGNITUDE, QuantityProblem, excerpt, to_internal
+from shaftsys.io.quantities import (
+    DEFAULT_UNITS,
+    MAX_MAGNITUDE,
+    QuantityProblem,
+    excerpt,
+    to_internal,
+)
 from shaftsys.io.yamlsource import LocatedDict, LocatedList
 from shaftsys.model.selection import Objective, SelectionSettings
 
@@ -168,6 +178,9 @@ BEARING = {
     "ec": F("number", "contamination factor for this bearing", minimum=0.0, maximum=1.0),
     "within": F("id", "shaft that holds the outer ring (pilot bearing, idler on a pin); "
                 "the housing when missing"),
+    "mounting": F("choice", "shaft: the bore sits on the shaft step (bore = seat diameter "
+                  "within 0.05 mm); sleeve: on a sleeve or adapter (bore larger than the "
+                  "step)", default="shaft", choices=("shaft", "sleeve")),
     "choose": F("map", "leave the bearing open: shaftsys chooses it from a catalogue "
                 "(instead of type, dimensions and ratings)", of="choose"),
 }
@@ -271,6 +284,12 @@ ELEMENT_TYPES: dict[str, dict[str, Field]] = {
                       positive=True, maximum=2.0),
         "groove_angle": F("quantity", "V-groove angle (V-belt); flat belt when missing",
                           dim="angle", minimum=20.0, maximum=90.0),
+        "slack_tension": F("quantity", "slack-side tension held by a take-up (gravity "
+                           "take-up: the same in every case; instead of pretension)",
+                           dim="force", positive=True),
+        "hubs": F("quantities", "stations of the hubs of a drum with several hubs (belt "
+                  "force, weight and torque shared equally)", dim="length",
+                  non_negative=True),
     },
     "sprocket": {
         "pitch_diameter": F("quantity", "pitch diameter", dim="length", required=True,
@@ -364,6 +383,8 @@ CASE = {
     "temperature": F("quantity", "operating temperature", dim="temperature",
                      above=ABSOLUTE_ZERO_C, minimum=MIN_TEMPERATURE_C,
                      maximum=MAX_TEMPERATURE_C),
+    "slack_tensions": F("any", "pulley id -> slack-side tension in this case (a take-up "
+                        "whose tension is known per case)"),
 }
 
 LUBRICATION = {
@@ -470,6 +491,9 @@ MODEL = {
                max_items=MAX_CASES),
     "checks": F("map", "which shaft checks are required (a required check that cannot be "
                 "evaluated fails the run)", of="checks"),
+    "units": F("any", "default units of bare numbers: 'internal' (N, mm, N*mm, MPa, rpm, W, "
+               "h, mm^2/s, degC, deg, kg...) or a mapping such as {length: mm, force: kN, "
+               "power: kW}; without it every dimensional value needs its unit"),
     "study": F("any", "design study (see the sweep command)"),
     "selection": F("map", "how open bearings ('choose') are chosen", of="selection"),
     "thermal": F("map", "heat balance of the housing: bearing friction and operating "
@@ -509,6 +533,124 @@ SECTIONS: dict[str, dict[str, Field]] = {
     "solver": SOLVER,
     "checks": CHECKS,
 }
+
+
+# ------------------------------------------------------------------ the unit rule
+#: Dimensions whose bare numbers are always read as they stand (no unit to slip).
+UNITLESS = frozenset({"dimensionless"})
+
+#: Default units of bare numbers in the model being read (``units:``), or ``None``:
+#: then a bare number in a dimensional field is refused.
+_DECLARED: ContextVar[dict[str, str] | None] = ContextVar("shaftsys_declared_units",
+                                                          default=None)
+
+_BARE = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$")
+
+
+#: Plausibility warnings found while a model is read (see :func:`note`).
+_NOTES: ContextVar[list[str] | None] = ContextVar("shaftsys_read_notes", default=None)
+
+
+@contextmanager
+def declared_units(units: dict[str, str] | None) -> Iterator[list[str]]:
+    """Read the values inside the ``with`` block under the model's ``units:``; yields
+    the list that collects the plausibility warnings of :func:`note`.
+    """
+    notes: list[str] = []
+    token = _DECLARED.set(units)
+    token_notes = _NOTES.set(notes)
+    try:
+        yield notes
+    finally:
+        _DECLARED.reset(token)
+        _NOTES.reset(token_notes)
+
+
+def note(where: Where, key: str | int | None, message: str) -> None:
+    """Record a warning located at ``key`` (``file:line: field: message``)."""
+    notes = _NOTES.get()
+    if notes is None:
+        return
+    error = where.error(key, message)
+    notes.append(error.render())
+
+
+def read_units(where: Where, raw: Any) -> dict[str, str] | None:
+    """The model's ``units:`` key: ``internal`` or ``{dimension: unit}`` (checked)."""
+    if raw is None:
+        return None
+    if raw == "internal":
+        return dict(DEFAULT_UNIT_NOTE)
+    mapping = require_mapping(where, "units", raw) if not isinstance(raw, str) else None
+    if mapping is None:
+        raise where.error("units", f"{raw!r} is not a units declaration",
+                          "'units: internal' or a mapping such as {length: mm, force: kN, "
+                          "power: kW}")
+    here = where.child("units", mapping)
+    dims = sorted(d for d in DEFAULT_UNITS if d not in UNITLESS)
+    out: dict[str, str] = {}
+    for dim, unit in mapping.items():
+        if dim not in dims:
+            close = difflib.get_close_matches(str(dim), dims, n=1, cutoff=0.6)
+            hint = f"; did you mean '{close[0]}'?" if close else ""
+            raise here.error(dim, f"'{dim}' is not a dimension{hint}",
+                             "one of: " + ", ".join(dims))
+        if not isinstance(unit, str) or not unit.strip() or _BARE.match(unit):
+            raise here.error(dim, f"{unit!r} is not a unit", f"a unit of {dim} such as "
+                             f"'{DEFAULT_UNIT_NOTE[dim]}'")
+        try:
+            factor = to_internal(f"1 {unit}", dim)
+        except QuantityProblem:
+            factor = 0.0
+        if dim != "temperature" and not factor > 0:
+            raise here.error(dim, f"'{unit}' is not a unit of {dim}",
+                             f"a unit of {dim} such as '{DEFAULT_UNIT_NOTE[dim]}'")
+        if dim == "temperature" and unit.strip() not in {"degC", "degF", "K", "kelvin"}:
+            raise here.error(dim, f"'{unit}' is not a temperature unit",
+                             "degC, degF or K")
+        out[str(dim)] = unit.strip()
+    return out
+
+
+def is_bare_number(raw: Any) -> bool:
+    """True for a number without a unit (``22``, ``"22"``, ``1.5e3``)."""
+    if isinstance(raw, bool):
+        return False
+    if isinstance(raw, int | float):
+        return True
+    return isinstance(raw, str) and bool(_BARE.match(raw))
+
+
+def quantity_value(raw: Any, dim: str) -> float:
+    """``raw`` in the internal unit of ``dim`` under the unit rule.
+
+    A bare number in a dimensional field is read in the unit the model declares for
+    ``dim`` (``units:``); without a declaration it is refused (0 is 0 in every unit and
+    passes, except for a temperature). Raises :class:`QuantityProblem`.
+    """
+    if dim in UNITLESS or not is_bare_number(raw):
+        return to_internal(raw, dim)
+    declared = _DECLARED.get()
+    if declared is not None and dim in declared:
+        number = float(raw)
+        if number == 0.0 and dim != "temperature":
+            return 0.0
+        return to_internal(f"{raw} {declared[dim]}".strip(), dim)
+    if dim != "temperature" and float(raw) == 0.0:
+        return 0.0
+    unit = DEFAULT_UNIT_NOTE[dim]
+    usual = _USUAL_UNIT.get(dim, unit)
+    raise QuantityProblem(
+        f"{raw!r} has no unit: a bare number is not read as "
+        f"{'an' if dim[0] in 'aeiou' else 'a'} {dim.replace('_', ' ')}",
+        f"the value with its unit, e.g. '{raw} {usual}' or '{raw} {unit}', or a top-level "
+        f"'units:' that declares it (units: {{{dim}: {usual}}}, or units: internal for "
+        f"{unit})")
+
+
+#: The unit a designer usually writes, where it is not the internal one (messages).
+_USUAL_UNIT = {"force": "kN", "power": "kW", "moment": "N*m", "stress": "MPa",
+               "linear_stiffness": "kN/mm"}
 
 
 @dataclass
@@ -598,7 +740,7 @@ def read_value(where: Where, key: str | int, raw: Any, spec: Field) -> Any:
     if kind == "quantity":
         assert spec.dim is not None
         try:
-            value = to_internal(raw, spec.dim)
+            value = quantity_value(raw, spec.dim)
         except QuantityProblem as exc:
             raise where.error(key, exc.message, exc.expected) from None
         _check_range(where, key, value, spec)
@@ -671,7 +813,7 @@ def read_value(where: Where, key: str | int, raw: Any, spec: Field) -> Any:
         out = []
         for i, item in enumerate(items):
             try:
-                out.append(to_internal(item, spec.dim))
+                out.append(quantity_value(item, spec.dim))
             except QuantityProblem as exc:
                 raise inner.error(i, exc.message, exc.expected) from None
         return tuple(out)

@@ -11,6 +11,7 @@ from shaftsys.loads.belts import (
     chain_hub_load,
     min_pretension_N,
     open_belt_wrap_angle_deg,
+    takeup_belt_hub_load,
 )
 from shaftsys.loads.gears import (
     bevel_mesh_load,
@@ -36,6 +37,7 @@ __all__ = [
     "point_load",
     "reference_pitch_diameter_mm",
     "spur_helical_mesh_load",
+    "takeup_belt_hub_load",
     "u_r",
     "u_t",
     "unbalance_load",

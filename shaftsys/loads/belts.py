@@ -268,6 +268,90 @@ def belt_hub_load(
     )
 
 
+def takeup_belt_hub_load(
+    T_el_Nmm: float,
+    pulley_diameter_mm: float,
+    mesh_angle_deg: float,
+    wrap_angle_deg: float,
+    slack_tension_N: float,
+    friction_coefficient: float,
+    groove_angle_deg: float | None = None,
+) -> AxisLoad:
+    """Hub load of a belt drum whose slack-side tension is held by a take-up.
+
+    A gravity take-up (a weight hanging in a loop of the slack strand, or a tension
+    known per case) fixes the slack-side tension ``T2``; the drum's torque then adds
+    ``T1 - T2 = |T_el| / r`` to the tight side: ``T1 = T2 + |T_el| / r``. A drum
+    without torque (a bend or tail drum) has ``T1 = T2``. The belt grips without slip
+    while ``T1 / T2 <= e^(mu phi)`` (Euler-Eytelwein capstan relation, e.g. Meriam &
+    Kraige, *Engineering Mechanics: Statics*, flexible belts; ``e^(mu phi/sin(beta/2))``
+    for a V-belt); the smallest slack tension that grips is ``(|T_el| / r) / (R - 1)``.
+
+    Parameters
+    ----------
+    T_el_Nmm:
+        Torque the drum applies to its shaft about +x [N*mm].
+    pulley_diameter_mm:
+        Drum diameter d [mm] (to the belt's pitch line).
+    mesh_angle_deg:
+        Direction [deg] from the shaft's axis toward where the strands go (the bisector
+        of the two strands), as ``belt_angle`` of :func:`belt_hub_load`.
+    wrap_angle_deg:
+        Wrap angle phi [deg] of the belt on the drum, 0 < phi < 360.
+    slack_tension_N:
+        Slack-side tension T2 [N] set by the take-up, > 0.
+    friction_coefficient:
+        Friction coefficient mu [-] belt/drum (slip check only).
+    groove_angle_deg:
+        V-groove angle [deg], or ``None`` for a flat belt.
+
+    Returns
+    -------
+    AxisLoad
+        Force [N] ``T1 u_r(tight) + T2 u_r(slack)``, moment ``(T_el, 0, 0)`` [N*mm];
+        ``details`` as :func:`belt_hub_load` with ``min_slack_tension_N`` in place of
+        ``min_pretension_N``; a slip warning with the numbers when T1/T2 exceeds the
+        capstan limit.
+    """
+    T = require_finite(T_el_Nmm, "T_el_Nmm")
+    d = require_positive(pulley_diameter_mm, "pulley_diameter_mm")
+    theta = require_finite(mesh_angle_deg, "mesh_angle_deg")
+    delta = _wrap_delta_deg(wrap_angle_deg)
+    T2 = require_positive(slack_tension_N, "slack_tension_N")
+    R = capstan_limit(friction_coefficient, wrap_angle_deg, groove_angle_deg)
+    r = 0.5 * d
+    dT = abs(T) / r
+    T1 = T2 + dT
+    ratio = T1 / T2
+    T2_min = 0.0 if dT == 0.0 else (math.inf if R <= 1.0 else dT / (R - 1.0))
+    warnings: list[str] = []
+    if ratio > R:
+        kind = "flat belt" if groove_angle_deg is None else \
+            f"V-belt (groove {groove_angle_deg:.4g} deg)"
+        warnings.append(
+            f"{kind} on a take-up: slip, tension ratio T1/T2 = {T1:.4g}/{T2:.4g} = "
+            f"{ratio:.4g} exceeds the capstan limit e^(mu phi) = {R:.4g} (mu = "
+            f"{friction_coefficient:.3g}, wrap = {wrap_angle_deg:.4g} deg); a slack-side "
+            f"tension of at least {T2_min:.4g} N grips")
+    tight_deg, slack_deg = _strand_angles_deg(T, theta, delta)
+    force = T1 * u_r(tight_deg) + T2 * u_r(slack_deg)
+    return AxisLoad(
+        force_N=force,
+        moment_Nmm=np.array([T, 0.0, 0.0]),
+        warnings=tuple(warnings),
+        details={
+            "T_tight_N": T1,
+            "T_slack_N": T2,
+            "tension_ratio": ratio,
+            "capstan_limit": R,
+            "min_slack_tension_N": T2_min,
+            "tight_strand_angle_deg": tight_deg,
+            "slack_strand_angle_deg": slack_deg,
+            "hub_force_N": float(np.linalg.norm(force)),
+        },
+    )
+
+
 def chain_hub_load(
     T_el_Nmm: float,
     sprocket_pitch_diameter_mm: float,
@@ -319,4 +403,5 @@ __all__ = [
     "chain_hub_load",
     "min_pretension_N",
     "open_belt_wrap_angle_deg",
+    "takeup_belt_hub_load",
 ]

@@ -105,6 +105,8 @@ class Bearing:
         shafts, an idler on a pin); ``None`` = the housing. Such a bearing runs at the
         relative speed and carries radial load only.
     within_x_mm: station of the bearing on the ``within`` shaft [mm] (from the geometry).
+    on_sleeve: the bearing sits on a sleeve or adapter (its bore is larger than the
+        shaft under it) instead of directly on the shaft seat.
     """
 
     id: str
@@ -140,6 +142,7 @@ class Bearing:
     line: int | None = None
     within: str | None = None
     within_x_mm: float | None = None
+    on_sleeve: bool = False
 
     @property
     def mean_diameter_mm(self) -> float:

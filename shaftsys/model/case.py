@@ -56,6 +56,8 @@ class Case:
     loads: per-element process loads of this case.
     temperature_C: operating temperature [degC] (``nan`` = not given).
     line: line of the case in its model file.
+    slack_tensions: (pulley id, slack-side tension [N]) given for this case (a take-up
+        whose tension the designer knows per case); it replaces the pulley's own model.
     """
 
     id: str
@@ -65,6 +67,7 @@ class Case:
     loads: tuple[ElementLoad, ...] = ()
     temperature_C: float = float("nan")
     line: int | None = None
+    slack_tensions: tuple[tuple[str, float], ...] = ()
 
     def __hash__(self) -> int:
         return hash((self.id, self.kind, self.duration))

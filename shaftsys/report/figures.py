@@ -383,7 +383,7 @@ def to_svg(fig: Figure, salt: str | None = None) -> str:
     buf = io.StringIO()
     salt = f"shaftsys-fig-{next(_SVG_COUNTER)}" if salt is None else str(salt)
     with matplotlib.rc_context({"svg.fonttype": "none", "svg.hashsalt": salt}):
-        fig.savefig(buf, format="svg")
+        fig.savefig(buf, format="svg", bbox_inches="tight", pad_inches=0.1)
     pyplot = sys.modules.get("matplotlib.pyplot")
     if pyplot is not None:
         pyplot.close(fig)

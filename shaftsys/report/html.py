@@ -295,8 +295,12 @@ def _summary(result: Result) -> str:
         crows.append([_e(c.id), _e(c.kind.value), _n(shares[c.id]), _n(c.duration),
                       _n(c.temperature_C), _e(_case_drive_text(result, c))])
     unit = "h" if m.duration_in_hours else "share"
-    sys_line = (f"System life of the machine: {format_value(result.system_life_h, 5)} h at "
+    sys_line = (f"System life of the machine: {format_value(result.system_life_h, 3)} h at "
                 f"the target reliability, limited by {result.limiting_bearing or '-'}.")
+    if result.system_life_h is not None and result.system_life_h < m.life.target_life_h:
+        sys_line += (f" It is below the {format_value(m.life.target_life_h, 3)} h target: "
+                     "information, not a criterion of the verdict, which checks each "
+                     "support's own life against its own target.")
     return (f'<section id="summary"><h2>{SECTION_TITLES[2]}</h2>'
             + _table(["shaft", "length mm", "material", "steps", "bearings", "elements",
                       "system life h", "limiting"], srows, (0, 2, 4, 5, 7))

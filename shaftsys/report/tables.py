@@ -38,15 +38,52 @@ def _num(value: float | None, digits: int = 0) -> str:
     return f"{value:.{digits}f}"
 
 
+def sig(value: float | None, digits: int = 3) -> str:
+    """``value`` to ``digits`` significant figures, as a reader takes it in.
+
+    Below a million: rounded, thousands grouped by spaces (``48 800``, ``3.74``,
+    ``0.0123``); from a million up: ``1.51e8``. ``None``/NaN give ``-``, infinity
+    ``inf``. Lives and loads are printed this way: their last digits are not known
+    (ratings, factors and loads carry a few per cent).
+    """
+    if value is None or (isinstance(value, float) and math.isnan(value)):
+        return "-"
+    if math.isinf(value):
+        return "inf" if value > 0 else "-inf"
+    if value == 0:
+        return "0"
+    magnitude = math.floor(math.log10(abs(value)))
+    if magnitude >= 6:
+        mantissa, exponent = f"{value:.{digits - 1}e}".split("e")
+        return f"{mantissa}e{int(exponent)}"
+    decimals = max(digits - 1 - magnitude, 0)
+    rounded = round(value, digits - 1 - magnitude)
+    if decimals == 0:
+        return f"{rounded:,.0f}".replace(",", " ")
+    return f"{rounded:.{decimals}f}"
+
+
+def sig_apart(value: float | None, limit: float | None, digits: int = 3) -> str:
+    """``value`` as :func:`sig`, with more figures (up to 6) where ``digits`` would
+    print a value that differs from ``limit`` as equal to it (a life just below its
+    target must not read as the target).
+    """
+    for n in range(digits, 7):
+        text = sig(value, n)
+        if value == limit or text != sig(limit, n):
+            return text
+    return sig(value, 6)
+
+
 def loads_table(result: Result) -> str:
     """Reaction components and resultant radial/axial load of every bearing and case."""
     headers = ["bearing", "case", "n rpm", "Fy N", "Fz N", "Fx N", "Fr N", "Fa N"]
     rows = []
     for b in result.bearings:
         for ld in b.loads:
-            rows.append([f"{b.shaft_id}/{b.bearing.id}", ld.case, _num(ld.speed_rpm),
-                         _num(ld.Fy_N), _num(ld.Fz_N), _num(ld.Fx_N), _num(ld.Fr_N),
-                         _num(ld.Fa_N)])
+            rows.append([f"{b.shaft_id}/{b.bearing.id}", ld.case, sig(ld.speed_rpm, 4),
+                         sig(ld.Fy_N, 4), sig(ld.Fz_N, 4), sig(ld.Fx_N, 4), sig(ld.Fr_N, 4),
+                         sig(ld.Fa_N, 4)])
     title = "Bearing loads (force of the shaft on each bearing, shaft frame)"
     return title + "\n" + format_table(headers, rows, "llrrrrrr")
 
@@ -65,9 +102,10 @@ def verdict_table(result: Result) -> str:
         d = life.to_dict()
         rows.append([
             f"{b.shaft_id}/{b.bearing.id}", b.bearing.kind.value.replace("_", " "),
-            str(worst_case(b) or "-"), _num(d["P_eq_N"]), _num(d["L10_h"]),
-            _num(d["Lnm_h"]), _num(d["target_h"]), _num(b.bearing.C_N),
-            _num(d["C_required_N"]), _num(d["margin"], 2), _num(d["s0"], 1),
+            str(worst_case(b) or "-"), sig(d["P_eq_N"], 4),
+            sig_apart(d["L10_h"], d["target_h"]), sig_apart(d["Lnm_h"], d["target_h"]),
+            sig(d["target_h"]), sig(b.bearing.C_N, 4),
+            sig(d["C_required_N"], 4), _num(d["margin"], 2), _num(d["s0"], 1),
             "PASS" if b.ok else "FAIL",
         ])
     basis = {b.life.to_dict()["life_basis"] for b in result.bearings if b.life is not None}
@@ -77,8 +115,13 @@ def verdict_table(result: Result) -> str:
     lines.append(f"life basis: {', '.join(sorted(basis))}; reliability method: "
                  f"{', '.join(sorted(method))}")
     if result.limiting_bearing:
-        lines.append(f"system life: {_num(result.system_life_h)} h, limited by "
+        lines.append(f"system life: {sig(result.system_life_h)} h, limited by "
                      f"{result.limiting_bearing}")
+        target = result.model.life.target_life_h
+        if result.system_life_h is not None and result.system_life_h < target:
+            lines.append(f"  the system life (all supports surviving together) is below "
+                         f"the {sig(target)} h target: information, not a criterion; each "
+                         "support's verdict is its own life against its own target")
     failing = [b.bearing.id for b in result.bearings if b.verdict == "fail"]
     missing = [b.bearing.id for b in result.bearings if b.life is None]
     if failing:
@@ -122,7 +165,7 @@ def selection_table(selection: Selection) -> str:
                 f"{seat.shaft_id}/{seat.bearing_id}" if rank == 0 else f"  runner-up {rank}",
                 cand.designation, cand.kind.replace("_", " "), _num(cand.d_mm, 1),
                 _num(cand.D_mm, 1), _num(cand.B_mm, 1), _num(cand.C_N), _num(cand.C0_N),
-                _num(cand.life_h), _num(cand.margin, 2), _num(cand.s0, 1),
+                sig(cand.life_h), _num(cand.margin, 2), _num(cand.s0, 1),
                 _num(cand.mass_kg, 2), _num(cand.price, 2)])
     lines = [f"Bearing choice (objective: {selection.objective.replace('_', ' ')}; "
              f"life at the target reliability; margin = C / C required)",
@@ -153,10 +196,12 @@ def _fmt(v: float | None, spec: str) -> str:
 
 
 def shaft_checks_table(sc: ShaftChecks) -> str:
-    """Plain-text tables: slopes/deflections, critical speeds, fatigue sections."""
-    lines = ["Slopes and deflections (worst case)",
-             f"{'shaft':<10} {'what':<8} {'id':<14} {'x mm':>8} {'defl mm':>9} "
-             f"{'lim mm':>7} {'slope rad':>10} {'lim rad':>9} {'case':<12} verdict"]
+    """Plain-text tables: slopes/deflections, critical speeds, fatigue sections.
+
+    Columns are as wide as their longest entry, so long shaft and element ids keep
+    every column in line.
+    """
+    rows: list[list[str]] = []
     for c in (*sc.bearings, *sc.gears):
         worst = max(c.cases, key=lambda k: k.slope_rad / c.slope_limit_rad + (
             k.deflection_mm / c.deflection_limit_mm if c.deflection_limit_mm else 0.0),
@@ -166,36 +211,40 @@ def shaft_checks_table(sc: ShaftChecks) -> str:
         verdict = "ok" if c.ok else "EXCEEDED"
         if c.ok and any(k.status == "marginal" for k in c.cases):
             verdict = "marginal"
-        lines.append(f"{c.shaft:<10} {c.kind:<8} {c.id:<14} {c.x_mm:>8.1f} "
-                     f"{worst.deflection_mm:>9.4f} {_fmt(c.deflection_limit_mm, '7.3f'):>7} "
-                     f"{worst.slope_rad:>10.2e} {c.slope_limit_rad:>9.2e} {worst.case:<12} "
-                     f"{verdict}")
-    lines += ["", "Critical speeds (non-rotating shaft, no gyroscopic effects)",
-              f"{'shaft':<10} {'bending rpm':>12} {'torsion rpm':>12} {'max rpm':>9} "
-              f"{'ratio':>7} verdict"]
+        rows.append([c.shaft, c.kind, c.id, f"{c.x_mm:.1f}", f"{worst.deflection_mm:.4f}",
+                     _fmt(c.deflection_limit_mm, ".3f"), f"{worst.slope_rad:.2e}",
+                     f"{c.slope_limit_rad:.2e}", worst.case, verdict])
+    lines = ["Slopes and deflections (worst case)",
+             format_table(["shaft", "what", "id", "x mm", "defl mm", "lim mm", "slope rad",
+                           "lim rad", "case", "verdict"], rows, "lllrrrrrll")]
+    rows = []
     for s in sc.shafts:
         ratio = s.first_critical_rpm / s.max_speed_rpm if s.max_speed_rpm > 0 else math.inf
         verdict = ("supercritical" if s.supercritical else "ok") if s.critical_speed_ok \
             else "TOO CLOSE"
-        lines.append(f"{s.id:<10} {_fmt(s.first_critical_rpm, '12.0f'):>12} "
-                     f"{_fmt(s.first_torsional_rpm, '12.0f'):>12} {s.max_speed_rpm:>9.0f} "
-                     f"{_fmt(ratio, '7.2f'):>7} {verdict}")
-    lines += ["", "Fatigue sections",
-              f"{'shaft':<10} {'x mm':>8} {'feature':<20} {'d mm':>6} {'Kt':>5} {'Kf':>5} "
-              f"{'Kfs':>5} {'Se MPa':>7} {'sa MPa':>7} {'sm MPa':>7} {'n_f':>6} {'n_y':>6} "
-              "verdict"]
+        rows.append([s.id, _fmt(s.first_critical_rpm, ".0f"), _fmt(s.first_torsional_rpm, ".0f"),
+                     f"{s.max_speed_rpm:.0f}", _fmt(ratio, ".2f"), verdict])
+    lines += ["", "Critical speeds (non-rotating shaft, no gyroscopic effects)",
+              format_table(["shaft", "bending rpm", "torsion rpm", "max rpm", "ratio",
+                            "verdict"], rows, "lrrrrl")]
+    rows = []
+    empty: list[str] = []
     for s in sc.shafts:
         if s.fatigue_not_evaluated is not None:
-            lines.append(f"{s.id:<10} fatigue {s.fatigue_not_evaluated}: NOT EVALUATED"
+            empty.append(f"{s.id} fatigue {s.fatigue_not_evaluated}: NOT EVALUATED"
                          + ("" if s.fatigue_required else " (not required)"))
         elif not s.sections:
-            lines.append(f"{s.id:<10} (no fatigue sections: see notes)")
+            empty.append(f"{s.id} (no fatigue sections: see notes)")
         for x in s.sections:
-            lines.append(f"{s.id:<10} {x.x_mm:>8.1f} {x.feature:<20} {x.d_mm:>6.1f} "
-                         f"{x.Kt:>5.2f} {x.Kf:>5.2f} {x.Kfs:>5.2f} {x.Se_MPa:>7.1f} "
-                         f"{x.sigma_a_MPa:>7.1f} {x.sigma_m_MPa:>7.1f} "
-                         f"{_fmt(x.n_fatigue, '6.2f'):>6} {_fmt(x.n_yield, '6.2f'):>6} "
-                         f"{'ok' if x.ok else 'LOW'}")
+            rows.append([s.id, f"{x.x_mm:.1f}", x.feature, f"{x.d_mm:.1f}", f"{x.Kt:.2f}",
+                         f"{x.Kf:.2f}", f"{x.Kfs:.2f}", f"{x.Se_MPa:.1f}",
+                         f"{x.sigma_a_MPa:.1f}", f"{x.sigma_m_MPa:.1f}",
+                         _fmt(x.n_fatigue, ".2f"), _fmt(x.n_yield, ".2f"),
+                         "ok" if x.ok else "LOW"])
+    lines += ["", "Fatigue sections",
+              format_table(["shaft", "x mm", "feature", "d mm", "Kt", "Kf", "Kfs", "Se MPa",
+                            "sa MPa", "sm MPa", "n_f", "n_y", "verdict"], rows,
+                           "lrlrrrrrrrrrl"), *empty]
     notes = [f"{s.id}: {n}" for s in sc.shafts for n in s.notes]
     if notes:
         lines += ["", "Notes", *notes]

@@ -46,6 +46,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from shaftsys.errors import ModelError
+from shaftsys.machine.seats import HUB_KINDS, seat_fit
 from shaftsys.model import BevelGear, Case, Gear, Model, Shaft
 
 Array = NDArray[np.float64]
@@ -439,6 +440,20 @@ def check_geometry(model: Model, shaft: Shaft, geom: Geometry) -> None:
                | (sx < -STATION_TOL_MM) | (sx > total + STATION_TOL_MM))
         _note(r, off, lambda k, j=j, b=b: (
             f"bearing {b.id} at {bx[k, j]:.6g} mm is off the shaft (0..{total[k]:.6g} mm)"))
+    edges = np.concatenate([np.zeros((L.shape[0], 1)), np.cumsum(L, axis=1)], axis=1)
+    base_edges = np.asarray([shaft.step_edges_mm])
+    base_d = np.asarray([[s.d_mm for s in shaft.steps]])
+    for j, b in enumerate(shaft.bearings):
+        half = 0.5 * (b.B_mm or 0.0)
+        was_bad, _ = seat_fit(base_edges, base_d, np.array([b.x_mm]), half, b.d_mm,
+                              b.on_sleeve)
+        if was_bad[0]:  # a model built in Python that never passed the loader's rule
+            continue
+        bad, dia = seat_fit(edges, geom.step_d_mm, bx[:, j], half, b.d_mm, b.on_sleeve)
+        _note(r, bad, lambda k, j=j, b=b, dia=dia: (
+            f"bearing {b.id} at {bx[k, j]:.6g} mm no longer fits its seat: a {dia[k]:.6g} "
+            f"mm step under it, bore {b.d_mm:g} mm (moved across a shoulder, or the seat "
+            "step changed)"))
     ex = geom.element_x_mm
     for j, e in enumerate(shaft.elements):
         off = (ex[:, j] < -STATION_TOL_MM) | (ex[:, j] > total + STATION_TOL_MM)
@@ -460,6 +475,11 @@ def check_geometry(model: Model, shaft: Shaft, geom: Geometry) -> None:
             elif both_bearings:
                 base = abs(xa0 - xc0) <= STATION_TOL_MM
                 hit = np.abs(xa - xc) <= STATION_TOL_MM
+            elif ka == "bearing" and wa is not None and kc == "element" and \
+                    shaft.elements[[e.id for e in shaft.elements].index(idc)].kind in HUB_KINDS:
+                # a hub element without a width: its station inside the bearing's width
+                base = bool(_overlap(np.array([xa0]), wa, np.array([xc0]), 0.0)[0])
+                hit = _overlap(xa, wa, xc, 0.0)
             else:
                 continue
             if not base:

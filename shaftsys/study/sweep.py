@@ -129,7 +129,9 @@ class Study:
                 and all(q.geometric for q in self.quantities)
                 # an open adjusted pair needs the solve-choose passes of analyse
                 and all(placeholders[o.bearing_id].pair is None
-                        for o in self.model.open_seats))
+                        for o in self.model.open_seats)
+                and not any(getattr(e, "hubs_mm", ())  # a drum's hubs: loads off its station
+                            for e in self.model.shafts[0].elements))
 
     def values_block(self, lo: int, hi: int) -> NDArray[np.float64]:
         """Values of variants ``lo..hi-1``, shape (hi - lo, n_quantities)."""
