@@ -68,7 +68,6 @@ from functools import cached_property
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
-from scipy.linalg import lapack
 
 from shaftsys.errors import ModelError, NumericalError
 from shaftsys.fe.beam import (
@@ -522,6 +521,8 @@ class _BandedSPD:
             raise NumericalError(
                 f"{label}: no stiffness at {describe(int(bad[0]))}: the system is singular"
             )
+        from scipy.linalg import lapack  # deferred to the first solve (start-up)
+
         c, info = lapack.dpbtrf(ab, lower=0)
         if info != 0:
             where = describe(int(info - 1)) if info > 0 else "(invalid input)"
@@ -543,6 +544,8 @@ class _BandedSPD:
 
     def solve_scaled(self, b: Array) -> Array:
         """Solve (S K S) y = b with the stored factor; b shape (n, m)."""
+        from scipy.linalg import lapack
+
         y, info = lapack.dpbtrs(self.factor, b, lower=0)
         if info != 0:  # pragma: no cover - only on invalid arguments
             raise NumericalError(f"{self.label}: banded solve failed (info={info})")

@@ -41,6 +41,38 @@ DEFAULT_UNITS: dict[str, str] = {
 }
 
 _NUMBER = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$")
+_NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(\S.*?)\s*$")
+
+#: Exact factors of the common units: (dimension, unit as written) -> internal units
+#: per unit. A value written in one of them is read without pint (building pint's
+#: registry costs some 0.4 s of start-up); every other unit, and every error message,
+#: goes through pint, which stays the authority. A test checks each factor against
+#: pint and that a value read here equals pint's reading. The catalogue reader uses the
+#: same table (:mod:`shaftsys.io.catalogue`).
+EXACT_FACTORS: dict[tuple[str, str], float] = {
+    **{("length", u): f for u, f in (("mm", 1.0), ("cm", 10.0), ("m", 1000.0),
+                                      ("in", 25.4))},
+    **{("force", u): f for u, f in (("N", 1.0), ("kN", 1000.0), ("MN", 1e6),
+                                     ("daN", 10.0))},
+    **{("moment", u): f for u, f in (("N*mm", 1.0), ("N*m", 1000.0), ("kN*m", 1e6))},
+    **{("stress", u): f for u, f in (("MPa", 1.0), ("GPa", 1000.0), ("N/mm^2", 1.0),
+                                      ("N/mm**2", 1.0))},
+    **{("speed", u): f for u, f in (("rpm", 1.0), ("1/min", 1.0),
+                                     ("Hz", 60.0))},
+    **{("power", u): f for u, f in (("W", 1.0), ("kW", 1000.0), ("MW", 1e6))},
+    ("time", "h"): 1.0,
+    **{("viscosity", u): 1.0 for u in ("mm^2/s", "mm**2/s", "cSt")},
+    ("temperature", "degC"): 1.0,
+    **{("angle", u): 1.0 for u in ("deg", "degree")},
+    **{("mass", u): f for u, f in (("kg", 1.0), ("g", 1e-3), ("t", 1000.0))},
+    **{("density", u): 1.0 for u in ("kg/m^3", "kg/m**3")},
+    **{("acceleration", u): 1.0 for u in ("m/s^2", "m/s**2")},
+    **{("inertia", u): 1.0 for u in ("kg*m^2", "kg*m**2")},
+    **{("linear_stiffness", u): f for u, f in (("N/mm", 1.0), ("kN/mm", 1000.0))},
+    **{("angular_stiffness", u): f for u, f in (("N*mm/rad", 1.0), ("N*m/rad", 1000.0))},
+    ("unbalance", "g*mm"): 1.0,
+    ("dimensionless", "1"): 1.0,
+}
 
 
 class QuantityProblem(Exception):
@@ -86,7 +118,6 @@ def to_internal(value: object, dimension: str) -> float:
 
 
 def _to_internal(value: object, dimension: str) -> float:
-    unit = DEFAULT_UNITS[dimension]
     expected = f"a {dimension.replace('_', ' ')} such as '{_example(dimension)}'"
     if isinstance(value, bool) or value is None:
         raise QuantityProblem(f"{value!r} is not a {dimension}", expected)
@@ -105,6 +136,19 @@ def _to_internal(value: object, dimension: str) -> float:
         return _to_internal(float(text), dimension)
     if text.lower() in {"nan", "inf", "-inf", "+inf", "infinity"}:
         raise QuantityProblem(f"{value!r} is not a finite number", expected)
+    match = _NUMBER_UNIT.match(text)
+    factor = EXACT_FACTORS.get((dimension, match.group(2))) if match else None
+    if match and factor is not None:
+        number = float(match.group(1))
+        if not math.isfinite(number):
+            raise QuantityProblem(f"{value!r} is not a finite number", expected)
+        return number * factor
+    return _pint_to_internal(value, text, dimension, expected)
+
+
+def _pint_to_internal(value: object, text: str, dimension: str, expected: str) -> float:
+    """``text`` (a number with a unit) read by pint, in the internal unit of ``dimension``."""
+    unit = DEFAULT_UNITS[dimension]
     text = text.replace("%", " percent")
     ureg = U.registry()
     try:
