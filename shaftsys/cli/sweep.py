@@ -137,7 +137,11 @@ def run_sweep(args: argparse.Namespace) -> int:
             from shaftsys.study.plots import save_study_plot
 
             Path(args.plot).parent.mkdir(parents=True, exist_ok=True)
-            save_study_plot(run.frame(), study, args.plot)
+            # only the columns the figure draws: a large study's table need not fit
+            ids = [b.id for sh in study.model.shafts for b in sh.bearings]
+            cols = [*(q.path for q in study.quantities), "ok", "worst_margin",
+                    *(f"{i}.Lnm_h" for i in ids)]
+            save_study_plot(run.frame(columns=cols), study, args.plot)
     except (ModelError, OutputError) as exc:
         print(f"shaftsys: error: {exc}", file=sys.stderr)
         return 2

@@ -79,17 +79,20 @@ class StudyRun:
     #: files), ``summary``, ``total``.
     timings: dict[str, float] = dataclasses.field(default_factory=dict)
 
-    def frame(self) -> pd.DataFrame:
-        """All results as one DataFrame (reads ``results.parquet``, else the chunks).
+    def frame(self, columns: Sequence[str] | None = None) -> pd.DataFrame:
+        """The results as one DataFrame (reads ``results.parquet``, else the chunks).
 
-        This holds the whole table in memory: for large studies read the Parquet file
-        in parts (``pyarrow.parquet.ParquetFile(...).iter_batches()``).
+        ``columns``: only these (default: all). All columns of a large study may not fit
+        in memory: read the Parquet file in parts then
+        (``pyarrow.parquet.ParquetFile(...).iter_batches()``).
         """
         import pandas as pd
 
+        cols = None if columns is None else list(columns)
         if "parquet" in self.paths:
-            return pd.read_parquet(self.paths["parquet"])
-        frames = [pd.read_parquet(_chunk_path(self.out_dir, c)) for c in range(self.n_chunks)]
+            return pd.read_parquet(self.paths["parquet"], columns=cols)
+        frames = [pd.read_parquet(_chunk_path(self.out_dir, c), columns=cols)
+                  for c in range(self.n_chunks)]
         return pd.concat(frames, ignore_index=True)
 
 
