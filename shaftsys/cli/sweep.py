@@ -17,7 +17,7 @@ from typing import Any
 from shaftsys.errors import ModelError, NumericalError, OutputError
 
 #: What ``shaftsys sweep`` writes unless --format says otherwise (the library's
-#: ``run_study`` writes csv, json and parquet); ``shaftsys.study.writers`` holds it too.
+#: ``run_study`` writes ``shaftsys.study.writers.LIBRARY_FORMATS``: csv, json, parquet).
 CLI_FORMATS = ("parquet",)
 
 SWEEP_EPILOG = """worked example (the bundled spindle, rear bearing spacing):
@@ -153,8 +153,9 @@ def run_sweep(args: argparse.Namespace) -> int:
         return 3
     if args.timings:
         t = run.timings
+        written = ", ".join(k for k in run.paths if k != "summary")
         print(f"timings: evaluate {t['evaluate']:.1f} s, chunk files {t['chunks']:.1f} s, "
-              f"results {t['results']:.1f} s ({', '.join(run.paths.keys() - {'summary'})}), "
+              f"results {t['results']:.1f} s ({written}), "
               f"summary {t['summary']:.1f} s, study total {t['total']:.1f} s, "
               f"{'dask' if run.distributed else 'in-process'}", file=sys.stderr)
     if not args.quiet:
