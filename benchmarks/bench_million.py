@@ -99,8 +99,10 @@ def run_once(root: Path, grid: list[int], formats: str | None, workers: int | No
         cmd += ["--workers", str(workers)]
     env = dict(os.environ, PYTHONPATH=str(root))
     t0 = time.perf_counter()
+    # cwd = the scratch folder: ``python -m`` puts the cwd first on sys.path, so a run
+    # started in a checkout would import that checkout instead of ``root``
     proc = subprocess.Popen(cmd, env=env, stdout=subprocess.PIPE, stderr=subprocess.PIPE,
-                            text=True)
+                            text=True, cwd=out)
     peak = 0
     while proc.poll() is None:
         peak = max(peak, tree_rss(proc.pid))
