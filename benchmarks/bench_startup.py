@@ -24,6 +24,7 @@ from __future__ import annotations
 
 import argparse
 import os
+import shutil
 import statistics
 import subprocess
 import sys
@@ -80,7 +81,7 @@ def main() -> None:
                    help="do not cache bytecode (measure compilation too)")
     args = p.parse_args()
     roots = [("this", HERE)] + ([("peer", Path(args.peer))] if args.peer else [])
-    caches = {name: None if args.no_bytecode else Path(tempfile.mkdtemp(prefix="pyc_"))
+    caches = {name: None if args.no_bytecode else Path(tempfile.mkdtemp(prefix=f"pyc_{os.getpid()}_"))
               for name, _ in roots}
     envs = {name: child_env(root, caches[name]) for name, root in roots}
     print(f"{os.cpu_count()} CPUs, load average {os.getloadavg()[0]:.2f}, "
@@ -110,4 +111,8 @@ def main() -> None:
 
 
 if __name__ == "__main__":
-    main()
+    try:
+        main()
+    finally:  # the private bytecode caches
+        for folder in Path(tempfile.gettempdir()).glob(f"pyc_{os.getpid()}_*"):
+            shutil.rmtree(folder, ignore_errors=True)
