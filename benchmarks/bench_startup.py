@@ -81,7 +81,8 @@ def main() -> None:
                    help="do not cache bytecode (measure compilation too)")
     args = p.parse_args()
     roots = [("this", HERE)] + ([("peer", Path(args.peer))] if args.peer else [])
-    caches = {name: None if args.no_bytecode else Path(tempfile.mkdtemp(prefix=f"pyc_{os.getpid()}_"))
+    prefix = f"pyc_{os.getpid()}_"
+    caches = {name: None if args.no_bytecode else Path(tempfile.mkdtemp(prefix=prefix))
               for name, _ in roots}
     envs = {name: child_env(root, caches[name]) for name, root in roots}
     print(f"{os.cpu_count()} CPUs, load average {os.getloadavg()[0]:.2f}, "
