@@ -2,7 +2,7 @@
 
 Each bearing survives to life L with S_i(L) = exp(ln(0.9)*(L/L10_i)^e_i), e = 10/9 ball,
 9/8 roller. The system life L_sys is where prod S_i(L_sys) = R, i.e.
-sum ln(0.9)*(L_sys/L10_i)^e_i = ln R, solved with scipy.optimize.brentq. For equal
+sum ln(0.9)*(L_sys/L10_i)^e_i = ln R, solved by Newton on ln L_sys. For equal
 slopes there is the closed form L_sys = (ln R/ln 0.9)^(1/e) * (sum L10_i^-e)^(-1/e).
 
 The lives given must be 90 %-reliability lives of each bearing (L10, or a modified life
@@ -83,29 +83,29 @@ def system_life(
     finite = np.isfinite(L)
     if not np.any(finite):
         return math.inf, None
-    target = math.log(reliability)
     Lf, ef = L[finite], e[finite]
-
-    def g(x: float) -> float:
-        return float(np.sum(_LN09 * (x / Lf) ** ef)) - target
-
-    # bracket: the root is below the weakest bearing's own life at R and above
-    # the equal-share lower bound; widen geometrically to be safe.
-    lo = float(np.min(Lf)) * 1e-6
-    hi = float(np.min(Lf)) * max(1.0, (target / _LN09) ** (1.0 / float(np.min(ef)))) * 2.0
-    for _ in range(200):
-        if g(lo) > 0.0:
-            break
-        lo *= 1e-3
-    for _ in range(200):
-        if g(hi) < 0.0:
-            break
-        hi *= 2.0
-    if not (g(lo) > 0.0 > g(hi)):
-        raise NumericalError("system life: could not bracket the root")
-    from scipy.optimize import brentq  # lazy: only a system-life solve needs it
-
-    root = float(brentq(g, lo, hi, xtol=1e-14 * hi, rtol=1e-13, maxiter=500))
+    root = _newton_log_life(Lf, ef, math.log(reliability) / _LN09)
     hazard = np.zeros_like(L)
     hazard[finite] = -_LN09 * (root / Lf) ** ef
     return root, int(np.argmax(hazard))
+
+
+def _newton_log_life(L: np.ndarray, e: np.ndarray, c: float) -> float:
+    """The L with sum_i (L/L_i)^e_i = c (c > 0), by Newton's method on y = ln L.
+
+    h(y) = sum_i exp(e_i (y - ln L_i)) is increasing and convex, so Newton started right
+    of the root (at the smallest single-bearing root, where one term alone is c) falls
+    monotonically onto it; it stops when a step is below 1e-15 of y (round-off), the
+    rule of the batched study (:func:`shaftsys.study.variant_batch.system_life_batch`).
+    No scipy: a check of a model does not import scipy.optimize for this one root.
+    """
+    lnL = np.log(L)
+    y = float(np.min(lnL + math.log(c) / e))
+    for _ in range(200):
+        t = np.exp(e * (y - lnL))
+        step = (float(np.sum(t)) - c) / float(np.sum(e * t))
+        y -= step
+        if not abs(step) > 1e-15 * max(1.0, abs(y)):
+            return math.exp(y)
+    raise NumericalError("system life: Newton's method did not converge")
+

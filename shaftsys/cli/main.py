@@ -25,7 +25,10 @@ from typing import Any, TextIO
 
 from shaftsys import __version__
 from shaftsys.errors import EXIT_OK, EXIT_TARGET_MISSED, ModelError, OutputError, ShaftsysError
-from shaftsys.model.selection import Objective
+
+#: The ``--objective`` choices: the values of :class:`shaftsys.model.selection.Objective`
+#: (a test holds them equal), written out so that building the parser imports no numpy.
+OBJECTIVES = ("smallest", "lightest", "cheapest", "largest_margin")
 
 EXIT_CODES_TEXT = """exit codes:
   0  every check passes
@@ -138,7 +141,7 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
                  "runners-up and, where nothing qualifies, the closest miss and why.",
                  CHOOSE_EXAMPLE)
     o.add_argument("model", help="model file (YAML) with open bearings")
-    o.add_argument("--objective", choices=[x.value for x in Objective],
+    o.add_argument("--objective", choices=OBJECTIVES,
                    help="ranking of the qualifying bearings (default: the model's "
                    "'selection: objective', else smallest)")
     o.add_argument("--write", metavar="PATH",
@@ -277,6 +280,8 @@ def _solve(args: argparse.Namespace, bar: Any) -> Any:
     model = load_model(args.model)
     if getattr(args, "objective", None):
         from dataclasses import replace
+
+        from shaftsys.model.selection import Objective
 
         model = replace(model, selection=replace(model.selection,
                                                  objective=Objective(args.objective)))

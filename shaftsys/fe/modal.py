@@ -39,7 +39,6 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
-import scipy.linalg
 from numpy.typing import ArrayLike, NDArray
 
 from shaftsys.errors import NumericalError
@@ -218,6 +217,8 @@ def _solve_eig(
         raise ValueError(f"n_modes = {n_modes!r}; expected 1 .. {nf}")
     Kr = K[np.ix_(free, free)]
     Mr = M[np.ix_(free, free)]
+    import scipy.linalg  # deferred to the first modal solve (start-up)
+
     try:
         lam, vec = scipy.linalg.eigh(Kr, Mr, subset_by_index=[0, k - 1])
     except np.linalg.LinAlgError as exc:

@@ -116,7 +116,13 @@ import numpy as np
 
 from shaftsys import units as U
 from shaftsys.errors import ModelError
-from shaftsys.io.quantities import MAX_MAGNITUDE, MIN_MAGNITUDE, QuantityProblem, to_internal
+from shaftsys.io.quantities import (
+    EXACT_FACTORS,
+    MAX_MAGNITUDE,
+    MIN_MAGNITUDE,
+    QuantityProblem,
+    to_internal,
+)
 from shaftsys.io.spec import DEFAULT_UNIT_NOTE, Where, check_keys
 from shaftsys.io.yamlsource import (
     MAX_FILE_BYTES,
@@ -226,19 +232,10 @@ _NO_UNIT = {"", "-"}
 _UNIT_ROW = {"unit", "units"}
 _NEEDS_CONTACT_ANGLE = (BearingKind.ANGULAR_CONTACT_BALL, BearingKind.THRUST_BALL)
 
-#: Exact factors of the most common catalogue units, so that a catalogue in mm, kN,
-#: rpm and kg is read without building pint's registry (about 0.5 s). A test checks
-#: every entry against pint; anything else is read with pint.
-_COMMON_FACTORS: dict[tuple[str, str], float] = {
-    ("length", "mm"): 1.0, ("length", "cm"): 10.0, ("length", "m"): 1000.0,
-    ("length", "in"): 25.4,
-    ("force", "N"): 1.0, ("force", "kN"): 1000.0, ("force", "MN"): 1e6,
-    ("force", "daN"): 10.0,
-    ("speed", "rpm"): 1.0, ("speed", "1/min"): 1.0,
-    ("mass", "kg"): 1.0, ("mass", "g"): 1e-3,
-    ("angle", "deg"): 1.0, ("angle", "degree"): 1.0,
-    ("dimensionless", "1"): 1.0,
-}
+#: The exact factors of the common units (one table, :data:`shaftsys.io.quantities.
+#: EXACT_FACTORS`): a catalogue in mm, kN, rpm and kg is read without building pint's
+#: registry; anything else is read with pint.
+_COMMON_FACTORS = EXACT_FACTORS
 
 
 def resolve_column(header: str) -> tuple[ColumnSpec | None, str | None]:

@@ -116,6 +116,48 @@ def split_quantity(text: str) -> tuple[float | None, str]:
         raise QuantityProblem(f"unbalanced brackets in {excerpt(text)}", expected)
     return number, unit
 
+_NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(\S.*?)\s*$")
+
+#: Exact factors of the common units: (dimension, unit as written) -> internal units
+#: per unit. A value written in one of them is read without pint (building pint's
+#: registry costs some 0.4 s of start-up); every other unit, and every error message,
+#: goes through pint, which stays the authority. A test checks each factor against
+#: pint and that a value read here equals pint's reading. The catalogue reader uses the
+#: same table (:mod:`shaftsys.io.catalogue`).
+EXACT_FACTORS: dict[tuple[str, str], float] = {
+    **{("length", u): f for u, f in (("mm", 1.0), ("cm", 10.0), ("m", 1000.0),
+                                      ("in", 25.4))},
+    **{("force", u): f for u, f in (("N", 1.0), ("kN", 1000.0), ("MN", 1e6),
+                                     ("daN", 10.0))},
+    **{("moment", u): f for u, f in (("N*mm", 1.0), ("N*m", 1000.0), ("kN*m", 1e6))},
+    **{("stress", u): f for u, f in (("MPa", 1.0), ("GPa", 1000.0), ("N/mm^2", 1.0),
+                                      ("N/mm**2", 1.0))},
+    **{("speed", u): f for u, f in (("rpm", 1.0), ("1/min", 1.0),
+                                     ("Hz", 60.0))},
+    **{("power", u): f for u, f in (("W", 1.0), ("kW", 1000.0), ("MW", 1e6))},
+    ("time", "h"): 1.0,
+    **{("viscosity", u): 1.0 for u in ("mm^2/s", "mm**2/s", "cSt")},
+    ("temperature", "degC"): 1.0,
+    **{("angle", u): 1.0 for u in ("deg", "degree")},
+    **{("mass", u): f for u, f in (("kg", 1.0), ("g", 1e-3), ("t", 1000.0))},
+    **{("density", u): 1.0 for u in ("kg/m^3", "kg/m**3")},
+    **{("acceleration", u): 1.0 for u in ("m/s^2", "m/s**2")},
+    **{("inertia", u): 1.0 for u in ("kg*m^2", "kg*m**2")},
+    **{("linear_stiffness", u): f for u, f in (("N/mm", 1.0), ("kN/mm", 1000.0))},
+    **{("angular_stiffness", u): f for u, f in (("N*mm/rad", 1.0), ("N*m/rad", 1000.0))},
+    ("unbalance", "g*mm"): 1.0,
+    ("dimensionless", "1"): 1.0,
+    ("dimensionless", "%"): 0.01,
+    ("length", "um"): 1e-3,
+    ("stress", "kPa"): 1e-3,
+    ("area", "m^2"): 1.0,
+    ("heat_transfer_coefficient", "W/(m^2*K)"): 1.0,
+    ("thermal_resistance", "K/W"): 1.0,
+    ("volume_flow", "l/min"): 1.0,
+    ("temperature_difference", "K"): 1.0,
+    ("specific_heat", "J/(kg*K)"): 1.0,
+}
+
 
 class QuantityProblem(Exception):
     """Why a value could not be read as a quantity (the loader adds file and line)."""
@@ -160,7 +202,6 @@ def to_internal(value: object, dimension: str) -> float:
 
 
 def _to_internal(value: object, dimension: str) -> float:
-    unit = DEFAULT_UNITS[dimension]
     expected = f"a {dimension.replace('_', ' ')} such as '{_example(dimension)}'"
     if isinstance(value, bool) or value is None:
         raise QuantityProblem(f"{excerpt(value)} is not a {dimension}", expected)
@@ -183,9 +224,19 @@ def _to_internal(value: object, dimension: str) -> float:
         return _to_internal(float(text), dimension)
     if text.lower().split(" ")[0].lstrip("+-") in {"nan", "inf", "infinity"}:
         raise QuantityProblem(f"{excerpt(value)} is not a finite number", expected)
-    quick = _plain_unit(text, dimension)
-    if quick is not None:
-        return quick
+    match = _NUMBER_UNIT.match(text)
+    factor = EXACT_FACTORS.get((dimension, match.group(2))) if match else None
+    if match and factor is not None:
+        number = float(match.group(1))
+        if not math.isfinite(number):
+            raise QuantityProblem(f"{excerpt(value)} is not a finite number", expected)
+        return number * factor
+    return _pint_to_internal(value, text, dimension, expected)
+
+
+def _pint_to_internal(value: object, text: str, dimension: str, expected: str) -> float:
+    """``text`` (a number with a unit) read by pint, in the internal unit of ``dimension``."""
+    unit = DEFAULT_UNITS[dimension]
     text = text.replace("%", " percent")
     try:
         given, unit_text = split_quantity(text)
@@ -216,52 +267,6 @@ def _to_internal(value: object, dimension: str) -> float:
         raise QuantityProblem(
             f"{excerpt(value)} has units of {q.units:~} which are not a {dimension}", expected
         ) from None
-
-
-#: Units model files use most, per dimension: factor to the internal unit. A value in
-#: one of them is read without pint (importing pint takes most of a second, which
-#: ``validate`` should not spend on "45 mm"); anything else goes through pint.
-_PLAIN_UNITS: dict[str, dict[str, float]] = {
-    "length": {"mm": 1.0, "cm": 10.0, "m": 1000.0, "um": 1e-3},
-    "force": {"N": 1.0, "kN": 1e3, "MN": 1e6},
-    "moment": {"N*mm": 1.0, "N*m": 1e3, "kN*m": 1e6},
-    "stress": {"MPa": 1.0, "GPa": 1e3, "kPa": 1e-3, "N/mm^2": 1.0},
-    "speed": {"rpm": 1.0, "1/min": 1.0, "Hz": 60.0},
-    "power": {"W": 1.0, "kW": 1e3, "MW": 1e6},
-    "time": {"h": 1.0},
-    "viscosity": {"mm^2/s": 1.0, "cSt": 1.0},
-    "temperature": {"degC": 1.0},
-    "angle": {"deg": 1.0, "degree": 1.0},
-    "mass": {"kg": 1.0, "g": 1e-3},
-    "density": {"kg/m^3": 1.0},
-    "acceleration": {"m/s^2": 1.0},
-    "inertia": {"kg*m^2": 1.0},
-    "linear_stiffness": {"N/mm": 1.0, "kN/mm": 1e3},
-    "angular_stiffness": {"N*mm/rad": 1.0, "N*m/rad": 1e3},
-    "unbalance": {"g*mm": 1.0},
-    "area": {"m^2": 1.0},
-    "heat_transfer_coefficient": {"W/(m^2*K)": 1.0},
-    "thermal_resistance": {"K/W": 1.0},
-    "volume_flow": {"l/min": 1.0},
-    "temperature_difference": {"K": 1.0},
-    "specific_heat": {"J/(kg*K)": 1.0},
-    "dimensionless": {"%": 0.01},
-}
-_PLAIN = re.compile(r"^([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(\S+)$")
-
-
-def _plain_unit(text: str, dimension: str) -> float | None:
-    """``"<number> <unit>"`` with a unit of :data:`_PLAIN_UNITS`, else ``None``."""
-    found = _PLAIN.match(text)
-    if found is None:
-        return None
-    factor = _PLAIN_UNITS.get(dimension, {}).get(found.group(2))
-    if factor is None:
-        return None
-    number = float(found.group(1))
-    if not math.isfinite(number):
-        return None
-    return number * factor
 
 
 def _speed_rpm(q: object) -> float:

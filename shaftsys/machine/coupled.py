@@ -23,7 +23,6 @@ from dataclasses import dataclass, field
 from typing import Any
 
 import numpy as np
-import scipy.linalg
 from numpy.typing import NDArray
 
 from shaftsys.errors import NumericalError
@@ -144,6 +143,8 @@ def solve_plane(members: list[Member], joints: list[Joint], plane: str, shear: b
     A = np.block([[K, C.T], [C, np.zeros((nc, nc))]])
     scale = np.sqrt(np.maximum(np.abs(np.diag(A)), 1.0))
     As = A / scale[:, None] / scale[None, :]
+    import scipy.linalg  # deferred to the first coupled solve (start-up)
+
     lu, piv = scipy.linalg.lu_factor(As, check_finite=True)
     rcond = _rcond(As, lu, piv)
     if not rcond > RCOND_SINGULAR:
@@ -186,6 +187,8 @@ def solve_plane(members: list[Member], joints: list[Joint], plane: str, shear: b
 
 def _rcond(A: Array, lu: Array, piv: Array) -> float:
     """Reciprocal 1-norm condition estimate of A from its LU factors (LAPACK gecon)."""
+    import scipy.linalg
+
     gecon = scipy.linalg.get_lapack_funcs("gecon", (lu,))
     anorm = float(np.abs(A).sum(axis=0).max())
     rc, info = gecon(lu, anorm, norm="1")

@@ -4,8 +4,13 @@ Layout of an output folder::
 
     manifest.json            study fingerprint, size, chunk size, ids of finished chunks
     chunks/chunk_000012.parquet   variants [12*chunk, 13*chunk) (one file per chunk)
-    results.csv|json|parquet every variant in variant order (written at the end)
+    results.parquet|csv|json every variant in variant order (written at the end, in the
+                             formats asked for: ``formats``; the library default is all
+                             three, ``shaftsys sweep`` writes Parquet unless --format)
     summary.json             counts and the best variant
+
+The result files are streamed from the chunk files (:mod:`shaftsys.study.writers`):
+the whole table is never held in memory.
 
 Every file is written atomically (:func:`shaftsys.io.output.atomic_write`): a chunk file
 first, then the manifest naming it, so after an interruption (Ctrl-C, a killed process,
@@ -13,37 +18,48 @@ a lost worker) the manifest lists only chunks whose file is complete; ``resume=T
 evaluates the other chunks and no variant is lost or repeated. A folder holding another
 study (different fingerprint) is refused.
 
-Studies larger than ``threshold`` variants, or when a scheduler address or a worker
-count is given, run on dask.distributed: by default a ``LocalCluster`` of worker
-processes on this machine bound to 127.0.0.1, else the cluster at ``scheduler``. Chunks
-are evaluated on the workers (at most two per worker in flight) and written by this
-process as they arrive, so memory stays flat whatever the study size. A tqdm progress
-bar (variants done, rate) goes to stderr when stderr is a terminal.
+Where the chunks run: in this process, or on dask.distributed when a scheduler address
+or a worker count (>= 1) is given (``workers=0`` forces this process), or, with
+neither, when the study has more than ``threshold`` variants AND this process may use
+more than :data:`AUTO_MIN_CPUS` CPUs. On a 2-CPU machine the cluster costs more than it
+brings (measured with ``benchmarks/bench_million.py``: see DEVELOPERS.md, "Scale-out
+and checkpoint"), so a study stays in-process there unless told otherwise. A dask run
+uses a ``LocalCluster`` of worker processes on this machine bound to 127.0.0.1 (no
+dashboard unless ``dashboard`` gives an address), else the cluster at ``scheduler``.
+Chunks are evaluated on the workers (at most two per worker in flight) and written by
+this process as they arrive, so memory stays flat whatever the study size. A tqdm
+progress bar (variants done, rate) goes to stderr when stderr is a terminal.
 """
 
 from __future__ import annotations
 
+import contextlib
 import dataclasses
 import json
 import logging
 import os
 import sys
-from collections.abc import Callable, Iterator
+import time
+from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from shaftsys.errors import ModelError
-from shaftsys.io.output import atomic_write, json_ready, write_json
-from shaftsys.study.sweep import Study, evaluate_block, frame_records, study_summary
+from shaftsys.io.output import atomic_write, write_json
+from shaftsys.study.sweep import Study, evaluate_block, study_summary
+from shaftsys.study.writers import LIBRARY_FORMATS, parse_formats, stream_results
 
 if TYPE_CHECKING:
     import pandas as pd
 
 log = logging.getLogger(__name__)
 
-#: Studies above this many variants run on dask by default.
+#: Studies above this many variants may run on dask by default (see AUTO_MIN_CPUS).
 DEFAULT_THRESHOLD = 200_000
+#: ... and only where this process may use more CPUs than this: on 2 CPUs a local
+#: cluster (scheduler, nannies, workers) did not pay for itself (DEVELOPERS.md).
+AUTO_MIN_CPUS = 2
 MANIFEST = "manifest.json"
 
 
@@ -58,12 +74,26 @@ class StudyRun:
     paths: dict[str, Path]
     summary: dict[str, Any]
     distributed: bool
+    #: seconds spent: ``evaluate`` (chunks, in this process or waiting for workers),
+    #: ``chunks`` (writing chunk files and the manifest), ``results`` (the result
+    #: files), ``summary``, ``total``.
+    timings: dict[str, float] = dataclasses.field(default_factory=dict)
 
-    def frame(self) -> pd.DataFrame:
-        """All results as one DataFrame (reads ``results.parquet``)."""
+    def frame(self, columns: Sequence[str] | None = None) -> pd.DataFrame:
+        """The results as one DataFrame (reads ``results.parquet``, else the chunks).
+
+        ``columns``: only these (default: all). All columns of a large study may not fit
+        in memory: read the Parquet file in parts then
+        (``pyarrow.parquet.ParquetFile(...).iter_batches()``).
+        """
         import pandas as pd
 
-        return pd.read_parquet(self.paths["parquet"])
+        cols = None if columns is None else list(columns)
+        if "parquet" in self.paths:
+            return pd.read_parquet(self.paths["parquet"], columns=cols)
+        frames = [pd.read_parquet(_chunk_path(self.out_dir, c), columns=cols)
+                  for c in range(self.n_chunks)]
+        return pd.concat(frames, ignore_index=True)
 
 
 def default_chunk_size(study: Study) -> int:
@@ -117,12 +147,40 @@ def _chunk_task(study: Study, lo: int, hi: int, batched: bool | None,
     return evaluate_block(study, lo, hi, batched=batched)
 
 
+def usable_cpus() -> int:
+    """CPUs this process may run on (its affinity mask where the OS has one)."""
+    try:
+        return len(os.sched_getaffinity(0))
+    except (AttributeError, OSError):  # pragma: no cover - not Linux
+        return os.cpu_count() or 1
+
+
+def runs_on_dask(n_variants: int, scheduler: str | None, workers: int | None,
+                 threshold: int = DEFAULT_THRESHOLD, cpus: int | None = None) -> bool:
+    """Whether a study of ``n_variants`` runs on dask (rule in the module docstring)."""
+    if scheduler is not None:
+        return True
+    if workers is not None:
+        return workers >= 1
+    return n_variants > threshold and (cpus or usable_cpus()) > AUTO_MIN_CPUS
+
+
+def _remove_stale_parts(out: Path) -> None:
+    """Remove temporary files a killed writer left (``.<name>.*.part``, ours only)."""
+    for folder in (out, out / "chunks"):
+        for part in folder.glob(".*.part"):
+            with contextlib.suppress(OSError):  # another process may have removed it
+                part.unlink()
+
+
 def run_study(study: Study, out_dir: str | Path, *, chunk_size: int | None = None,
               scheduler: str | None = None, workers: int | None = None,
               threshold: int = DEFAULT_THRESHOLD, resume: bool = False,
               progress: bool | None = None,
               on_chunk: Callable[[int, int], None] | None = None,
-              batched: bool | None = None) -> StudyRun:
+              batched: bool | None = None,
+              formats: Sequence[str] = LIBRARY_FORMATS,
+              dashboard: str | None = None) -> StudyRun:
     """Evaluate every variant of ``study`` into ``out_dir`` (see the module docstring).
 
     Parameters
@@ -131,21 +189,30 @@ def run_study(study: Study, out_dir: str | Path, *, chunk_size: int | None = Non
     out_dir: output folder (created if missing).
     chunk_size: variants per chunk (default :func:`default_chunk_size`).
     scheduler: address ``tcp://host:port`` of an existing dask scheduler.
-    workers: worker processes of the local cluster (default: CPU count).
-    threshold: above this many variants the study runs on dask.
+    workers: worker processes of a local dask cluster; 0 = this process (default:
+        :func:`runs_on_dask` decides; a cluster then has one worker per usable CPU).
+    threshold: above this many variants the study may run on dask (see the module
+        docstring).
     resume: continue a study whose manifest is in ``out_dir``.
     progress: show a progress bar (default: when stderr is a terminal).
     on_chunk: called as ``on_chunk(chunk_id, variants_done)`` after each chunk is
         checkpointed (an exception raised there stops the run; the checkpoint stays).
     batched: force (True) or forbid (False) the batched evaluator; default automatic.
+    formats: result files to write: any of ``"parquet"``, ``"csv"``, ``"json"``.
+    dashboard: address of the local cluster's dask dashboard (e.g. ``":8787"``);
+        default none.
 
     Raises
     ------
     ModelError: ``out_dir`` holds another study, or its checkpoint is unreadable.
     OutputError: a file cannot be written.
     """
+    formats = parse_formats(formats)
+    clock = {"evaluate": 0.0, "chunks": 0.0, "results": 0.0, "summary": 0.0}
+    t_start = time.perf_counter()
     out = Path(out_dir)
     (out / "chunks").mkdir(parents=True, exist_ok=True)
+    _remove_stale_parts(out)
     N = study.n_variants
     manifest = _read_manifest(out) if resume else None
     if manifest is not None:
@@ -162,20 +229,26 @@ def run_study(study: Study, out_dir: str | Path, *, chunk_size: int | None = Non
     _write_manifest(out, study, chunk, done)
     n_chunks = (N + chunk - 1) // chunk
     todo = [c for c in range(n_chunks) if c not in done]
-    distributed = scheduler is not None or workers is not None or threshold < N
+    distributed = runs_on_dask(N, scheduler, workers, threshold)
     bar = _progress(N, sum(_size(c, chunk, N) for c in done), progress)
     ran = 0
     try:
         results: Iterator[tuple[int, pd.DataFrame]]
         if distributed and todo:
-            results = _dask_results(study, todo, chunk, scheduler, workers, batched)
+            results = _dask_results(study, todo, chunk, scheduler, workers, batched,
+                                    dashboard)
         else:
             results = ((c, _chunk_task(study, c * chunk, min(N, (c + 1) * chunk), batched))
                        for c in todo)
+        t0 = time.perf_counter()
         for cid, df in results:
+            t1 = time.perf_counter()
+            clock["evaluate"] += t1 - t0
             _write_chunk(out, cid, df)
             done.add(cid)
             _write_manifest(out, study, chunk, done)
+            t0 = time.perf_counter()
+            clock["chunks"] += t0 - t1
             ran += 1
             if bar is not None:
                 bar.update(len(df))
@@ -184,13 +257,17 @@ def run_study(study: Study, out_dir: str | Path, *, chunk_size: int | None = Non
     finally:
         if bar is not None:
             bar.close()
-    paths = _combine(out, n_chunks)
-    import pandas as pd
-
-    summary = _summary_streaming(study, out, n_chunks, pd)
+    t0 = time.perf_counter()
+    chunk_files = [_chunk_path(out, c) for c in range(n_chunks)]
+    paths = stream_results(chunk_files, out, formats)
+    t1 = time.perf_counter()
+    summary = _summary_streaming(study, chunk_files)
     write_json(out / "summary.json", summary)
     paths["summary"] = out / "summary.json"
-    return StudyRun(out, N, n_chunks, ran, paths, summary, distributed and bool(todo))
+    t2 = time.perf_counter()
+    clock.update(results=t1 - t0, summary=t2 - t1, total=t2 - t_start)
+    return StudyRun(out, N, n_chunks, ran, paths, summary, distributed and bool(todo),
+                    clock)
 
 
 def _size(cid: int, chunk: int, N: int) -> int:
@@ -209,7 +286,7 @@ def _progress(total: int, initial: int, show: bool | None) -> Any:
 
 
 def _dask_results(study: Study, todo: list[int], chunk: int, scheduler: str | None,
-                  workers: int | None, batched: bool | None
+                  workers: int | None, batched: bool | None, dashboard: str | None = None
                   ) -> Iterator[tuple[int, pd.DataFrame]]:
     """Evaluate chunks on dask; yields (chunk id, frame) as they finish."""
     from dask.distributed import Client, LocalCluster, as_completed
@@ -217,9 +294,9 @@ def _dask_results(study: Study, todo: list[int], chunk: int, scheduler: str | No
     N = study.n_variants
     cluster = None
     if scheduler is None:
-        n = workers or os.cpu_count() or 1
+        n = workers or usable_cpus()
         cluster = LocalCluster(n_workers=n, threads_per_worker=1, processes=True,
-                               host="127.0.0.1", dashboard_address=None)
+                               host="127.0.0.1", dashboard_address=dashboard)
         client = Client(cluster)
     else:
         client = Client(scheduler)
@@ -254,61 +331,19 @@ def _dask_results(study: Study, todo: list[int], chunk: int, scheduler: str | No
             cluster.close()
 
 
-def _chunk_frames(out: Path, n_chunks: int, pd: Any) -> Iterator[Any]:
-    for cid in range(n_chunks):
-        path = _chunk_path(out, cid)
+def _summary_streaming(study: Study, chunk_files: Sequence[Path]) -> dict[str, Any]:
+    """:func:`study_summary` over the chunks (only the columns it reads), one at a time."""
+    import pyarrow.parquet as pq
+
+    columns = ["variant", "valid", "ok", "worst_margin", *(q.path for q in study.quantities)]
+    best = None
+    counts = {"valid": 0, "passing": 0}
+    for path in chunk_files:
         if not path.is_file():
             raise ModelError(f"chunk file {path} is missing", field="--resume",
                              expected="run the study again with --resume")
-        yield pd.read_parquet(path)
-
-
-def _combine(out: Path, n_chunks: int) -> dict[str, Path]:
-    """Stream the chunk files into results.csv, .json and .parquet (variant order)."""
-    import pandas as pd
-    import pyarrow as pa
-    import pyarrow.parquet as pq
-
-    paths = {"csv": out / "results.csv", "json": out / "results.json",
-             "parquet": out / "results.parquet"}
-
-    def csv(fh: Any) -> None:
-        for k, df in enumerate(_chunk_frames(out, n_chunks, pd)):
-            fh.write(df.to_csv(index=False, header=k == 0).encode())
-
-    def js(fh: Any) -> None:
-        fh.write(b"[")
-        first = True
-        for df in _chunk_frames(out, n_chunks, pd):
-            for rec in frame_records(df):
-                fh.write((b"" if first else b",\n") + json.dumps(
-                    json_ready(rec), allow_nan=False).encode())
-                first = False
-        fh.write(b"]\n")
-
-    def parquet(fh: Any) -> None:
-        writer = None
-        for cid in range(n_chunks):
-            table = pq.read_table(_chunk_path(out, cid))
-            if writer is None:
-                writer = pq.ParquetWriter(fh, table.schema)
-            writer.write_table(table.cast(writer.schema))
-        if writer is not None:
-            writer.close()
-        else:
-            pq.write_table(pa.table({}), fh)
-
-    atomic_write(paths["csv"], csv)
-    atomic_write(paths["json"], js)
-    atomic_write(paths["parquet"], parquet)
-    return paths
-
-
-def _summary_streaming(study: Study, out: Path, n_chunks: int, pd: Any) -> dict[str, Any]:
-    """:func:`study_summary` over the chunks without holding them all."""
-    best = None
-    counts = {"valid": 0, "passing": 0}
-    for df in _chunk_frames(out, n_chunks, pd):
+        have = set(pq.read_schema(path).names)
+        df = pq.read_table(path, columns=[c for c in columns if c in have]).to_pandas()
         s = study_summary(study, df)
         counts["valid"] += s["valid"]
         counts["passing"] += s["passing"]
