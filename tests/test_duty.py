@@ -289,3 +289,19 @@ def test_two_d_bins_split_by_speed(reducer) -> None:  # type: ignore[no-untyped-
     speeds = sorted(c.speed_rpm for c in duty_cases(red))
     assert speeds == pytest.approx([700.0, 1460.0], rel=1e-12)
     assert sum(c.revs for c in red.cases) == pytest.approx(red.revs, rel=1e-12)
+
+
+def test_table_path_matches_exact_evaluation(reducer) -> None:  # type: ignore[no-untyped-def]
+    """Large chunks take P^p from an exact table over the torque range (linear
+    interpolation, 16 385 points); small chunks evaluate every sample exactly. Both
+    give the same direct equivalent loads within the stated bound, which is small
+    (common practice, no source: a table is checked against the function it tabulates).
+    """
+    t, T, n = _smooth_series(12_000.0)
+    assert t.size > 2 * 16385 * 2
+    big = reduce_duty(reducer, chunked(t, T, n, size=t.size), BinSettings(torque_bins=4))
+    small = reduce_duty(reducer, chunked(t, T, n, size=30_000), BinSettings(torque_bins=4))
+    for a, b in zip(big.errors, small.errors, strict=True):
+        assert abs(a.P_direct_N / b.P_direct_N - 1.0) <= big.interpolation_error
+    assert 0.0 < big.interpolation_error < 1e-6
+    assert small.interpolation_error == 0.0

@@ -45,6 +45,8 @@ Chunks = Callable[[], Iterable[tuple[np.ndarray, np.ndarray, np.ndarray]]]
 
 #: relative miss of the affine prediction above which the direct integral is flagged
 AFFINE_TOLERANCE = 1e-6
+#: relative miss of the P(T) table of the direct integral above which it is flagged
+INTERPOLATION_TOLERANCE = 1e-6
 #: probe torques as fractions of the region's largest |T|; the middle one checks
 PROBES = (1.0 / 3.0, 2.0 / 3.0, 1.0)
 
@@ -77,6 +79,7 @@ class DutyReduction:
     ``cases``: the generated cases; ``model``: the model with them; ``result``: its
     analysis (``None`` with ``analyse_model=False``); ``errors``: binned vs direct per
     bearing; ``affine_mismatch``: largest relative miss of the superposition check;
+    ``interpolation_error``: largest relative miss of the direct integral's P(T) table;
     ``time_s``, ``revs``, ``samples``: totals of the series; ``warnings``: texts.
     """
 
@@ -85,6 +88,7 @@ class DutyReduction:
     result: Result | None
     errors: tuple[BearingDutyError, ...]
     affine_mismatch: float
+    interpolation_error: float
     time_s: float
     revs: float
     samples: int
@@ -224,7 +228,9 @@ def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
     affine = probe_affine(model, tmpl, scan)
     bins = BinAccumulator(scan, settings)
     pairs = [(s.id, b) for s in model.shafts for b in s.bearings]
-    direct = DirectIntegral(pairs, affine, scan.standstill_rpm,
+    ranges = {r: (float(scan.T_min_Nmm[r]), float(scan.T_max_Nmm[r]))
+              for r in scan.regions()}
+    direct = DirectIntegral(pairs, affine, scan.standstill_rpm, ranges,
                             model.life.application_factor)
     for dt, T, n in chunks():
         bins.add(dt, T, n)
@@ -239,6 +245,9 @@ def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
                         f"{affine.mismatch:.2g} of the largest load at the check probe): "
                         "the direct integral is approximate (speed-dependent loads such "
                         "as unbalance are taken at each sign region's mean speed)")
+    if direct.interpolation_error > INTERPOLATION_TOLERANCE:
+        warnings.append(f"the direct integral's table of P over the torque may miss Pm "
+                        f"by up to {direct.interpolation_error:.2g} (relative)")
     if result is not None:
         Pd = direct.equivalent_loads_N()
         nm = direct.bearing_mean_speeds_rpm()
@@ -262,6 +271,7 @@ def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
                                 f"more than the tolerance {tolerance_pct:g} %: use more "
                                 "bins")
     return DutyReduction(tuple(cases), reduced, result, tuple(errors), affine.mismatch,
+                         direct.interpolation_error,
                          scan.time_s, scan.revs, scan.samples, tmpl.id, tuple(warnings))
 
 

@@ -135,6 +135,8 @@ def error_table(red: Any) -> str:
         rows.append(f"{e.bearing:<12} {e.exponent:>5.3g} {e.P_cases_N:>11.5g} "
                     f"{e.P_direct_N:>11.5g} {e.P_error_pct:>+8.3f} {e.L10_cases_h:>12.5g} "
                     f"{e.L10_direct_h:>12.5g} {e.L10_error_pct:>+8.3f}")
+    rows.append(f"direct integral: loads superposed from probe solves (affine check miss "
+                f"{red.affine_mismatch:.2g}), P^p table bound {red.interpolation_error:.2g}")
     return "\n".join(rows)
 
 

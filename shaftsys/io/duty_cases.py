@@ -73,6 +73,7 @@ def reduction_dict(red: DutyReduction, series: str) -> dict[str, Any]:
         "revolutions": red.revs,
         "template_case": red.template,
         "affine_mismatch": red.affine_mismatch,
+        "interpolation_error": red.interpolation_error,
         "cases": [{"id": c.id, "kind": c.kind, "region": c.region,
                    "torque_Nmm": c.torque_Nmm, "speed_rpm": c.speed_rpm,
                    "time_h": c.time_s / 3600.0, "revolutions": c.revs, "share": c.share,
