@@ -26,22 +26,19 @@ DUTY_EPILOG = """worked example (the bundled reducer and an invented conveyor re
   model with these cases (its own duty cases are replaced, its peak and static cases
   kept; the first duty case, or --template, gives the input element and output shares),
   and prints for every bearing the equivalent load and basic life from the cases against
-  the direct integral of P^p over the raw samples.
-
-exit codes:
-  0  every check passes on the generated cases
-  1  a target or limit is missed
-  2  bad input (file, line and column named)
-  3  numerical failure"""
+  the direct integral of P^p over the raw samples."""
 
 
-def add_duty_parser(subparsers: Any) -> argparse.ArgumentParser:
-    """Add the ``duty`` sub-command to an argparse sub-parsers object."""
+def add_duty_parser(subparsers: Any, exit_codes: str = "") -> argparse.ArgumentParser:
+    """Add the ``duty`` sub-command to an argparse sub-parsers object (``exit_codes``:
+    the command line's exit-code text, appended to the help's example).
+    """
     p: argparse.ArgumentParser = subparsers.add_parser(
         "duty", help="turn a recorded torque/speed series into cases and check them",
         description="Reduce a measured duty (CSV or Parquet: time, torque or power, speed) "
         "to operating cases, state the reduction error per bearing, run the checks.",
-        epilog=DUTY_EPILOG, formatter_class=argparse.RawDescriptionHelpFormatter)
+        epilog=DUTY_EPILOG + ("\n\n" + exit_codes if exit_codes else ""),
+        formatter_class=argparse.RawDescriptionHelpFormatter)
     p.add_argument("model", help="model file (YAML)")
     p.add_argument("series", help="recording (.csv, .parquet)")
     for role in ("time", "torque", "power", "speed"):

@@ -203,7 +203,7 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
     # ---- recorded duty -------------------------------------------------------------
     from shaftsys.cli.duty import add_duty_parser, run_duty
 
-    add_duty_parser(sub)
+    add_duty_parser(sub, EXIT_CODES_TEXT)
     handlers["duty"] = run_duty
     return p, handlers
 
