@@ -190,3 +190,31 @@ def test_demo_recording_end_to_end(tmp_path: Path) -> None:
         assert word in proc.stdout
     assert "the time stamps jump" in proc.stderr
     assert fig.stat().st_size > 1000
+
+
+def test_temperature_channel_in_degF(tmp_path: Path, capsys: pytest.CaptureFixture[str]
+                                     ) -> None:
+    """A temperature column in degF: each case takes the time-mean temperature of its
+    bin, converted as an absolute temperature (degC = (degF - 32) * 5/9, hand-derived),
+    and the fragment carries it; a temperature column in a wrong unit is refused."""
+    rows = []
+    for i in range(400):
+        hot = i >= 200
+        rows.append(f"{0.5 * i:g},{90 if hot else 40},1460,{176 if hot else 122}")
+    p = write_csv(tmp_path / "r.csv", "time,torque,speed,oil_temperature",
+                  ["s,N*m,rpm,degF", *rows])          # units in a units row
+    frag, js = tmp_path / "cases.yaml", tmp_path / "out.json"
+    code, _, err = run(["duty", str(REDUCER), str(p), "--bins", "4", "--write", str(frag),
+                        "--json", str(js)], capsys)
+    assert code in (0, 1), err
+    cases = {round(c["torque_Nmm"]): c for c in
+             json.loads(js.read_text())["duty_reduction"]["cases"] if c["kind"] == "duty"}
+    assert cases[40000]["temperature_C"] == pytest.approx((122 - 32) * 5 / 9, rel=1e-12)
+    assert cases[90000]["temperature_C"] == pytest.approx((176 - 32) * 5 / 9, rel=1e-12)
+    written = yaml.safe_load(frag.read_text())["cases"]
+    temps = sorted(float(c["temperature"].split()[0]) for c in written)
+    assert temps == pytest.approx([50.0, 80.0], rel=1e-12)
+    bad = write_csv(tmp_path / "bad.csv", "time [s],torque [N*m],speed [rpm],temp [bar]",
+                    ["0,50,1460,1", "1,50,1460,1"])
+    code, _, err = run(["duty", str(REDUCER), str(bad)], capsys)
+    assert code == 2 and "bad.csv:1" in err and "temp [bar]" in err

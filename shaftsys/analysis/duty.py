@@ -41,7 +41,7 @@ from shaftsys.analysis.solve import solve_model
 from shaftsys.errors import ModelError
 from shaftsys.model import Case, CaseKind, Model
 
-Chunks = Callable[[], Iterable[tuple[np.ndarray, np.ndarray, np.ndarray]]]
+Chunks = Callable[[], Iterable[tuple[np.ndarray, ...]]]
 
 #: relative miss of the affine prediction above which the direct integral is flagged
 AFFINE_TOLERANCE = 1e-6
@@ -123,18 +123,18 @@ def template_case(model: Model, case_id: str | None) -> Case:
 
 
 def _case(template: Case, cid: str, kind: CaseKind, share: float, T_Nmm: float,
-          n_rpm: float) -> Case:
+          n_rpm: float, temperature_C: float = math.nan) -> Case:
     (sid, drive), = template.drives.items()
+    temp = temperature_C if math.isfinite(temperature_C) else template.temperature_C
     return Case(id=cid, kind=kind, duration=share,
                 drives={sid: replace(drive, speed_rpm=n_rpm, input_torque_Nmm=T_Nmm)},
-                loads=template.loads, temperature_C=template.temperature_C,
-                line=template.line)
+                loads=template.loads, temperature_C=temp, line=template.line)
 
 
 def model_with_cases(model: Model, template: Case, cases: Iterable[DutyCase]) -> Model:
     """``model`` with its duty cases replaced by ``cases`` (its peak/static cases kept)."""
-    generated = [_case(template, c.id, CaseKind(c.kind), c.share, c.torque_Nmm, c.speed_rpm)
-                 for c in cases]
+    generated = [_case(template, c.id, CaseKind(c.kind), c.share, c.torque_Nmm, c.speed_rpm,
+                       c.temperature_C) for c in cases]
     kept = [c for c in model.cases if c.kind is not CaseKind.DUTY]
     clash = {c.id for c in generated} & {c.id for c in kept}
     if clash:
@@ -207,7 +207,9 @@ def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
     """Reduce a time series to cases, analyse the model with them, state the error.
 
     ``chunks()`` yields ``(dt_s, T_Nmm, n_rpm)`` (sample durations [s], input torques
-    [N*mm], speeds of the input element's shaft [rpm]); it is called twice.
+    [N*mm], speeds of the input element's shaft [rpm]), optionally a fourth array of
+    temperatures [degC] (each case then takes its bin's time-mean temperature); it is
+    called twice.
     ``tolerance_pct``: a larger |difference| of equivalent load between cases and direct
     integral adds a warning. Raises :class:`ModelError` when the series never turns.
     """
@@ -218,7 +220,7 @@ def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
     tmpl = template_case(model, template)
     standstill = max(model.life.min_speed_rpm, 0.0)
     scan = SeriesScan(standstill_rpm=standstill if standstill > 0 else 1e-12)
-    for dt, T, n in chunks():
+    for dt, T, n, *_ in chunks():
         scan.add(dt, T, n)
     if scan.revs <= 0.0:
         raise ModelError(f"{series_name} never turns: no sample is at or above "
@@ -232,8 +234,8 @@ def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
               for r in scan.regions()}
     direct = DirectIntegral(pairs, affine, scan.standstill_rpm, ranges,
                             model.life.application_factor)
-    for dt, T, n in chunks():
-        bins.add(dt, T, n)
+    for dt, T, n, *extra in chunks():
+        bins.add(dt, T, n, extra[0] if extra else None)
         direct.add(dt, T, n)
     cases = bins.cases(prefix)
     reduced = model_with_cases(model, tmpl, cases)

@@ -162,6 +162,7 @@ class DutyCase:
     samples: int
     T_lo_Nmm: float = math.nan
     T_hi_Nmm: float = math.nan
+    temperature_C: float = math.nan
 
 
 class BinAccumulator:
@@ -186,14 +187,20 @@ class BinAccumulator:
         self.revs = np.zeros(size)
         self.sum_Tp = np.zeros(size)
         self.count = np.zeros(size, dtype=np.int64)
+        self.temp_time = np.zeros(size)
+        self.has_temperature = False
+        self.still_temp_time = 0.0
         self.still_time = 0.0
         self.still_T_time = 0.0
         self.still_count = 0
         self.peak_T = np.full(4, -np.inf)
         self.peak_n = np.zeros(4)
 
-    def add(self, dt_s: FloatArray, T_Nmm: FloatArray, n_rpm: FloatArray) -> None:
-        """Add a chunk of samples (durations [s], torques [N*mm], speeds [rpm])."""
+    def add(self, dt_s: FloatArray, T_Nmm: FloatArray, n_rpm: FloatArray,
+            temperature_C: FloatArray | None = None) -> None:
+        """Add a chunk of samples (durations [s], torques [N*mm], speeds [rpm], optional
+        temperatures [degC]).
+        """
         aT, an = np.abs(T_Nmm), np.abs(n_rpm)
         run = an >= self.scan.standstill_rpm
         reg = region_codes(T_Nmm, n_rpm)
@@ -214,6 +221,10 @@ class BinAccumulator:
         self.sum_Tp += np.bincount(i, rev * aT[run] ** p, minlength=size)
         self.count += np.bincount(i, minlength=size)
         still = ~run
+        if temperature_C is not None:
+            self.has_temperature = True
+            self.temp_time += np.bincount(i, t * temperature_C[run], minlength=size)
+            self.still_temp_time += float((dt_s[still] * temperature_C[still]).sum())
         self.still_time += float(dt_s[still].sum())
         self.still_T_time += float((dt_s[still] * T_Nmm[still]).sum())
         self.still_count += int(still.sum())
@@ -243,13 +254,17 @@ class BinAccumulator:
                 id=f"{prefix}_{name}_{suffix}", kind="duty", region=name,
                 torque_Nmm=sT * T_rep, speed_rpm=sn * n_rep, time_s=float(self.time[j]),
                 revs=revs, share=float(self.time[j]) / total, samples=int(self.count[j]),
-                T_lo_Nmm=float(self.T_edges[r][kt]), T_hi_Nmm=float(self.T_edges[r][kt + 1])))
+                T_lo_Nmm=float(self.T_edges[r][kt]), T_hi_Nmm=float(self.T_edges[r][kt + 1]),
+                temperature_C=(float(self.temp_time[j] / self.time[j])
+                               if self.has_temperature else math.nan)))
         if self.still_count:
             out.append(DutyCase(
                 id=f"{prefix}_standstill", kind="duty", region="standstill",
                 torque_Nmm=self.still_T_time / self.still_time if self.still_time else 0.0,
                 speed_rpm=0.0, time_s=self.still_time, revs=0.0,
-                share=self.still_time / total, samples=self.still_count))
+                share=self.still_time / total, samples=self.still_count,
+                temperature_C=(self.still_temp_time / self.still_time
+                               if self.has_temperature and self.still_time else math.nan)))
         for r in range(4):
             if math.isfinite(self.peak_T[r]):
                 name, sT, _ = REGIONS[r]

@@ -41,7 +41,7 @@ def add_duty_parser(subparsers: Any, exit_codes: str = "") -> argparse.ArgumentP
         formatter_class=argparse.RawDescriptionHelpFormatter)
     p.add_argument("model", help="model file (YAML)")
     p.add_argument("series", help="recording (.csv, .parquet)")
-    for role in ("time", "torque", "power", "speed"):
+    for role in ("time", "torque", "power", "speed", "temperature"):
         p.add_argument(f"--{role}", metavar="COLUMN", help=f"name of the {role} column")
     p.add_argument("--bins", type=int, default=16, metavar="N",
                    help="torque bins per sign region (default 16)")
@@ -147,7 +147,8 @@ def run_duty(args: argparse.Namespace) -> int:
     model = load_model(args.model)
     settings = _settings(args, model)
     source = open_series(args.series, time=args.time, torque=args.torque,
-                         power=args.power, speed=args.speed, chunk_rows=args.chunk)
+                         power=args.power, speed=args.speed,
+                         temperature=args.temperature, chunk_rows=args.chunk)
     red = reduce_duty(model, source.chunks, settings, template=args.template,
                       prefix=args.prefix, tolerance_pct=args.tolerance,
                       series_name=source.name)

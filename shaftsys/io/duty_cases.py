@@ -21,7 +21,7 @@ def _q(value: float, unit: str) -> str:
 
 
 def _case_lines(c_id: str, kind: str, share: float, T_Nmm: float, n_rpm: float,
-                template: Case, note: str) -> list[str]:
+                template: Case, note: str, temperature_C: float = math.nan) -> list[str]:
     (_, drive), = template.drives.items()
     outputs = ", ".join(f"{k}: {v:.10g}" for k, v in drive.outputs)
     lines = [f"  - id: {c_id}                 # {note}"]
@@ -32,8 +32,9 @@ def _case_lines(c_id: str, kind: str, share: float, T_Nmm: float, n_rpm: float,
     lines += [f"    speed: {_q(n_rpm, 'rpm')}",
               f"    input: {{element: {drive.input_element}, torque: {_q(T_Nmm / 1000.0, 'N*m')}}}",
               f"    outputs: {{{outputs}}}"]
-    if not math.isnan(template.temperature_C):
-        lines.append(f"    temperature: {template.temperature_C:.10g} degC")
+    temp = temperature_C if math.isfinite(temperature_C) else template.temperature_C
+    if not math.isnan(temp):
+        lines.append(f"    temperature: {float(temp)!r} degC")
     if template.loads:
         lines.append("    loads:")
         for ld in template.loads:
@@ -60,7 +61,8 @@ def cases_fragment_text(red: DutyReduction, series: str, template: Case) -> str:
         else:
             note = (f"{c.region}, |T| {c.T_lo_Nmm / 1000:.4g}..{c.T_hi_Nmm / 1000:.4g} N*m, "
                     f"{c.time_s / 3600.0:.4g} h, {c.revs:.4g} rev")
-        out += _case_lines(c.id, c.kind, c.share, c.torque_Nmm, c.speed_rpm, template, note)
+        out += _case_lines(c.id, c.kind, c.share, c.torque_Nmm, c.speed_rpm, template, note,
+                           c.temperature_C)
     return "\n".join(out) + "\n"
 
 
@@ -77,7 +79,8 @@ def reduction_dict(red: DutyReduction, series: str) -> dict[str, Any]:
         "cases": [{"id": c.id, "kind": c.kind, "region": c.region,
                    "torque_Nmm": c.torque_Nmm, "speed_rpm": c.speed_rpm,
                    "time_h": c.time_s / 3600.0, "revolutions": c.revs, "share": c.share,
-                   "samples": c.samples, "T_lo_Nmm": c.T_lo_Nmm, "T_hi_Nmm": c.T_hi_Nmm}
+                   "samples": c.samples, "T_lo_Nmm": c.T_lo_Nmm, "T_hi_Nmm": c.T_hi_Nmm,
+                   "temperature_C": c.temperature_C}
                   for c in red.cases],
         "reduction_error": [{"shaft": e.shaft, "bearing": e.bearing, "p": e.exponent,
                              "P_cases_N": e.P_cases_N, "P_direct_N": e.P_direct_N,

@@ -37,7 +37,7 @@ from shaftsys.io.quantities import QuantityProblem, to_internal
 _log = logging.getLogger(__name__)
 
 FloatArray = npt.NDArray[np.float64]
-Chunk = tuple[FloatArray, FloatArray, FloatArray]
+Chunk = tuple[FloatArray, ...]
 
 #: role -> (accepted bare names, dimension of shaftsys.io.quantities, example)
 ROLES: dict[str, tuple[tuple[str, ...], str, str]] = {
@@ -45,6 +45,8 @@ ROLES: dict[str, tuple[tuple[str, ...], str, str]] = {
     "torque": (("torque", "t_in", "torque_in"), "moment", "torque [N*m]"),
     "power": (("power", "p_in", "power_in"), "power", "power [kW]"),
     "speed": (("speed", "n", "n_in", "speed_in"), "speed", "speed [rpm]"),
+    "temperature": (("temperature", "temp", "oil_temperature"), "temperature",
+                    "temperature [degC]"),
 }
 _HEADER = re.compile(r"^\s*(.*?)\s*[\[(]\s*(.*?)\s*[\])]\s*$")
 DEFAULT_CHUNK_ROWS = 1_000_000
@@ -60,19 +62,22 @@ def split_header(text: str) -> tuple[str, str | None]:
     return text.strip(), None
 
 
-def _factor(unit: str, role: str) -> float:
-    """Internal units per unit of ``role`` (time in s, torque N*mm, power W, speed rpm)."""
+def _factor(unit: str, role: str) -> tuple[float, float]:
+    """(offset, factor) to the internal unit of ``role`` (time in s, torque N*mm, power W,
+    speed rpm, temperature degC: an absolute temperature, so an offset for K and degF).
+    """
     dimension = ROLES[role][1]
-    value = to_internal(f"1 {unit}", dimension)
-    return value * 3600.0 if role == "time" else value
+    zero = to_internal(f"0 {unit}", dimension) if role == "temperature" else 0.0
+    value = to_internal(f"1 {unit}", dimension) - zero
+    return zero, (value * 3600.0 if role == "time" else value)
 
 
 @dataclass
 class SeriesSource:
     """An opened recording: which column plays which role, in which unit.
 
-    ``columns``: role -> column name in the file; ``factors``: role -> factor to the
-    internal unit (time to s); ``data_line``: 1-based line of the first data row (CSV);
+    ``columns``: role -> column name in the file; ``factors``: role -> (offset, factor)
+    to the internal unit (time to s); ``data_line``: 1-based line of the first data row (CSV);
     ``gaps``: warnings about gaps found (filled on the first pass).
     """
 
@@ -80,7 +85,7 @@ class SeriesSource:
     kind: str
     columns: dict[str, str]
     units: dict[str, str]
-    factors: dict[str, float]
+    factors: dict[str, tuple[float, float]]
     data_line: int
     chunk_rows: int = DEFAULT_CHUNK_ROWS
     gap_factor: float = DEFAULT_GAP_FACTOR
@@ -137,15 +142,19 @@ class SeriesSource:
                                                        math.isnan(cell)) else f"'{cell}'"
             raise self._error(offset + i, role, f"{text} is not a finite number",
                               f"a number in {self.units[role]} in every row")
-        return arr * self.factors[role]
+        zero, factor = self.factors[role]
+        return zero + arr * factor if zero else arr * factor
 
     def chunks(self) -> Iterator[Chunk]:
-        """Yield ``(dt_s, T_Nmm, n_rpm)`` per chunk (durations by the midpoint rule)."""
+        """Yield ``(dt_s, T_Nmm, n_rpm)`` per chunk (durations by the midpoint rule), and
+        the temperature [degC] as a fourth array when the recording has one.
+        """
         self._passes += 1
         first_pass = self._passes == 1
         offset = 0
         left_t: float | None = None     # time of the sample before the carried one
-        carry: tuple[float, float, float] | None = None
+        carry: tuple[float, ...] | None = None
+        with_temp = "temperature" in self.columns
         median: float | None = None
         for raw in self._raw():
             t = self._numbers(raw, "time", offset)
@@ -162,6 +171,7 @@ class SeriesSource:
                                       "power != 0")
                 with np.errstate(divide="ignore", invalid="ignore"):
                     T = np.where(n != 0.0, P / (2.0 * math.pi * n / 60.0) * 1000.0, 0.0)
+            th = self._numbers(raw, "temperature", offset) if with_temp else np.zeros(t.size)
             size = t.size
             if size == 0:
                 continue
@@ -169,6 +179,7 @@ class SeriesSource:
                 t = np.concatenate([[carry[0]], t])
                 T = np.concatenate([[carry[1]], T])
                 n = np.concatenate([[carry[2]], n])
+                th = np.concatenate([[carry[3]], th])
             base = offset - (1 if carry is not None else 0)   # row of t[0]
             left = np.empty(t.size)
             left[1:] = np.diff(t)
@@ -199,16 +210,17 @@ class SeriesSource:
                         _log.warning(self.gaps[-1])
             if t.size >= 2:
                 dur = 0.5 * (left[:-1] + left[1:])
-                yield dur, T[:-1], n[:-1]
+                yield (dur, T[:-1], n[:-1], th[:-1]) if with_temp else (dur, T[:-1], n[:-1])
                 left_t = float(t[-2])
-            carry = (float(t[-1]), float(T[-1]), float(n[-1]))
+            carry = (float(t[-1]), float(T[-1]), float(n[-1]), float(th[-1]))
             offset += size
         if carry is None or left_t is None:
             raise ModelError("the recording has fewer than two samples", file=self.name,
                              field=f"column '{self.columns['time']}'",
                              expected="at least two rows of data")
-        yield (np.array([0.5 * (carry[0] - left_t)]), np.array([carry[1]]),
-               np.array([carry[2]]))
+        last = (np.array([0.5 * (carry[0] - left_t)]), np.array([carry[1]]),
+                np.array([carry[2]]))
+        yield (*last, np.array([carry[3]])) if with_temp else last
 
 
 def _find_columns(path: Path, header: list[str], given: dict[str, str | None],
@@ -253,17 +265,19 @@ def _find_columns(path: Path, header: list[str], given: dict[str, str | None],
 
 def open_series(path: str | Path, *, time: str | None = None, torque: str | None = None,
                 power: str | None = None, speed: str | None = None,
-                chunk_rows: int = DEFAULT_CHUNK_ROWS,
+                temperature: str | None = None, chunk_rows: int = DEFAULT_CHUNK_ROWS,
                 gap_factor: float = DEFAULT_GAP_FACTOR) -> SeriesSource:
     """Open a recording (``.csv`` or ``.parquet``/``.pq``), find its columns and units.
 
     The keyword arguments name columns (the header text or its name without the unit);
-    by default ``time``/``t``, ``torque`` or ``power``, ``speed``/``n``.
+    by default ``time``/``t``, ``torque`` or ``power``, ``speed``/``n`` and, optional,
+    ``temperature``/``temp`` (then each case gets the time-mean temperature of its bin).
     """
     p = Path(path)
     if not p.is_file():
         raise ModelError("no such file", file=str(p), expected="a CSV or Parquet recording")
-    given = {"time": time, "torque": torque, "power": power, "speed": speed}
+    given = {"time": time, "torque": torque, "power": power, "speed": speed,
+             "temperature": temperature}
     units_row: list[str] | None = None
     if p.suffix.lower() in (".parquet", ".pq"):
         kind = "parquet"
@@ -296,7 +310,7 @@ def open_series(path: str | Path, *, time: str | None = None, torque: str | None
             units_row = second
     columns = _find_columns(p, header, given, line)
     units: dict[str, str] = {}
-    factors: dict[str, float] = {}
+    factors: dict[str, tuple[float, float]] = {}
     for role, col in columns.items():
         _, unit = split_header(col)
         uline = line
