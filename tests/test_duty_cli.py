@@ -218,3 +218,16 @@ def test_temperature_channel_in_degF(tmp_path: Path, capsys: pytest.CaptureFixtu
                     ["0,50,1460,1", "1,50,1460,1"])
     code, _, err = run(["duty", str(REDUCER), str(bad)], capsys)
     assert code == 2 and "bad.csv:1" in err and "temp [bar]" in err
+
+
+def test_refused_generated_case_names_its_bin(tmp_path: Path,
+                                              capsys: pytest.CaptureFixture[str]) -> None:
+    """A generated case the life engine refuses (slow running far outside the oil's
+    range: kappa below ISO 281's 0.1) is exit 2, and the message says which bin of the
+    recording made it and how to bin otherwise (common practice, no source)."""
+    rows = [f"{0.5 * i:g},{200 if i < 20 else 60},{60 if i < 20 else 1460}"
+            for i in range(400)]
+    p = write_csv(tmp_path / "slow.csv", "time [s],torque [N*m],speed [rpm]", rows)
+    code, _, err = run(["duty", str(REDUCER), str(p), "--bins", "4"], capsys)
+    assert code == 2
+    assert "was made from" in err and "slow.csv" in err and "--speed-bins" in err

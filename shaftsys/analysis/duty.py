@@ -239,7 +239,18 @@ def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
         direct.add(dt, T, n)
     cases = bins.cases(prefix)
     reduced = model_with_cases(model, tmpl, cases)
-    result = analyse(reduced) if analyse_model else None
+    try:
+        result = analyse(reduced) if analyse_model else None
+    except ModelError as exc:
+        hit = next((c for c in cases if f"'{c.id}'" in exc.message), None)
+        if hit is None:
+            raise
+        raise ModelError(
+            f"{exc.message} - case '{hit.id}' was made from {series_name} ({hit.region}, "
+            f"{hit.torque_Nmm / 1000:.4g} N*m at {hit.speed_rpm:.5g} rpm, "
+            f"{hit.samples} samples)", file=exc.file, line=exc.line, field=exc.field,
+            expected=(exc.expected or "valid cases") + "; or other bins (--bins, "
+            "--speed-bins to keep slow running apart)", case=exc.case) from None
     errors: list[BearingDutyError] = []
     warnings: list[str] = []
     if affine.mismatch > AFFINE_TOLERANCE:
