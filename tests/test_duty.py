@@ -305,3 +305,44 @@ def test_table_path_matches_exact_evaluation(reducer) -> None:  # type: ignore[n
         assert abs(a.P_direct_N / b.P_direct_N - 1.0) <= big.interpolation_error
     assert 0.0 < big.interpolation_error < 1e-6
     assert small.interpolation_error == 0.0
+
+
+FAN = ROOT / "models" / "fan_drive.yaml"
+
+
+def test_process_load_channel_superposed_like_one_solve_per_sample() -> None:
+    """A recorded impeller thrust (a process-load channel, Fx of 'impeller_thrust')
+    varying independently of the torque: the direct integral superposes one more probe
+    per channel (loads affine in torque and thrust) and must equal the life engine with
+    every sample its own case, each solved in full (ISO 281 Palmgren-Miner in the
+    engine); the binned cases carry the revolution-weighted mean thrust of their bin
+    (hand-computed here).
+    """
+    fan = shaftsys.load_model(str(FAN))
+    rng = np.random.default_rng(11)
+    t = np.cumsum(rng.uniform(0.5, 1.5, 150))
+    T = (110 + 20 * rng.standard_normal(t.size)) * 1e3
+    n = np.full(t.size, 1480.0)
+    F = -1400.0 + 300.0 * rng.standard_normal(t.size)
+    dt = midpoint_durations(t)
+
+    def chunks() -> Iterator[tuple[np.ndarray, ...]]:
+        yield dt, T, n, F[None, :]
+
+    targets = [("impeller_thrust", 0)]
+    red = reduce_duty(fan, chunks, BinSettings(torque_bins=3), channels=("load",),
+                      load_targets=targets)
+    per_sample = [DutyCase(f"s{i}", "duty", "x", float(T[i]), float(n[i]), float(dt[i]),
+                           0.0, float(dt[i] / dt.sum()), 1, loads_N=(float(F[i]),))
+                  for i in range(t.size)]
+    tmpl = template_case(fan, None)
+    result = shaftsys.analyse(model_with_cases(fan, tmpl, per_sample, targets))
+    direct = {e.bearing: e for e in red.errors}
+    for b in result.bearings:
+        assert direct[b.bearing.id].P_direct_N == pytest.approx(b.life.P_eq_N, rel=1e-9)
+    case = duty_cases(red)[0]
+    lo, hi = case.T_lo_Nmm, case.T_hi_Nmm
+    inside = (np.abs(T) >= lo) & (np.abs(T) < hi)
+    rev = n * dt / 60.0
+    assert case.loads_N[0] == pytest.approx(
+        float((rev[inside] * F[inside]).sum() / rev[inside].sum()), rel=1e-12)

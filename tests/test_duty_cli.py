@@ -231,3 +231,25 @@ def test_refused_generated_case_names_its_bin(tmp_path: Path,
     code, _, err = run(["duty", str(REDUCER), str(p), "--bins", "4"], capsys)
     assert code == 2
     assert "was made from" in err and "slow.csv" in err and "--speed-bins" in err
+
+
+def test_load_channel_option(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    """--load COLUMN=ELEMENT.Fx: the recorded force sets that process-load component in
+    every generated case (a level series comes back as its level; common practice, no
+    source) and is written into the fragment; a non-load element is refused (exit 2)."""
+    fan = ROOT / "models" / "fan_drive.yaml"
+    rows = [f"{0.5 * i:g},{100 if i < 200 else 60},1480,{-1500 if i < 200 else -700}"
+            for i in range(400)]
+    p = write_csv(tmp_path / "r.csv", "time [s],torque [N*m],speed [rpm],thrust [kN]",
+                  [r.replace(r.rsplit(",", 1)[1], str(float(r.rsplit(",", 1)[1]) / 1000))
+                   for r in rows])
+    frag = tmp_path / "cases.yaml"
+    code, _, err = run(["duty", str(fan), str(p), "--load", "thrust=impeller_thrust.Fx",
+                        "--bins", "4", "--write", str(frag)], capsys)
+    assert code in (0, 1), err
+    written = {c["id"]: c for c in yaml.safe_load(frag.read_text())["cases"]}
+    thrusts = sorted(float(c["loads"]["impeller_thrust"]["force"][0].split()[0])
+                     for c in written.values())
+    assert thrusts == pytest.approx([-1500.0, -700.0], rel=1e-12)
+    code, _, err = run(["duty", str(fan), str(p), "--load", "thrust=pulley.Fx"], capsys)
+    assert code == 2 and "'pulley' is not a process-load element" in err

@@ -18,7 +18,7 @@ equivalent load and basic life from the cases is compared with the direct integr
 from __future__ import annotations
 
 import math
-from collections.abc import Callable, Iterable
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass, replace
 
 import numpy as np
@@ -39,7 +39,7 @@ from shaftsys.analysis.pipeline import analyse
 from shaftsys.analysis.results import Result
 from shaftsys.analysis.solve import solve_model
 from shaftsys.errors import ModelError
-from shaftsys.model import Case, CaseKind, Model
+from shaftsys.model import Case, CaseKind, ElementLoad, Model, ProcessLoad
 
 Chunks = Callable[[], Iterable[tuple[np.ndarray, ...]]]
 
@@ -47,6 +47,8 @@ Chunks = Callable[[], Iterable[tuple[np.ndarray, ...]]]
 AFFINE_TOLERANCE = 1e-6
 #: relative miss of the P(T) table of the direct integral above which it is flagged
 INTERPOLATION_TOLERANCE = 1e-6
+#: process-load channel value of its probe solve [N]
+LOAD_PROBE_N = 1000.0
 #: probe torques as fractions of the region's largest |T|; the middle one checks
 PROBES = (1.0 / 3.0, 2.0 / 3.0, 1.0)
 
@@ -96,6 +98,19 @@ class DutyReduction:
     warnings: tuple[str, ...]
 
 
+def _check_targets(model: Model, targets: Sequence[LoadTarget]) -> None:
+    loads = {e.id for s in model.shafts for e in s.elements if isinstance(e, ProcessLoad)}
+    for element, axis in targets:
+        if element not in loads:
+            raise ModelError(f"'{element}' is not a process-load element of the model",
+                             file=model.source, field="--load",
+                             expected="one of: " + (", ".join(sorted(loads)) or
+                                                    "(no element of type load)"))
+        if axis not in (0, 1, 2):
+            raise ModelError(f"force component {axis}", field="--load",
+                             expected="Fx, Fy or Fz")
+
+
 def template_case(model: Model, case_id: str | None) -> Case:
     """The model's case whose input element and output shares the generated cases take."""
     duty = [c for c in model.cases if c.kind is CaseKind.DUTY]
@@ -122,19 +137,43 @@ def template_case(model: Model, case_id: str | None) -> Case:
     return case
 
 
+#: (process-load element id, force component 0 = Fx, 1 = Fy, 2 = Fz) of a load channel
+LoadTarget = tuple[str, int]
+
+
+def case_loads(template: Case, targets: Sequence[LoadTarget], values: Sequence[float]
+               ) -> tuple[ElementLoad, ...]:
+    """The template's process loads with the channel components set to ``values`` [N]
+    (``values`` empty: the template's loads unchanged).
+    """
+    if not values:
+        return template.loads
+    forces = {ld.element: list(ld.force_N) for ld in template.loads}
+    moments = {ld.element: ld.moment_Nmm for ld in template.loads}
+    for (element, axis), value in zip(targets, values, strict=True):
+        forces.setdefault(element, [0.0, 0.0, 0.0])[axis] = float(value)
+    return tuple(ElementLoad(e, (f[0], f[1], f[2]), moments.get(e, (0.0, 0.0, 0.0)))
+                 for e, f in forces.items())
+
+
 def _case(template: Case, cid: str, kind: CaseKind, share: float, T_Nmm: float,
-          n_rpm: float, temperature_C: float = math.nan) -> Case:
+          n_rpm: float, temperature_C: float = math.nan,
+          targets: Sequence[LoadTarget] = (), loads_N: Sequence[float] = ()) -> Case:
     (sid, drive), = template.drives.items()
     temp = temperature_C if math.isfinite(temperature_C) else template.temperature_C
     return Case(id=cid, kind=kind, duration=share,
                 drives={sid: replace(drive, speed_rpm=n_rpm, input_torque_Nmm=T_Nmm)},
-                loads=template.loads, temperature_C=temp, line=template.line)
+                loads=case_loads(template, targets, loads_N), temperature_C=temp,
+                line=template.line)
 
 
-def model_with_cases(model: Model, template: Case, cases: Iterable[DutyCase]) -> Model:
-    """``model`` with its duty cases replaced by ``cases`` (its peak/static cases kept)."""
+def model_with_cases(model: Model, template: Case, cases: Iterable[DutyCase],
+                     targets: Sequence[LoadTarget] = ()) -> Model:
+    """``model`` with its duty cases replaced by ``cases`` (its peak/static cases kept);
+    ``targets``: the process-load components the cases' ``loads_N`` set.
+    """
     generated = [_case(template, c.id, CaseKind(c.kind), c.share, c.torque_Nmm, c.speed_rpm,
-                       c.temperature_C) for c in cases]
+                       c.temperature_C, targets, c.loads_N) for c in cases]
     kept = [c for c in model.cases if c.kind is not CaseKind.DUTY]
     clash = {c.id for c in generated} & {c.id for c in kept}
     if clash:
@@ -144,22 +183,31 @@ def model_with_cases(model: Model, template: Case, cases: Iterable[DutyCase]) ->
     return replace(model, cases=tuple(generated + kept), duration_in_hours=False)
 
 
-def probe_affine(model: Model, template: Case, scan: SeriesScan) -> AffineLoads:
+def probe_affine(model: Model, template: Case, scan: SeriesScan,
+                 targets: Sequence[LoadTarget] = ()) -> AffineLoads:
     """Bearing loads affine in the input torque, per sign region, from three solves each.
 
     In each region the model is solved at 1/3, 2/3 and 1 of the region's largest |T|
     at the region's mean speed; the loads at 1/3 and 1 give intercept and slope, the
-    solve at 2/3 checks the superposition (its relative miss is ``mismatch``).
+    solve at 2/3 checks the superposition (its relative miss is ``mismatch``). With
+    process-load channels (``targets``) those solves have the channels at 0 N, and one
+    more solve per channel at ``LOAD_PROBE_N`` gives the change per N of it.
     """
     probes: list[Case] = []
     levels: dict[int, list[float]] = {}
+    zero = [0.0] * len(targets)
     for r in scan.regions():
         name, sT, sn = REGIONS[r]
         T_ref = float(scan.T_max_Nmm[r]) if scan.T_max_Nmm[r] > 0 else 1000.0
         levels[r] = [sT * f * T_ref for f in PROBES]
         n = sn * scan.mean_speed_rpm(r)
         for k, T in enumerate(levels[r]):
-            probes.append(_case(template, f"probe_{name}_{k}", CaseKind.DUTY, 1.0, T, n))
+            probes.append(_case(template, f"probe_{name}_{k}", CaseKind.DUTY, 1.0, T, n,
+                                targets=targets, loads_N=zero))
+        for c in range(len(targets)):
+            unit = [LOAD_PROBE_N if j == c else 0.0 for j in range(len(targets))]
+            probes.append(_case(template, f"probe_{name}_load{c}", CaseKind.DUTY, 1.0,
+                                levels[r][2], n, targets=targets, loads_N=unit))
     share = 1.0 / len(probes)
     probe_model = replace(model, cases=tuple(replace(c, duration=share) for c in probes),
                           duration_in_hours=False)
@@ -191,11 +239,18 @@ def probe_affine(model: Model, template: Case, scan: SeriesScan) -> AffineLoads:
             ka_mid = sum(mid[i][2] for i in ids)
             ka_pred = sum(fx[i][0] + fx[i][1] * Ts[1] for i in ids)
             mismatch = max(mismatch, abs(ka_mid - ka_pred) / scale)
+            per_load = [comps[f"probe_{name}_load{c}"] for c in range(len(targets))]
             per_shaft.append(ShaftAffine(
                 shaft_id=sid, bearings=shaft.bearings,
                 Fy0={i: fy[i][0] for i in ids}, Fy1={i: fy[i][1] for i in ids},
                 Fz0={i: fz[i][0] for i in ids}, Fz1={i: fz[i][1] for i in ids},
-                Ka0=sum(fx[i][0] for i in ids), Ka1=sum(fx[i][1] for i in ids)))
+                Ka0=sum(fx[i][0] for i in ids), Ka1=sum(fx[i][1] for i in ids),
+                Fy2=tuple({i: (u[i][0] - hi[i][0]) / LOAD_PROBE_N for i in ids}
+                          for u in per_load),
+                Fz2=tuple({i: (u[i][1] - hi[i][1]) / LOAD_PROBE_N for i in ids}
+                          for u in per_load),
+                Ka2=tuple(sum(u[i][2] - hi[i][2] for i in ids) / LOAD_PROBE_N
+                          for u in per_load)))
         out[r] = tuple(per_shaft)
     return AffineLoads(out, mismatch, speed_ratio)
 
@@ -203,13 +258,16 @@ def probe_affine(model: Model, template: Case, scan: SeriesScan) -> AffineLoads:
 def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
                 template: str | None = None, prefix: str = "rec",
                 tolerance_pct: float | None = None, series_name: str = "the series",
-                analyse_model: bool = True) -> DutyReduction:
+                analyse_model: bool = True, channels: Sequence[str] = (),
+                load_targets: Sequence[LoadTarget] = ()) -> DutyReduction:
     """Reduce a time series to cases, analyse the model with them, state the error.
 
     ``chunks()`` yields ``(dt_s, T_Nmm, n_rpm)`` (sample durations [s], input torques
     [N*mm], speeds of the input element's shaft [rpm]), optionally a fourth array of
-    temperatures [degC] (each case then takes its bin's time-mean temperature); it is
-    called twice.
+    extra channels (rows; their kinds in ``channels``: ``"temperature"`` [degC], each
+    case then takes its bin's time-mean temperature, or ``"load"`` [N], setting the
+    process-load component of ``load_targets`` in order, revolution-weighted per bin);
+    it is called twice.
     ``tolerance_pct``: a larger |difference| of equivalent load between cases and direct
     integral adds a warning. Raises :class:`ModelError` when the series never turns.
     """
@@ -218,6 +276,10 @@ def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
                          field="choose", expected="a model with every bearing given "
                          "(shaftsys choose --write)")
     tmpl = template_case(model, template)
+    if sum(1 for k in channels if k == "load") != len(load_targets):
+        raise ValueError("one load target per load channel")
+    _check_targets(model, load_targets)
+    load_rows = [i for i, k in enumerate(channels) if k == "load"]
     standstill = max(model.life.min_speed_rpm, 0.0)
     scan = SeriesScan(standstill_rpm=standstill if standstill > 0 else 1e-12)
     for dt, T, n, *_ in chunks():
@@ -227,18 +289,19 @@ def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
                          f"{standstill:g} rpm (life.min_speed), so it has no revolutions "
                          "and gives no life", field="speed",
                          expected="a series with running samples")
-    affine = probe_affine(model, tmpl, scan)
-    bins = BinAccumulator(scan, settings)
+    affine = probe_affine(model, tmpl, scan, load_targets)
+    bins = BinAccumulator(scan, settings, tuple(channels))
     pairs = [(s.id, b) for s in model.shafts for b in s.bearings]
     ranges = {r: (float(scan.T_min_Nmm[r]), float(scan.T_max_Nmm[r]))
               for r in scan.regions()}
     direct = DirectIntegral(pairs, affine, scan.standstill_rpm, ranges,
                             model.life.application_factor)
     for dt, T, n, *extra in chunks():
-        bins.add(dt, T, n, extra[0] if extra else None)
-        direct.add(dt, T, n)
+        X: np.ndarray | None = extra[0] if extra else None
+        bins.add(dt, T, n, X)
+        direct.add(dt, T, n, X[load_rows] if X is not None and load_rows else None)
     cases = bins.cases(prefix)
-    reduced = model_with_cases(model, tmpl, cases)
+    reduced = model_with_cases(model, tmpl, cases, load_targets)
     try:
         result = analyse(reduced) if analyse_model else None
     except ModelError as exc:
@@ -288,5 +351,6 @@ def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
                          scan.time_s, scan.revs, scan.samples, tmpl.id, tuple(warnings))
 
 
-__all__ = ["AFFINE_TOLERANCE", "BearingDutyError", "DutyReduction", "model_with_cases",
-           "probe_affine", "reduce_duty", "template_case"]
+__all__ = ["AFFINE_TOLERANCE", "LOAD_PROBE_N", "BearingDutyError", "DutyReduction",
+           "LoadTarget", "case_loads", "model_with_cases", "probe_affine", "reduce_duty",
+           "template_case"]

@@ -163,14 +163,21 @@ class DutyCase:
     T_lo_Nmm: float = math.nan
     T_hi_Nmm: float = math.nan
     temperature_C: float = math.nan
+    loads_N: tuple[float, ...] = ()
 
 
 class BinAccumulator:
-    """Second pass: time, revolutions and sum n*|T|^p per bin of every sign region."""
+    """Second pass: time, revolutions and sum n*|T|^p per bin of every sign region.
 
-    def __init__(self, scan: SeriesScan, settings: BinSettings) -> None:
+    ``channels``: kinds of the extra rows each chunk may carry, ``"temperature"``
+    (time-mean per bin) or ``"load"`` (revolution-weighted mean per bin).
+    """
+
+    def __init__(self, scan: SeriesScan, settings: BinSettings,
+                 channels: tuple[str, ...] = ()) -> None:
         self.scan = scan
         self.settings = settings
+        self.channels = channels
         nt = (settings.torque_bins if settings.torque_edges_Nmm is None
               else len(settings.torque_edges_Nmm) - 1)
         ns = (settings.speed_bins if settings.speed_edges_rpm is None
@@ -187,9 +194,8 @@ class BinAccumulator:
         self.revs = np.zeros(size)
         self.sum_Tp = np.zeros(size)
         self.count = np.zeros(size, dtype=np.int64)
-        self.temp_time = np.zeros(size)
-        self.has_temperature = False
-        self.still_temp_time = 0.0
+        self.chan_sum = np.zeros((len(channels), size))
+        self.still_chan = np.zeros(len(channels))
         self.still_time = 0.0
         self.still_T_time = 0.0
         self.still_count = 0
@@ -197,9 +203,9 @@ class BinAccumulator:
         self.peak_n = np.zeros(4)
 
     def add(self, dt_s: FloatArray, T_Nmm: FloatArray, n_rpm: FloatArray,
-            temperature_C: FloatArray | None = None) -> None:
-        """Add a chunk of samples (durations [s], torques [N*mm], speeds [rpm], optional
-        temperatures [degC]).
+            extra: FloatArray | None = None) -> None:
+        """Add a chunk of samples (durations [s], torques [N*mm], speeds [rpm]; ``extra``:
+        rows of the extra channels, temperatures [degC] and forces [N]).
         """
         aT, an = np.abs(T_Nmm), np.abs(n_rpm)
         run = an >= self.scan.standstill_rpm
@@ -221,10 +227,11 @@ class BinAccumulator:
         self.sum_Tp += np.bincount(i, rev * aT[run] ** p, minlength=size)
         self.count += np.bincount(i, minlength=size)
         still = ~run
-        if temperature_C is not None:
-            self.has_temperature = True
-            self.temp_time += np.bincount(i, t * temperature_C[run], minlength=size)
-            self.still_temp_time += float((dt_s[still] * temperature_C[still]).sum())
+        if extra is not None:
+            for c, kind in enumerate(self.channels):
+                w = t if kind == "temperature" else rev
+                self.chan_sum[c] += np.bincount(i, w * extra[c][run], minlength=size)
+                self.still_chan[c] += float((dt_s[still] * extra[c][still]).sum())
         self.still_time += float(dt_s[still].sum())
         self.still_T_time += float((dt_s[still] * T_Nmm[still]).sum())
         self.still_count += int(still.sum())
@@ -236,6 +243,14 @@ class BinAccumulator:
                     j = int(np.argmax(np.where(m, aT, -np.inf)))
                     if aT[j] > self.peak_T[r]:
                         self.peak_T[r], self.peak_n[r] = float(aT[j]), float(n_rpm[j])
+
+    def _temperature(self, sums: FloatArray, time_s: float) -> float:
+        rows = [c for c, k in enumerate(self.channels) if k == "temperature"]
+        return float(sums[rows[0]]) / time_s if rows and time_s > 0 else math.nan
+
+    def _loads(self, sums: FloatArray, weight: float) -> tuple[float, ...]:
+        return tuple(float(sums[c]) / weight if weight > 0 else 0.0
+                     for c, k in enumerate(self.channels) if k == "load")
 
     def cases(self, prefix: str = "rec") -> list[DutyCase]:
         """The generated cases: one per occupied bin, a standstill case, peak cases."""
@@ -255,16 +270,16 @@ class BinAccumulator:
                 torque_Nmm=sT * T_rep, speed_rpm=sn * n_rep, time_s=float(self.time[j]),
                 revs=revs, share=float(self.time[j]) / total, samples=int(self.count[j]),
                 T_lo_Nmm=float(self.T_edges[r][kt]), T_hi_Nmm=float(self.T_edges[r][kt + 1]),
-                temperature_C=(float(self.temp_time[j] / self.time[j])
-                               if self.has_temperature else math.nan)))
+                temperature_C=self._temperature(self.chan_sum[:, j], float(self.time[j])),
+                loads_N=self._loads(self.chan_sum[:, j], revs)))
         if self.still_count:
             out.append(DutyCase(
                 id=f"{prefix}_standstill", kind="duty", region="standstill",
                 torque_Nmm=self.still_T_time / self.still_time if self.still_time else 0.0,
                 speed_rpm=0.0, time_s=self.still_time, revs=0.0,
                 share=self.still_time / total, samples=self.still_count,
-                temperature_C=(self.still_temp_time / self.still_time
-                               if self.has_temperature and self.still_time else math.nan)))
+                temperature_C=self._temperature(self.still_chan, self.still_time),
+                loads_N=self._loads(self.still_chan, self.still_time)))
         for r in range(4):
             if math.isfinite(self.peak_T[r]):
                 name, sT, _ = REGIONS[r]
@@ -282,7 +297,8 @@ class ShaftAffine:
     ``shaft_id``: the shaft; ``bearings``: its supports (as the axial rule sees them);
     ``Fy0``, ``Fy1``, ``Fz0``, ``Fz1``: per bearing id, radial components of the force
     the shaft puts on the bearing, ``F = F0 + F1*T`` [N, N/(N*mm)]; ``Ka0``, ``Ka1``:
-    net external thrust on the shaft (sum of the bearings' Fx) [N, N/(N*mm)].
+    net external thrust on the shaft (sum of the bearings' Fx) [N, N/(N*mm)];
+    ``Fy2``, ``Fz2``, ``Ka2``: per process-load channel, the change per N of it [N/N].
     """
 
     shaft_id: str
@@ -293,6 +309,9 @@ class ShaftAffine:
     Fz1: Mapping[str, float]
     Ka0: float
     Ka1: float
+    Fy2: tuple[Mapping[str, float], ...] = ()
+    Fz2: tuple[Mapping[str, float], ...] = ()
+    Ka2: tuple[float, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -365,8 +384,9 @@ class DirectIntegral:
         self.P_max_N = np.zeros(len(self.bearings))
         self._tables: dict[int, tuple[float, float, FloatArray, FloatArray]] = {}
         self._err_sum = np.zeros(len(self.bearings))
+        with_loads = any(sa.Ka2 for shafts in self.affine.regions.values() for sa in shafts)
         for r, (lo, hi) in self.ranges.items():
-            if r not in self.affine.regions or not hi > lo:
+            if with_loads or r not in self.affine.regions or not hi > lo:
                 continue
             sT = REGIONS[r][1]
             grid = np.linspace(lo, hi, self.grid_points)
@@ -378,16 +398,25 @@ class DirectIntegral:
             miss = 2.0 * np.abs(0.5 * (Q[:, 1:] + Q[:, :-1]) - exact)
             self._tables[r] = (lo, (hi - lo) / (self.grid_points - 1), Q, miss)
 
-    def _exact_P(self, r: int, T: FloatArray) -> FloatArray:
-        """af*P [N] of every bearing (rows) at the input torques ``T`` [N*mm] of region r."""
+    def _exact_P(self, r: int, T: FloatArray, F: FloatArray | None = None) -> FloatArray:
+        """af*P [N] of every bearing (rows) at the input torques ``T`` [N*mm] of region r
+        and the process-load channels ``F`` [N] (rows), if any.
+        """
         nb = len(self.bearings)
         Fr = np.zeros((nb, T.size))
         Fa = np.zeros((nb, T.size))
         for sa in self.affine.regions[r]:
-            radial = {b.id: np.hypot(sa.Fy0[b.id] + sa.Fy1[b.id] * T,
-                                     sa.Fz0[b.id] + sa.Fz1[b.id] * T)
-                      for b in sa.bearings}
-            on_shaft, _ = axial_reactions(sa.bearings, sa.Ka0 + sa.Ka1 * T, radial)
+            fy = {b.id: sa.Fy0[b.id] + sa.Fy1[b.id] * T for b in sa.bearings}
+            fz = {b.id: sa.Fz0[b.id] + sa.Fz1[b.id] * T for b in sa.bearings}
+            ka = sa.Ka0 + sa.Ka1 * T
+            if F is not None:
+                for c in range(len(sa.Ka2)):
+                    for b in sa.bearings:
+                        fy[b.id] = fy[b.id] + sa.Fy2[c][b.id] * F[c]
+                        fz[b.id] = fz[b.id] + sa.Fz2[c][b.id] * F[c]
+                    ka = ka + sa.Ka2[c] * F[c]
+            radial = {b.id: np.hypot(fy[b.id], fz[b.id]) for b in sa.bearings}
+            on_shaft, _ = axial_reactions(sa.bearings, ka, radial)
             for b in sa.bearings:
                 i = self._row[(sa.shaft_id, b.id)]
                 Fr[i] = radial[b.id]
@@ -398,8 +427,11 @@ class DirectIntegral:
                 raise exc
         return self.application_factor * np.asarray(eq.P_N, dtype=float)
 
-    def add(self, dt_s: FloatArray, T_Nmm: FloatArray, n_rpm: FloatArray) -> None:
-        """Add a chunk of samples (durations [s], torques [N*mm], speeds [rpm])."""
+    def add(self, dt_s: FloatArray, T_Nmm: FloatArray, n_rpm: FloatArray,
+            loads_N: FloatArray | None = None) -> None:
+        """Add a chunk of samples (durations [s], torques [N*mm], speeds [rpm], process-load
+        channels [N] as rows, if any).
+        """
         self.time_s += float(dt_s.sum())
         an = np.abs(n_rpm)
         run = an >= self.standstill_rpm
@@ -413,7 +445,7 @@ class DirectIntegral:
             self.revs += float(rev.sum())
             table = self._tables.get(r)
             if table is None or T.size <= 2 * self.grid_points:
-                P = self._exact_P(r, T)
+                P = self._exact_P(r, T, None if loads_N is None else loads_N[:, m])
                 self.sum_nPp += (P ** self._p[:, None]) @ rev
                 self.P_max_N = np.maximum(self.P_max_N, P.max(axis=1))
                 continue

@@ -43,6 +43,9 @@ def add_duty_parser(subparsers: Any, exit_codes: str = "") -> argparse.ArgumentP
     p.add_argument("series", help="recording (.csv, .parquet)")
     for role in ("time", "torque", "power", "speed", "temperature"):
         p.add_argument(f"--{role}", metavar="COLUMN", help=f"name of the {role} column")
+    p.add_argument("--load", action="append", default=[], metavar="COLUMN=ELEMENT.Fy",
+                   help="a force column that sets a component (Fx, Fy, Fz) of a process "
+                   "load element (repeat for more)")
     p.add_argument("--bins", type=int, default=16, metavar="N",
                    help="torque bins per sign region (default 16)")
     p.add_argument("--edges", metavar="LIST",
@@ -88,6 +91,21 @@ def _edges(text: str) -> tuple[float, ...]:
         raise ModelError(f"--edges '{text}'", field="--edges",
                          expected="at least two increasing values, e.g. '0,50,100 N*m'")
     return values
+
+
+def _load_options(specs: list[str]) -> tuple[tuple[str, ...], list[tuple[str, int]]]:
+    """``COLUMN=ELEMENT.Fy`` options -> (columns, [(element, component index)])."""
+    columns: list[str] = []
+    targets: list[tuple[str, int]] = []
+    for spec in specs:
+        col, _, target = spec.partition("=")
+        element, _, comp = target.rpartition(".")
+        if not col.strip() or not element or comp not in ("Fx", "Fy", "Fz"):
+            raise ModelError(f"--load '{spec}'", field="--load",
+                             expected="COLUMN=ELEMENT.Fx|Fy|Fz, e.g. belt_pull=tail_load.Fy")
+        columns.append(col.strip())
+        targets.append((element.strip(), ("Fx", "Fy", "Fz").index(comp)))
+    return tuple(columns), targets
 
 
 def _settings(args: argparse.Namespace, model: Any) -> Any:
@@ -146,12 +164,14 @@ def run_duty(args: argparse.Namespace) -> int:
 
     model = load_model(args.model)
     settings = _settings(args, model)
+    load_columns, targets = _load_options(args.load)
     source = open_series(args.series, time=args.time, torque=args.torque,
-                         power=args.power, speed=args.speed,
-                         temperature=args.temperature, chunk_rows=args.chunk)
+                         power=args.power, speed=args.speed, temperature=args.temperature,
+                         loads=load_columns, chunk_rows=args.chunk)
+    kinds = tuple("load" if r.startswith("load:") else r for r in source.extras)
     red = reduce_duty(model, source.chunks, settings, template=args.template,
                       prefix=args.prefix, tolerance_pct=args.tolerance,
-                      series_name=source.name)
+                      series_name=source.name, channels=kinds, load_targets=targets)
     result = red.result
     assert result is not None
     if args.write:
@@ -159,7 +179,7 @@ def run_duty(args: argparse.Namespace) -> int:
         from shaftsys.io.output import write_text
 
         tmpl = next(c for c in model.cases if c.id == red.template)
-        write_text(args.write, cases_fragment_text(red, args.series, tmpl))
+        write_text(args.write, cases_fragment_text(red, args.series, tmpl, targets))
     if args.plot:
         from shaftsys.report.duty_plot import save_duty_plot
 

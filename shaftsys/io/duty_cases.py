@@ -8,10 +8,11 @@ units), to paste over the model's duty cases; the model's peak and static cases 
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from pathlib import Path
 from typing import Any
 
-from shaftsys.analysis.duty import DutyReduction
+from shaftsys.analysis.duty import DutyReduction, LoadTarget, case_loads
 from shaftsys.model import Case
 
 
@@ -21,7 +22,9 @@ def _q(value: float, unit: str) -> str:
 
 
 def _case_lines(c_id: str, kind: str, share: float, T_Nmm: float, n_rpm: float,
-                template: Case, note: str, temperature_C: float = math.nan) -> list[str]:
+                template: Case, note: str, temperature_C: float = math.nan,
+                targets: Sequence[LoadTarget] = (), loads_N: Sequence[float] = ()
+                ) -> list[str]:
     (_, drive), = template.drives.items()
     outputs = ", ".join(f"{k}: {v:.10g}" for k, v in drive.outputs)
     lines = [f"  - id: {c_id}                 # {note}"]
@@ -35,17 +38,21 @@ def _case_lines(c_id: str, kind: str, share: float, T_Nmm: float, n_rpm: float,
     temp = temperature_C if math.isfinite(temperature_C) else template.temperature_C
     if not math.isnan(temp):
         lines.append(f"    temperature: {float(temp)!r} degC")
-    if template.loads:
+    loads = case_loads(template, targets, loads_N)
+    if loads:
         lines.append("    loads:")
-        for ld in template.loads:
+        for ld in loads:
             f = ", ".join(_q(v, "N") for v in ld.force_N)
             m = ", ".join(_q(v, "N*mm") for v in ld.moment_Nmm)
             lines.append(f"      {ld.element}: {{force: [{f}], moment: [{m}]}}")
     return lines
 
 
-def cases_fragment_text(red: DutyReduction, series: str, template: Case) -> str:
-    """The generated cases as a ``cases:`` YAML fragment with a header comment."""
+def cases_fragment_text(red: DutyReduction, series: str, template: Case,
+                        targets: Sequence[LoadTarget] = ()) -> str:
+    """The generated cases as a ``cases:`` YAML fragment with a header comment
+    (``targets``: the process-load components the load channels set).
+    """
     out = [f"# Operating cases reduced from the recording {Path(series).name}",
            f"# ({red.samples} samples, {red.time_s / 3600.0:.6g} h, {red.revs:.6g} "
            f"revolutions of the input shaft; template case '{red.template}').",
@@ -62,7 +69,7 @@ def cases_fragment_text(red: DutyReduction, series: str, template: Case) -> str:
             note = (f"{c.region}, |T| {c.T_lo_Nmm / 1000:.4g}..{c.T_hi_Nmm / 1000:.4g} N*m, "
                     f"{c.time_s / 3600.0:.4g} h, {c.revs:.4g} rev")
         out += _case_lines(c.id, c.kind, c.share, c.torque_Nmm, c.speed_rpm, template, note,
-                           c.temperature_C)
+                           c.temperature_C, targets, c.loads_N)
     return "\n".join(out) + "\n"
 
 
@@ -80,7 +87,7 @@ def reduction_dict(red: DutyReduction, series: str) -> dict[str, Any]:
                    "torque_Nmm": c.torque_Nmm, "speed_rpm": c.speed_rpm,
                    "time_h": c.time_s / 3600.0, "revolutions": c.revs, "share": c.share,
                    "samples": c.samples, "T_lo_Nmm": c.T_lo_Nmm, "T_hi_Nmm": c.T_hi_Nmm,
-                   "temperature_C": c.temperature_C}
+                   "temperature_C": c.temperature_C, "loads_N": list(c.loads_N)}
                   for c in red.cases],
         "reduction_error": [{"shaft": e.shaft, "bearing": e.bearing, "p": e.exponent,
                              "P_cases_N": e.P_cases_N, "P_direct_N": e.P_direct_N,

@@ -62,11 +62,18 @@ def split_header(text: str) -> tuple[str, str | None]:
     return text.strip(), None
 
 
+def _role(role: str) -> tuple[str, str]:
+    """(dimension, example) of a role; ``load:<column>`` is a force channel."""
+    if role.startswith("load:"):
+        return "force", f"{role[5:]} [N]"
+    return ROLES[role][1], ROLES[role][2]
+
+
 def _factor(unit: str, role: str) -> tuple[float, float]:
     """(offset, factor) to the internal unit of ``role`` (time in s, torque N*mm, power W,
-    speed rpm, temperature degC: an absolute temperature, so an offset for K and degF).
+    speed rpm, force N, temperature degC: absolute, so an offset for K and degF).
     """
-    dimension = ROLES[role][1]
+    dimension = _role(role)[0]
     zero = to_internal(f"0 {unit}", dimension) if role == "temperature" else 0.0
     value = to_internal(f"1 {unit}", dimension) - zero
     return zero, (value * 3600.0 if role == "time" else value)
@@ -78,7 +85,9 @@ class SeriesSource:
 
     ``columns``: role -> column name in the file; ``factors``: role -> (offset, factor)
     to the internal unit (time to s); ``data_line``: 1-based line of the first data row (CSV);
-    ``gaps``: warnings about gaps found (filled on the first pass).
+    ``gaps``: warnings about gaps found (filled on the first pass); ``extras``: roles of
+    the extra channels (``temperature``, ``load:<column>``), in the order of the rows of
+    the fourth array each chunk carries when there are any.
     """
 
     path: Path
@@ -90,6 +99,7 @@ class SeriesSource:
     chunk_rows: int = DEFAULT_CHUNK_ROWS
     gap_factor: float = DEFAULT_GAP_FACTOR
     gaps: list[str] = field(default_factory=list)
+    extras: tuple[str, ...] = ()
     _passes: int = 0
 
     @property
@@ -147,14 +157,16 @@ class SeriesSource:
 
     def chunks(self) -> Iterator[Chunk]:
         """Yield ``(dt_s, T_Nmm, n_rpm)`` per chunk (durations by the midpoint rule), and
-        the temperature [degC] as a fourth array when the recording has one.
+        a fourth array (rows: the :attr:`extras` channels, temperature [degC], forces [N])
+        when the recording has extra channels.
         """
         self._passes += 1
         first_pass = self._passes == 1
         offset = 0
         left_t: float | None = None     # time of the sample before the carried one
         carry: tuple[float, ...] | None = None
-        with_temp = "temperature" in self.columns
+        carry_x = np.zeros((len(self.extras), 0))
+        with_temp = bool(self.extras)
         median: float | None = None
         for raw in self._raw():
             t = self._numbers(raw, "time", offset)
@@ -171,7 +183,8 @@ class SeriesSource:
                                       "power != 0")
                 with np.errstate(divide="ignore", invalid="ignore"):
                     T = np.where(n != 0.0, P / (2.0 * math.pi * n / 60.0) * 1000.0, 0.0)
-            th = self._numbers(raw, "temperature", offset) if with_temp else np.zeros(t.size)
+            th = (np.stack([self._numbers(raw, r, offset) for r in self.extras]) if with_temp
+                  else np.zeros((0, t.size)))
             size = t.size
             if size == 0:
                 continue
@@ -179,7 +192,7 @@ class SeriesSource:
                 t = np.concatenate([[carry[0]], t])
                 T = np.concatenate([[carry[1]], T])
                 n = np.concatenate([[carry[2]], n])
-                th = np.concatenate([[carry[3]], th])
+                th = np.concatenate([carry_x, th], axis=1)
             base = offset - (1 if carry is not None else 0)   # row of t[0]
             left = np.empty(t.size)
             left[1:] = np.diff(t)
@@ -210,9 +223,11 @@ class SeriesSource:
                         _log.warning(self.gaps[-1])
             if t.size >= 2:
                 dur = 0.5 * (left[:-1] + left[1:])
-                yield (dur, T[:-1], n[:-1], th[:-1]) if with_temp else (dur, T[:-1], n[:-1])
+                yield ((dur, T[:-1], n[:-1], th[:, :-1]) if with_temp
+                       else (dur, T[:-1], n[:-1]))
                 left_t = float(t[-2])
-            carry = (float(t[-1]), float(T[-1]), float(n[-1]), float(th[-1]))
+            carry = (float(t[-1]), float(T[-1]), float(n[-1]))
+            carry_x = th[:, -1:]
             offset += size
         if carry is None or left_t is None:
             raise ModelError("the recording has fewer than two samples", file=self.name,
@@ -220,7 +235,7 @@ class SeriesSource:
                              expected="at least two rows of data")
         last = (np.array([0.5 * (carry[0] - left_t)]), np.array([carry[1]]),
                 np.array([carry[2]]))
-        yield (*last, np.array([carry[3]])) if with_temp else last
+        yield (*last, carry_x) if with_temp else last
 
 
 def _find_columns(path: Path, header: list[str], given: dict[str, str | None],
@@ -265,13 +280,15 @@ def _find_columns(path: Path, header: list[str], given: dict[str, str | None],
 
 def open_series(path: str | Path, *, time: str | None = None, torque: str | None = None,
                 power: str | None = None, speed: str | None = None,
-                temperature: str | None = None, chunk_rows: int = DEFAULT_CHUNK_ROWS,
+                temperature: str | None = None, loads: tuple[str, ...] = (),
+                chunk_rows: int = DEFAULT_CHUNK_ROWS,
                 gap_factor: float = DEFAULT_GAP_FACTOR) -> SeriesSource:
     """Open a recording (``.csv`` or ``.parquet``/``.pq``), find its columns and units.
 
     The keyword arguments name columns (the header text or its name without the unit);
     by default ``time``/``t``, ``torque`` or ``power``, ``speed``/``n`` and, optional,
-    ``temperature``/``temp`` (then each case gets the time-mean temperature of its bin).
+    ``temperature``/``temp`` (then each case gets the time-mean temperature of its bin);
+    ``loads`` names force columns (process-load channels).
     """
     p = Path(path)
     if not p.is_file():
@@ -309,6 +326,13 @@ def open_series(path: str | Path, *, time: str | None = None, torque: str | None
         if second is not None and second and not all(_is_number(c) for c in second if c):
             units_row = second
     columns = _find_columns(p, header, given, line)
+    for col in loads:
+        hit = ({h.strip(): h for h in header}.get(col.strip())
+               or {split_header(h)[0].lower(): h for h in header}.get(col.strip().lower()))
+        if hit is None:
+            raise ModelError(f"no column '{col}' for a process load", file=str(p), line=line,
+                             field="--load", expected="one of: " + ", ".join(header))
+        columns[f"load:{col}"] = hit
     units: dict[str, str] = {}
     factors: dict[str, tuple[float, float]] = {}
     for role, col in columns.items():
@@ -323,7 +347,7 @@ def open_series(path: str | Path, *, time: str | None = None, torque: str | None
         if not unit:
             raise ModelError(f"the {role} column '{col}' has no unit", file=str(p),
                              line=uline if kind == "csv" else None, field=f"column '{col}'",
-                             expected=f"the unit in the header ('{ROLES[role][2]}') or in a "
+                             expected=f"the unit in the header ('{_role(role)[1]}') or in a "
                              "units row under it")
         try:
             factors[role] = _factor(unit, role)
@@ -331,10 +355,14 @@ def open_series(path: str | Path, *, time: str | None = None, torque: str | None
             raise ModelError(f"unit '{unit}' of the {role} column: {exc.message}",
                              file=str(p), line=uline if kind == "csv" else None,
                              field=f"column '{col}'",
-                             expected=f"a {role} unit, e.g. '{ROLES[role][2]}'") from None
+                             expected=f"a {_role(role)[0]} unit, e.g. '{_role(role)[1]}'"
+                             ) from None
         units[role] = unit
     data_line = 3 if units_row is not None else 2
-    return SeriesSource(p, kind, columns, units, factors, data_line, chunk_rows, gap_factor)
+    extras = (("temperature",) if "temperature" in columns else ()) + tuple(
+        f"load:{c}" for c in loads)
+    return SeriesSource(p, kind, columns, units, factors, data_line, chunk_rows, gap_factor,
+                        extras=extras)
 
 
 def _is_number(text: str) -> bool:
