@@ -161,8 +161,9 @@ def random_models(draw: st.DrawFn) -> tuple[Model, dict[str, float]]:
     station = st.integers(0, int(length)).map(float)
     first = float(draw(st.integers(0, int(0.3 * length))))
     last = float(draw(st.integers(math.ceil(0.7 * length), int(length))))
-    inner = draw(st.lists(st.integers(int(first) + 10, int(last) - 10).map(float),
-                          max_size=2, unique=True))
+    inner = (draw(st.lists(st.integers(int(first) + 10, int(last) - 10).map(float),
+                           max_size=2, unique=True))
+             if int(last) - int(first) >= 20 else [])   # a short shaft: two supports only
     stations = [first]
     for x in sorted(inner):
         if x - stations[-1] >= 10.0 and last - x >= 10.0:

@@ -202,6 +202,12 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
 
     add_sweep_parser(sub)
     handlers["sweep"] = run_sweep
+
+    # ---- recorded duty -------------------------------------------------------------
+    from shaftsys.cli.duty import add_duty_parser, run_duty
+
+    add_duty_parser(sub, EXIT_CODES_TEXT)
+    handlers["duty"] = run_duty
     return p, handlers
 
 

@@ -1,0 +1,72 @@
+"""Load-duration figure of a recorded duty: time and revolutions at each torque level."""
+
+from __future__ import annotations
+
+import io
+from pathlib import Path
+from typing import TYPE_CHECKING, Any, BinaryIO
+
+from shaftsys.errors import ModelError
+
+if TYPE_CHECKING:
+    from shaftsys.analysis.duty import DutyReduction
+
+
+def plot_duty(axes: Any, red: DutyReduction) -> Any:
+    """Draw time [h] and revolutions per generated duty case against its torque [N*m]
+    on two axes (a pair from ``plt.subplots(1, 2)``); returns the axes.
+    """
+    running = [c for c in red.cases if c.kind == "duty" and c.region != "standstill"]
+    peaks = [c for c in red.cases if c.kind == "peak"]
+    regions = sorted({c.region for c in running})
+    for region in regions:
+        mine = [c for c in running if c.region == region]
+        T = [c.torque_Nmm / 1000.0 for c in mine]
+        width = [max((c.T_hi_Nmm - c.T_lo_Nmm) / 1000.0, 1e-9) * 0.9 for c in mine]
+        axes[0].bar(T, [c.time_s / 3600.0 for c in mine], width=width, label=region)
+        axes[1].bar(T, [c.revs for c in mine], width=width, label=region)
+    for c in peaks:
+        for ax in axes:
+            ax.axvline(c.torque_Nmm / 1000.0, color="k", linestyle="--", linewidth=0.8)
+    axes[0].set_xlabel("input torque T_rep [N*m]")
+    axes[0].set_ylabel("time at level [h]")
+    axes[1].set_xlabel("input torque T_rep [N*m]")
+    axes[1].set_ylabel("revolutions at level [-]")
+    axes[0].set_title("load-duration (time)")
+    axes[1].set_title("revolutions (damage weight)")
+    if regions:
+        axes[0].legend(fontsize="small")
+    return axes
+
+
+def save_duty_plot(red: DutyReduction, path: str | Path) -> Path:
+    """Write the load-duration figure (.png or .svg, atomically)."""
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from shaftsys.io.output import atomic_write
+
+    target = Path(path)
+    fmt = target.suffix.lower().lstrip(".")
+    if fmt not in ("png", "svg"):
+        raise ModelError(f"figure type '.{fmt}' not supported", field="--plot",
+                         expected="a .png or .svg file name")
+    fig, axes = plt.subplots(1, 2, figsize=(10, 4.2))
+    try:
+        plot_duty(axes, red)
+        fig.tight_layout()
+        buf = io.BytesIO()
+        fig.savefig(buf, format=fmt)
+    finally:
+        plt.close(fig)
+    data = buf.getvalue()
+
+    def write(fh: BinaryIO) -> None:
+        fh.write(data)
+
+    return atomic_write(target, write)
+
+
+__all__ = ["plot_duty", "save_duty_plot"]
