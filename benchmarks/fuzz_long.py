@@ -25,6 +25,7 @@ import sys
 import tempfile
 import time
 from collections import Counter
+from concurrent.futures import ProcessPoolExecutor, as_completed
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -142,9 +143,17 @@ def main(argv: list[str] | None = None) -> int:
     failures: list[str] = []
     calls = 0
     notes: Counter[str] = Counter()
+    lost: list[str] = []
     ctx = mp.get_context("fork")
-    with ctx.Pool(args.workers, maxtasksperchild=1) as pool:
-        for part, fails, n, seen, ratios in pool.imap_unordered(_worker, jobs):
+    with ProcessPoolExecutor(args.workers, mp_context=ctx) as pool:
+        futures = {pool.submit(_worker, job): job for job in jobs}
+        for future in as_completed(futures):
+            try:
+                part, fails, n, seen, ratios = future.result()
+            except Exception as exc:  # a worker that died (a crash of the interpreter)
+                lost.append(f"job {futures[future]} lost: {exc!r}")
+                print(lost[-1], flush=True)
+                continue
             notes.update(seen)
             for kind, row in part.items():
                 stats.setdefault(kind, Counter()).update(row)
@@ -174,7 +183,9 @@ def main(argv: list[str] | None = None) -> int:
           f"{kinds['exit 1']}, exit 2 {kinds['exit 2']}, exit 3 {kinds['exit 3']}; "
           f"tracebacks {kinds['traceback']}, broken contracts {kinds['contract']}, "
           f"contradictions {kinds['contradiction']}, slow paths {kinds['slow']}")
-    bad = kinds["traceback"] + kinds["contract"] + kinds["contradiction"] + kinds["slow"]
+    bad = (kinds["traceback"] + kinds["contract"] + kinds["contradiction"] + kinds["slow"]
+           + len(lost))
+    print(f"jobs: {len(jobs)} run, {len(lost)} lost")
     if notes:
         print("exit-3 (ill-posed) and known-open messages, grouped:")
         for sig, n in notes.most_common(15):

@@ -40,6 +40,7 @@ import logging
 import math
 import os
 import re
+import sys
 import tempfile
 import time
 from collections import Counter
@@ -54,7 +55,7 @@ from conftest import base_model, dump_model
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from shaftsys.analysis import analyse
+from shaftsys import analyse
 from shaftsys.cli import main
 from shaftsys.errors import ModelError, NumericalError, ShaftsysError
 from shaftsys.io.loader import load_model
@@ -362,8 +363,8 @@ def run_check(path: Path, *extra: str) -> tuple[int, str]:
 
 
 def raised_error(path: Path) -> ShaftsysError | None:
-    """The error that reading and solving ``path`` raises (the structured twin of what
-    ``check`` printed), or None."""
+    """The error that reading and solving ``path`` through the public API raises (the
+    structured twin of what ``check`` printed, located in the file), or None."""
     try:
         analyse(load_model(path))
     except ShaftsysError as exc:
@@ -711,10 +712,12 @@ HEADER_UNITS = ["kN", "N", "lbf", "kg", "mm", "m", "inch", "rpm", "Hz", "", "fur
                 "EUR", "USD", "kN*m", "1/s", "%", "deg", "rad", "g"]
 
 
-def _catalogue_rows(text: str) -> tuple[list[str], int]:
-    """The lines of a CSV catalogue and the index of its header (first non-comment)."""
+def _catalogue_rows(text: str) -> tuple[list[str], int | None]:
+    """The lines of a CSV catalogue and the index of its header (first non-comment
+    line; None when there is none left)."""
     lines = text.split("\n")
-    header = next(i for i, line in enumerate(lines) if line and not line.startswith("#"))
+    header = next((i for i, line in enumerate(lines) if line and not line.startswith("#")),
+                  None)
     return lines, header
 
 
@@ -730,6 +733,8 @@ def damage_catalogue(data: st.DataObject, text: str) -> tuple[str | bytes, list[
             "unit_row", "text", "bytes", "empty", "only_header"]))
         ops.append(op)
         lines, header = _catalogue_rows(text)
+        if header is None:  # no header left to damage
+            break
         rows = [i for i in range(header + 1, len(lines)) if lines[i]]
         row = data.draw(st.sampled_from(rows)) if rows else header
         cells = lines[row].split(",")
@@ -890,3 +895,95 @@ def test_the_judge_on_exit_3_and_tracebacks(tmp_path: Path) -> None:
     assert judge(2, "Traceback (most recent call last):\n", path, "a: 1\n", None).failed
     other = _model_error(path, 1, None, "invalid YAML: x")
     assert judge(2, "shaftsys: error: something else\n", path, "a: 1\n", other).failed
+
+
+@pytest.mark.parametrize(("line", "field", "message", "kind"), [
+    (10, "C_kN", "'x' is not a number", "bad_input"),
+    (10, "column 4", "a column without a name in the header holds values", "bad_input"),
+    (10, None, "the row has 21 cells, the header names 22 columns", "bad_input"),
+    (9, "designation", "the header has no column 'designation'", "bad_input"),
+    (999, "C_kN", "'x' is not a number", "FAIL"),                 # line outside the file
+    (None, "C_kN", "'x' is not a number", "FAIL"),                # no line
+    (10, None, "'x' is not a number", "FAIL"),                    # no column
+    (10, "bogus_col", "'x' is not a number", "FAIL"),             # column not in the file
+])
+def test_the_judge_on_catalogue_errors(line: int | None, field: str | None, message: str,
+                                       kind: str, tmp_path: Path) -> None:
+    """An error naming the catalogue is judged against the catalogue's lines and
+    columns (common practice, no source: this project's contract)."""
+    model, cat = tmp_path / "m.yaml", tmp_path / CATALOGUE.name
+    exc = _model_error(cat, line, field, message)
+    got = judge(2, f"shaftsys: error: {exc}\n", model, "a: 1\n", exc, (cat, CATALOGUE_TEXT))
+    assert got.kind == kind, got.detail
+
+
+@pytest.fixture(scope="module")
+def open_result_json(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Any]:
+    """The JSON of ``check`` on the seed with open bearings (a passing run)."""
+    folder = tmp_path_factory.mktemp("sense")
+    (folder / CATALOGUE.name).write_text(CATALOGUE_TEXT, encoding="utf-8")
+    (folder / "m.yaml").write_text(SEED_TEXTS["belt_reducer_open.yaml"], encoding="utf-8")
+    code, err = run_check(folder / "m.yaml", "--json", str(folder / "r.json"))
+    assert code == 0, err
+    doc: dict[str, Any] = json.loads((folder / "r.json").read_text(encoding="utf-8"))
+    return doc
+
+
+def _damaged(doc: dict[str, Any], how: str) -> tuple[str, int]:
+    """The JSON text and exit code of one contradiction made by hand."""
+    doc = copy.deepcopy(doc)
+    shaft = doc["shaft_checks"]["shafts"][0]
+    code = 0
+    if how == "bearing fails":
+        doc["bearings"][0]["verdict"], doc["bearings"][0]["ok"] = "fail", False
+    elif how == "fatigue not evaluated":
+        shaft["fatigue_verdict"], shaft["fatigue_ok"] = "not evaluated", False
+    elif how == "fatigue not evaluated, not required":  # no contradiction
+        shaft["fatigue_verdict"], shaft["fatigue_ok"] = "not evaluated", False
+        shaft["fatigue_required"] = False
+    elif how == "ok beside a failed verdict":
+        doc["bearings"][0]["ok"] = False
+    elif how == "negative life":
+        doc["bearings"][0]["life"]["L10_h"] = -5.0
+    elif how == "NaN":
+        doc["system"]["life_h"] = float("nan")
+    elif how == "unbounded beside a value":
+        doc["system"]["life_h_unbounded"] = True
+    elif how == "no verdict state":
+        doc["verdict"] = "ok-ish"
+    elif how == "exit 1 with ok true":
+        code = 1
+    elif how == "not_evaluated listed":
+        doc["not_evaluated"] = ["fatigue of shaft 'input' not evaluated"]
+    return json.dumps(doc), code
+
+
+@pytest.mark.parametrize(("how", "contradicts"), [
+    ("as written", False),
+    ("bearing fails", True),
+    ("fatigue not evaluated", True),
+    ("fatigue not evaluated, not required", False),
+    ("ok beside a failed verdict", True),
+    ("negative life", True),
+    ("NaN", True),
+    ("unbounded beside a value", True),
+    ("no verdict state", True),
+    ("exit 1 with ok true", True),
+    ("not_evaluated listed", True),
+])
+def test_the_sense_check_itself(open_result_json: dict[str, Any], how: str,
+                                contradicts: bool) -> None:
+    """The JSON sense check finds each contradiction made by hand in a real result and
+    accepts the result as written (common practice, no source)."""
+    assert result_contradictions(json.dumps(open_result_json), 0) == []
+    text, code = _damaged(open_result_json, how)
+    assert bool(result_contradictions(text, code)) == contradicts
+
+
+def test_a_slow_path_is_a_failure(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    """The slow-path rule fails an example whose time exceeds factor x seed + allowance
+    (baseline and allowance set to zero here, so any real run exceeds them)."""
+    example = Fuzzed(SEED_TEXTS["conftest_base"], "conftest_base", "test:none")
+    monkeypatch.setattr(sys.modules[__name__], "SLOW_ALLOWANCE_S", 0.0)
+    monkeypatch.setitem(_SEED_SECONDS, "conftest_base", 0.0)
+    assert check_fuzzed(example, tmp_path).category == "slow"
