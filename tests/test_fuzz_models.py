@@ -33,13 +33,16 @@ from __future__ import annotations
 
 import contextlib
 import copy
+import dataclasses
 import io
 import json
 import logging
+import math
 import os
 import re
-import shutil
+import sys
 import tempfile
+import time
 from collections import Counter
 from collections.abc import Callable
 from dataclasses import dataclass
@@ -52,7 +55,7 @@ from conftest import base_model, dump_model
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from shaftsys.analysis import analyse
+from shaftsys import analyse
 from shaftsys.cli import main
 from shaftsys.errors import ModelError, NumericalError, ShaftsysError
 from shaftsys.io.loader import load_model
@@ -211,12 +214,15 @@ def mutate_tree(data: st.DataObject, tree: Any) -> str:
     return op
 
 
-def damage_text(data: st.DataObject, text: str) -> str:
-    """Character-level damage of YAML text (insert, replace, delete, cut, line edits)."""
+def damage_text(data: st.DataObject, text: str, ops: list[str] | None = None) -> str:
+    """Character-level damage of YAML text (insert, replace, delete, cut, line edits);
+    the names of the damages done are appended to ``ops``."""
     for _ in range(data.draw(st.integers(1, 4))):
         op = data.draw(st.sampled_from(["insert", "replace", "delete", "truncate",
                                         "dup_line", "swap_lines", "drop_line", "indent",
                                         "long_run"]))
+        if ops is not None:
+            ops.append(op)
         pos = data.draw(st.integers(0, len(text)))
         char = data.draw(st.sampled_from(DAMAGE_CHARS) | st.characters(
             exclude_categories=["Cs"]))
@@ -261,11 +267,16 @@ def damage_bytes(data: st.DataObject, raw: bytes) -> bytes:
 # ----------------------------------------------------------------------------- contract
 @dataclass(frozen=True)
 class Outcome:
-    """What ``check`` did with one file: ``kind`` and, for a failure, why."""
+    """What ``check`` did with one file: ``kind``, the time the command took and, for a
+    failure, its ``category`` and why."""
 
     kind: str          # ok | target_missed | bad_input | ill_posed | known_open | FAIL
     code: int | None
     detail: str = ""
+    #: for a FAIL: traceback | contract | contradiction | slow
+    category: str = ""
+    #: wall time of ``check`` on the file [s]
+    seconds: float = 0.0
 
     @property
     def failed(self) -> bool:
@@ -273,10 +284,17 @@ class Outcome:
         return self.kind == "FAIL"
 
 
+def _fail(category: str, code: int | None, detail: str) -> Outcome:
+    return Outcome("FAIL", code, detail, category)
+
+
 #: Errors about the document as a whole, which have a line but no field.
 DOCUMENT_ERRORS = ("invalid YAML", "not UTF-8", "is empty", "larger than",
                    "a model file is a mapping", "not allowed in a model file",
-                   "nesting deeper than", "a mapping key is empty")
+                   "nesting deeper than", "a mapping key is empty",
+                   # a top-level key that is a list or mapping: there is no key to name
+                   # (deeper down the path of the mapping is given and checked)
+                   "mapping keys must be plain words")
 #: Bugs found by this fuzzing in modules this test's owner may not change, reported to
 #: their owners and counted as ``known_open`` until fixed (each names its module).
 KNOWN_OPEN: dict[str, re.Pattern[str]] = {
@@ -328,8 +346,9 @@ def field_problem(field: str, message: str, text: str) -> str | None:
     return f"key {keys[-1]!r} of field path {field!r} does not occur in the file"
 
 
-def run_check(path: Path) -> tuple[int, str]:
-    """``main(["check", path, "--quiet"])`` with captured output; returns (code, stderr).
+def run_check(path: Path, *extra: str) -> tuple[int, str]:
+    """``main(["check", path, "--quiet", *extra])`` with captured output; returns (code,
+    stderr).
 
     An exception escaping ``main`` propagates: that is the crash the fuzzing looks for.
     Logger levels that ``--quiet`` changes are restored afterwards.
@@ -339,7 +358,7 @@ def run_check(path: Path) -> tuple[int, str]:
     out, err = io.StringIO(), io.StringIO()
     try:
         with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
-            code = main(["check", str(path), "--quiet"])
+            code = main(["check", str(path), "--quiet", *extra])
     finally:
         for n, level in levels.items():
             logging.getLogger(n).setLevel(level)
@@ -347,8 +366,8 @@ def run_check(path: Path) -> tuple[int, str]:
 
 
 def raised_error(path: Path) -> ShaftsysError | None:
-    """The error that reading and solving ``path`` raises (the structured twin of what
-    ``check`` printed), or None."""
+    """The error that reading and solving ``path`` through the public API raises (the
+    structured twin of what ``check`` printed, located in the file), or None."""
     try:
         analyse(load_model(path))
     except ShaftsysError as exc:
@@ -356,56 +375,180 @@ def raised_error(path: Path) -> ShaftsysError | None:
     return None
 
 
-def judge(code: int, err: str, path: Path, text: str, exc: ShaftsysError | None
-          ) -> Outcome:
+#: Catalogue errors about the file or a whole row, which have a line but no column.
+CATALOGUE_ROW_ERRORS = ("not UTF-8", "is empty", "larger than", "the row has",
+                        "cannot read the CSV row", "is not allowed in a catalogue",
+                        "has no bearing", "no header")
+_COLUMN_NUMBER = re.compile(r"column \d+$")
+
+
+def catalogue_problem(exc: ModelError, cat_text: str) -> str | None:
+    """Why an error about a catalogue file does not locate its line and column (None
+    when it does): the line lies inside the catalogue, the field is a column named in
+    the file (or ``column n``); only errors about the file or a whole row may omit it."""
+    n = number_of_lines(cat_text)
+    if exc.line is None or not 1 <= exc.line <= n:
+        return f"line {exc.line} is not inside the catalogue (1..{n})"
+    if exc.field is None:
+        if any(d in exc.message for d in CATALOGUE_ROW_ERRORS):
+            return None
+        return "catalogue message names no column"
+    if _COLUMN_NUMBER.match(exc.field) or _occurs(exc.field, cat_text) \
+            or "has no column" in exc.message or _MISSING.search(exc.message):
+        # a missing column or value, named as the catalogue format requires it
+        return None
+    return f"column {exc.field!r} does not occur in the catalogue"
+
+
+def judge(code: int, err: str, path: Path, text: str, exc: ShaftsysError | None,
+          catalogue: tuple[Path, str] | None = None) -> Outcome:
     """Apply the contract of the module docstring to one run of ``check``.
 
     ``err`` is what ``check`` printed on stderr, ``exc`` the error the same file raises
-    through the Python API (for exit codes 2 and 3).
+    through the Python API (for exit codes 2 and 3), ``catalogue`` the catalogue file
+    beside the model and its text (an error naming it is judged against that file).
     """
+    if "Traceback" in err:
+        return _fail("traceback", code, f"traceback on stderr:\n{err}")
     if code == 0:
         return Outcome("ok", code)
     if code == 1:
         return Outcome("target_missed", code)
-    if "Traceback" in err:
-        return Outcome("FAIL", code, f"traceback on stderr:\n{err}")
     if exc is None or f"shaftsys: error: {exc}" not in err:
-        return Outcome("FAIL", code, f"exit {code} without the matching error: {err!r}")
+        return _fail("contract", code, f"exit {code} without the matching error: {err!r}")
     if code == 3:
         message = str(exc)
         if isinstance(exc, NumericalError) and ILL_POSED.search(message) \
                 and "shaft '" in message:
             return Outcome("ill_posed", code, message)
-        return Outcome("FAIL", code, f"exit 3 on a system that is not ill-posed: {message}")
+        return _fail("contract", code, f"exit 3 on a system that is not ill-posed: {message}")
     if code != 2 or not isinstance(exc, ModelError):
-        return Outcome("FAIL", code, f"unexpected exit code {code}: {exc}")
+        return _fail("contract", code, f"unexpected exit code {code}: {exc}")
     for name, pattern in KNOWN_OPEN.items():
         if pattern.match(exc.message):
             return Outcome("known_open", code, f"{name}: {exc}")
+    if catalogue is not None and exc.file is not None \
+            and Path(exc.file).resolve() == catalogue[0].resolve():
+        problem = catalogue_problem(exc, catalogue[1])
+        if problem is not None:
+            return _fail("contract", code, f"{problem}: {exc}")
+        return Outcome("bad_input", code, str(exc))
     if exc.file != str(path):
-        return Outcome("FAIL", code, f"message does not name the file: {exc}")
+        return _fail("contract", code, f"message does not name the file: {exc}")
     n = number_of_lines(text)
     if exc.line is None or not 1 <= exc.line <= n:
-        return Outcome("FAIL", code, f"line {exc.line} is not inside the file (1..{n}): {exc}")
+        return _fail("contract", code,
+                     f"line {exc.line} is not inside the file (1..{n}): {exc}")
     if exc.field is None:
         if not any(d in exc.message for d in DOCUMENT_ERRORS):
-            return Outcome("FAIL", code, f"message names no field path: {exc}")
+            return _fail("contract", code, f"message names no field path: {exc}")
     else:
         problem = field_problem(exc.field, exc.message, text)
         if problem is not None:
-            return Outcome("FAIL", code, f"{problem}: {exc}")
+            return _fail("contract", code, f"{problem}: {exc}")
     return Outcome("bad_input", code, str(exc))
 
 
-def classify(text: str | bytes, folder: Path) -> Outcome:
-    """Write ``text`` to a model file in ``folder``, run ``check`` and judge the outcome.
+# ----------------------------------------------------------------------------- sense
+#: The verdict states of every check (analysis/check_results.py).
+VERDICTS = frozenset({"pass", "fail", "marginal", "not evaluated"})
+PASSED = frozenset({"pass", "marginal"})
+#: Keys of lives and life-like quantities, which are never negative.
+_LIFE_KEY = re.compile(r"(^|_)(life|L10|Lnm|C_required)(_|$)")
 
-    The bundled catalogue goes beside it, so that seeds with open bearings
-    (``choose: {catalogue: demo_catalogue.csv}``) find it as the bundled models do.
+
+def _non_finite(token: str) -> float:
+    raise ValueError(f"non-finite number {token} in the JSON")
+
+
+def _walk(node: Any, here: str = "") -> list[tuple[str, dict[str, Any]]]:
+    """Every mapping of a JSON document with its path."""
+    out: list[tuple[str, dict[str, Any]]] = []
+    if isinstance(node, dict):
+        out.append((here, node))
+        for k, v in node.items():
+            out.extend(_walk(v, f"{here}.{k}"))
+    elif isinstance(node, list):
+        for i, v in enumerate(node):
+            out.extend(_walk(v, f"{here}[{i}]"))
+    return out
+
+
+def _excused(item: dict[str, Any], key: str) -> bool:
+    """A ``not evaluated`` that does not count: fatigue that is not required."""
+    return key == "fatigue_verdict" and item.get("fatigue_required") is False
+
+
+def result_contradictions(text: str, code: int) -> list[str]:
+    """What is non-finite, out of range or self-contradictory in the JSON of ``check``
+    that exited with ``code`` (empty when the document makes sense).
+
+    * no NaN or infinity anywhere; ``<key>_unbounded``/``_undefined`` true only beside
+      a ``null`` ``<key>``; no negative life;
+    * every ``verdict`` and ``*_verdict`` one of the four states; wherever ``ok`` (or
+      ``<check>_ok``) stands beside its verdict, ``ok`` is exactly "the verdict passed";
+    * exit 0 exactly when ``ok`` is true; a passed run has verdict pass or marginal,
+      nothing in ``not_evaluated`` and no check anywhere that failed or was not
+      evaluated (fatigue marked not required excepted).
     """
-    catalogue = ROOT / "models" / "demo_catalogue.csv"
-    if not (folder / catalogue.name).exists():
-        shutil.copy(catalogue, folder / catalogue.name)
+    try:
+        doc = json.loads(text, parse_constant=_non_finite)
+    except ValueError as exc:
+        return [f"the JSON does not parse: {exc}"]
+    if not isinstance(doc, dict) or not isinstance(doc.get("ok"), bool):
+        return ["the JSON has no boolean 'ok'"]
+    found: list[str] = []
+    if (code == 0) != doc["ok"]:
+        found.append(f"exit {code} with ok {doc['ok']}")
+    for where, item in _walk(doc):
+        for key, value in item.items():
+            if isinstance(value, float) and not math.isfinite(value):
+                found.append(f"{where}.{key} = {value}")
+            for flag in ("_unbounded", "_undefined"):
+                if key.endswith(flag) and value is True \
+                        and item.get(key.removesuffix(flag)) is not None:
+                    found.append(f"{where}.{key} true beside a value")
+            if _LIFE_KEY.search(key) and isinstance(value, int | float) \
+                    and not isinstance(value, bool) and value < 0:
+                found.append(f"negative life {where}.{key} = {value}")
+            if key == "verdict" or key.endswith("_verdict"):
+                if value not in VERDICTS:
+                    found.append(f"{where}.{key} = {value!r} is no verdict state")
+                    continue
+                ok_key = "ok" if key == "verdict" else key.replace("_verdict", "_ok")
+                if isinstance(item.get(ok_key), bool) \
+                        and item[ok_key] != (value in PASSED) \
+                        and not (item[ok_key] is False and _excused(item, key)):
+                    found.append(f"{where}.{ok_key} {item[ok_key]} beside {key} {value!r}")
+                if doc["ok"] and value not in PASSED and not _excused(item, key):
+                    found.append(f"ok true while {where}.{key} is {value!r}")
+    if doc["ok"] and doc.get("not_evaluated"):
+        found.append(f"ok true with not_evaluated {doc['not_evaluated']}")
+    return found
+
+
+# ----------------------------------------------------------------------------- running
+CATALOGUE = ROOT / "models" / "demo_catalogue.csv"
+CATALOGUE_TEXT = CATALOGUE.read_text(encoding="utf-8")
+
+
+def classify(text: str | bytes, folder: Path, catalogue: str | bytes | None = None
+             ) -> Outcome:
+    """Write ``text`` to a model file in ``folder``, run ``check --json`` and judge the
+    outcome and, for exit 0 and 1, the sense of the JSON.
+
+    The catalogue (``catalogue``, else the bundled one) goes beside it, so that seeds
+    with open bearings (``choose: {catalogue: demo_catalogue.csv}``) find it as the
+    bundled models do. The outcome carries the time ``check`` took.
+    """
+    cat_path = folder / CATALOGUE.name
+    cat = CATALOGUE_TEXT if catalogue is None else catalogue
+    if isinstance(cat, bytes):
+        cat_path.write_bytes(cat)
+        cat_shown = cat.decode("utf-8", errors="replace")
+    else:
+        cat_path.write_text(cat, encoding="utf-8", newline="")
+        cat_shown = cat
     path = folder / "fuzzed.yaml"
     if isinstance(text, bytes):
         path.write_bytes(text)
@@ -413,9 +556,62 @@ def classify(text: str | bytes, folder: Path) -> Outcome:
     else:
         path.write_text(text, encoding="utf-8")
         shown = text
-    code, err = run_check(path)
+    out = folder / "result.json"
+    out.unlink(missing_ok=True)
+    start = time.perf_counter()
+    code, err = run_check(path, "--json", str(out))
+    seconds = time.perf_counter() - start
     exc = raised_error(path) if code in {2, 3} else None
-    return judge(code, err, path, shown, exc)
+    outcome = judge(code, err, path, shown, exc, (cat_path, cat_shown))
+    if outcome.kind in {"ok", "target_missed"}:
+        if not out.exists():
+            outcome = _fail("contradiction", code, f"exit {code} but no JSON written")
+        else:
+            found = result_contradictions(out.read_text(encoding="utf-8"), code)
+            if found:
+                outcome = _fail("contradiction", code, "; ".join(found[:8]))
+    return dataclasses.replace(outcome, seconds=seconds)
+
+
+#: A mutation may take at most this many times its unmutated seed, plus the allowance
+#: below, before it counts as a slow path (bounded work, not a benchmark).
+SLOW_FACTOR = 2.0
+#: Fixed allowance [s] for noise: garbage collection, a loaded 2-core CI runner, a
+#: module imported lazily on first use (the seeds take 0.07..0.5 s here).
+SLOW_ALLOWANCE_S = 1.5
+_SEED_SECONDS: dict[str, float] = {}
+
+
+def seed_seconds(seed: str, folder: Path) -> float:
+    """Time [s] ``check`` takes on the unmutated seed (best of two after a warm-up run,
+    measured once per process)."""
+    if seed not in _SEED_SECONDS:
+        runs = [classify(SEED_TEXTS[seed], folder).seconds for _ in range(3)]
+        _SEED_SECONDS[seed] = min(runs[1:])
+    return _SEED_SECONDS[seed]
+
+
+@dataclass(frozen=True)
+class Fuzzed:
+    """One generated example: the model text, its seed, the mutation kind applied
+    (``generator:operation``) and, when damaged, the catalogue text beside it."""
+
+    text: str | bytes
+    seed: str
+    kind: str
+    catalogue: str | bytes | None = None
+
+
+def check_fuzzed(example: Fuzzed, folder: Path) -> Outcome:
+    """Classify ``example`` and fail it when it took far longer than its seed."""
+    outcome = classify(example.text, folder, example.catalogue)
+    limit = SLOW_FACTOR * seed_seconds(example.seed, folder) + SLOW_ALLOWANCE_S
+    if not outcome.failed and outcome.seconds > limit:
+        return _fail("slow", outcome.code,
+                     f"{example.kind} took {outcome.seconds:.2f} s, more than "
+                     f"{SLOW_FACTOR:g} x its seed {example.seed} plus "
+                     f"{SLOW_ALLOWANCE_S:g} s = {limit:.2f} s")
+    return outcome
 
 
 def dump_tree(tree: Any) -> str:
@@ -434,31 +630,45 @@ def dump_tree(tree: Any) -> str:
 
 
 # ----------------------------------------------------------------------------- generators
-def mutated_tree_text(data: st.DataObject) -> str:
+def _first(ops: list[str]) -> str:
+    return ops[0] if ops else "none"
+
+
+def mutated_tree(data: st.DataObject) -> tuple[str, str, list[str]]:
+    """A seed's name, the seed with one to three structural mutations dumped as block
+    YAML, and the mutations' names."""
+    seed = data.draw(st.sampled_from(SEED_NAMES))
+    tree = copy.deepcopy(SEED_TREES[seed])
+    ops = [mutate_tree(data, tree) for _ in range(data.draw(st.integers(1, 3)))]
+    return seed, dump_tree(tree), ops
+
+
+def mutated_tree_text(data: st.DataObject) -> Fuzzed:
     """A seed model with one to three structural mutations, dumped as block YAML."""
-    tree = copy.deepcopy(SEED_TREES[data.draw(st.sampled_from(SEED_NAMES))])
-    for _ in range(data.draw(st.integers(1, 3))):
-        mutate_tree(data, tree)
-    return dump_tree(tree)
+    seed, text, ops = mutated_tree(data)
+    return Fuzzed(text, seed, f"tree:{_first(ops)}")
 
 
-def damaged_text(data: st.DataObject) -> str | bytes:
+def damaged_text(data: st.DataObject) -> Fuzzed:
     """A seed model's text with character damage, or byte damage."""
-    text = SEED_TEXTS[data.draw(st.sampled_from(SEED_NAMES))]
+    seed = data.draw(st.sampled_from(SEED_NAMES))
+    text = SEED_TEXTS[seed]
     if data.draw(st.booleans()):
-        text = damage_text(data, text)
-        return text
-    return damage_bytes(data, text.encode("utf-8"))
+        ops: list[str] = []
+        return Fuzzed(damage_text(data, text, ops), seed, f"text:{_first(ops)}")
+    return Fuzzed(damage_bytes(data, text.encode("utf-8")), seed, "text:bytes")
 
 
 _QUANTITY_TEXT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*)$")
 
 
-def scaled_numbers_text(data: st.DataObject) -> str:
+def scaled_numbers_text(data: st.DataObject) -> Fuzzed:
     """A seed model whose numbers (in their own units) are scaled, zeroed, negated or
     nudged by micrometres: the file stays well-formed, the solver meets extreme
     stiffness ratios, coincident stations and degenerate values."""
-    tree = copy.deepcopy(SEED_TREES[data.draw(st.sampled_from(SEED_NAMES))])
+    seed = data.draw(st.sampled_from(SEED_NAMES))
+    tree = copy.deepcopy(SEED_TREES[seed])
+    hows: list[str] = []
     leaves = [p for p in tree_paths(tree) if (isinstance(get_at(tree, p), int | float)
               and not isinstance(get_at(tree, p), bool))
               or (isinstance(get_at(tree, p), str) and _QUANTITY_TEXT.match(get_at(tree, p)))]
@@ -474,6 +684,7 @@ def scaled_numbers_text(data: st.DataObject) -> str:
         else:
             number, unit = float(value), ""
         how = data.draw(st.sampled_from(["scale", "scale", "zero", "negate", "nudge"]))
+        hows.append(how)
         if how == "scale":
             number *= 10.0 ** data.draw(st.integers(-12, 12))
         elif how == "zero":
@@ -483,19 +694,118 @@ def scaled_numbers_text(data: st.DataObject) -> str:
         else:
             number += data.draw(st.sampled_from([1e-9, 1e-6, 1e-4, 2e-3, -1e-6, -1e-4]))
         parent[path[-1]] = f"{number!r} {unit}".strip() if unit else number
-    return dump_tree(tree)
+    return Fuzzed(dump_tree(tree), seed, f"numbers:{_first(hows)}")
 
 
-def mixed_text(data: st.DataObject) -> str:
+def mixed_text(data: st.DataObject) -> Fuzzed:
     """Structural mutation followed by character damage."""
-    return damage_text(data, mutated_tree_text(data))
+    seed, text, ops = mutated_tree(data)
+    return Fuzzed(damage_text(data, text), seed, f"mixed:{_first(ops)}")
 
 
-GENERATORS: dict[str, Callable[[st.DataObject], str | bytes]] = {
+#: Seeds that choose bearings from the bundled catalogue (damaged by ``catalogue``).
+CATALOGUE_SEEDS = [n for n in SEED_NAMES if CATALOGUE.name in SEED_TEXTS[n]]
+#: Cell values of the wrong kind, unit, size or range.
+CELL_JUNK = ["", " ", "0", "-0", "-1", "-13.7", "1e-300", "1e300", "1e20", "nan", "inf",
+             "-inf", "NaN", "x", "12 kN", "12,5", "0x10", "1_000", "  7  ", '"', '"a,b"',
+             "1" + "0" * 400, "9" * 5000, "deep_groove_ball", "tapered_roller",
+             "unicorn_bearing", "\x00", "é", "∞", "1e-3", "99999", "3.5e4"]
+#: Replacement units and names for header cells (``C_kN`` becomes ``C_lbf``...).
+HEADER_UNITS = ["kN", "N", "lbf", "kg", "mm", "m", "inch", "rpm", "Hz", "", "furlong",
+                "EUR", "USD", "kN*m", "1/s", "%", "deg", "rad", "g"]
+
+
+def _catalogue_rows(text: str) -> tuple[list[str], int | None]:
+    """The lines of a CSV catalogue and the index of its header (first non-comment
+    line; None when there is none left)."""
+    lines = text.split("\n")
+    header = next((i for i, line in enumerate(lines) if line and not line.startswith("#")),
+                  None)
+    return lines, header
+
+
+def damage_catalogue(data: st.DataObject, text: str) -> tuple[str | bytes, list[str]]:
+    """Damage of a CSV catalogue: rows dropped, duplicated, swapped or cut; cells
+    replaced with junk, added or removed; header names and units changed, columns
+    dropped or duplicated; a units row; character and byte damage; an empty file."""
+    ops: list[str] = []
+    for _ in range(data.draw(st.integers(1, 3))):
+        op = data.draw(st.sampled_from([
+            "cell", "cell", "cell", "drop_row", "dup_row", "swap_rows", "add_cell",
+            "drop_cell", "header_unit", "header_name", "drop_column", "dup_column",
+            "unit_row", "text", "bytes", "empty", "only_header"]))
+        ops.append(op)
+        lines, header = _catalogue_rows(text)
+        if header is None:  # no header left to damage
+            break
+        rows = [i for i in range(header + 1, len(lines)) if lines[i]]
+        row = data.draw(st.sampled_from(rows)) if rows else header
+        cells = lines[row].split(",")
+        names = lines[header].split(",")
+        col = data.draw(st.integers(0, len(names) - 1))
+        if op == "cell":
+            cells[min(col, len(cells) - 1)] = data.draw(st.sampled_from(CELL_JUNK)
+                                                        | st.text(max_size=8))
+            lines[row] = ",".join(cells)
+        elif op == "drop_row":
+            del lines[row]
+        elif op == "dup_row":
+            lines.insert(row, lines[row])
+        elif op == "swap_rows":
+            lines[row], lines[header] = lines[header], lines[row]
+        elif op == "add_cell":
+            cells.insert(col, data.draw(st.sampled_from(CELL_JUNK)))
+            lines[row] = ",".join(cells)
+        elif op == "drop_cell":
+            del cells[min(col, len(cells) - 1)]
+            lines[row] = ",".join(cells)
+        elif op in {"header_unit", "header_name"}:
+            name = names[col]
+            stem, _, _unit = name.rpartition("_") if "_" in name else (name, "", "")
+            if op == "header_unit":
+                names[col] = f"{stem}_{data.draw(st.sampled_from(HEADER_UNITS))}".rstrip("_")
+            else:
+                names[col] = data.draw(st.sampled_from(
+                    ["", "C", "C_kN", "d_mm", "designation", "type", "Cu", "extra_mm",
+                     name.upper(), f" {name}", f"{name} "]) | st.text(max_size=6))
+            lines[header] = ",".join(names)
+        elif op in {"drop_column", "dup_column"}:
+            for i in [header, *rows]:
+                row_cells = lines[i].split(",")
+                if col < len(row_cells):
+                    if op == "drop_column":
+                        del row_cells[col]
+                    else:
+                        row_cells.insert(col, row_cells[col])
+                lines[i] = ",".join(row_cells)
+        elif op == "unit_row":
+            lines.insert(header + 1, ",".join(
+                data.draw(st.sampled_from(HEADER_UNITS)) for _ in names))
+        elif op == "text":
+            return damage_text(data, text), ops
+        elif op == "bytes":
+            return damage_bytes(data, text.encode("utf-8")), ops
+        elif op == "empty":
+            return data.draw(st.sampled_from(["", "\n", "# only a comment\n"])), ops
+        else:  # the header alone
+            lines = lines[:header + 1]
+        text = "\n".join(lines)
+    return text, ops
+
+
+def damaged_catalogue(data: st.DataObject) -> Fuzzed:
+    """A seed with open bearings, unchanged, beside a damaged catalogue file."""
+    seed = data.draw(st.sampled_from(CATALOGUE_SEEDS))
+    text, ops = damage_catalogue(data, CATALOGUE_TEXT)
+    return Fuzzed(SEED_TEXTS[seed], seed, f"catalogue:{_first(ops)}", text)
+
+
+GENERATORS: dict[str, Callable[[st.DataObject], Fuzzed]] = {
     "tree": mutated_tree_text,
     "numbers": scaled_numbers_text,
     "text": damaged_text,
     "mixed": mixed_text,
+    "catalogue": damaged_catalogue,
 }
 
 #: Outcomes of every example run in this process (read by benchmarks/fuzz_long.py).
@@ -504,10 +814,13 @@ HISTOGRAM: Counter[str] = Counter()
 
 def fuzz_one(generator: str, data: st.DataObject, folder: Path) -> Outcome:
     """Generate one file with ``GENERATORS[generator]``, check it and count the outcome."""
-    text = GENERATORS[generator](data)
-    outcome = classify(text, folder)
+    outcome = check_fuzzed(GENERATORS[generator](data), folder)
     HISTOGRAM[f"{generator}:{outcome.kind}"] += 1
     return outcome
+
+
+#: Time box [s] of each generator's CI sample (five generators: about 50 s in all).
+CI_SECONDS = float(os.environ.get("SHAFTSYS_FUZZ_SECONDS", "10"))
 
 
 def _ci_settings() -> settings:
@@ -517,16 +830,29 @@ def _ci_settings() -> settings:
 
 @pytest.mark.parametrize("generator", sorted(GENERATORS))
 def test_fuzzed_model_files_keep_the_contract(generator: str) -> None:
+    """Up to ``CI_EXAMPLES`` examples in ``CI_SECONDS``: no traceback, no broken
+    contract, no contradiction in the JSON, no mutation far slower than its seed."""
+    done = 0
     with tempfile.TemporaryDirectory() as tmp:
         folder = Path(tmp)
+        for seed in SEED_NAMES:  # the baselines, outside the time box
+            seed_seconds(seed, folder)
+        stop = time.monotonic() + CI_SECONDS
 
         @_ci_settings()
         @given(st.data())
         def run(data: st.DataObject) -> None:
-            outcome = fuzz_one(generator, data, folder)
-            assert not outcome.failed, outcome.detail
+            nonlocal done
+            example = GENERATORS[generator](data)  # drawn always: the same data each run
+            if time.monotonic() > stop:
+                return
+            outcome = check_fuzzed(example, folder)
+            HISTOGRAM[f"{generator}:{outcome.kind}"] += 1
+            done += 1
+            assert not outcome.failed, f"{outcome.category}: {outcome.detail}"
 
         run()
+    assert done >= min(CI_EXAMPLES, 20), f"only {done} examples ran in {CI_SECONDS} s"
 
 
 @pytest.mark.parametrize("name", SEED_NAMES)
@@ -572,3 +898,95 @@ def test_the_judge_on_exit_3_and_tracebacks(tmp_path: Path) -> None:
     assert judge(2, "Traceback (most recent call last):\n", path, "a: 1\n", None).failed
     other = _model_error(path, 1, None, "invalid YAML: x")
     assert judge(2, "shaftsys: error: something else\n", path, "a: 1\n", other).failed
+
+
+@pytest.mark.parametrize(("line", "field", "message", "kind"), [
+    (10, "C_kN", "'x' is not a number", "bad_input"),
+    (10, "column 4", "a column without a name in the header holds values", "bad_input"),
+    (10, None, "the row has 21 cells, the header names 22 columns", "bad_input"),
+    (9, "designation", "the header has no column 'designation'", "bad_input"),
+    (999, "C_kN", "'x' is not a number", "FAIL"),                 # line outside the file
+    (None, "C_kN", "'x' is not a number", "FAIL"),                # no line
+    (10, None, "'x' is not a number", "FAIL"),                    # no column
+    (10, "bogus_col", "'x' is not a number", "FAIL"),             # column not in the file
+])
+def test_the_judge_on_catalogue_errors(line: int | None, field: str | None, message: str,
+                                       kind: str, tmp_path: Path) -> None:
+    """An error naming the catalogue is judged against the catalogue's lines and
+    columns (common practice, no source: this project's contract)."""
+    model, cat = tmp_path / "m.yaml", tmp_path / CATALOGUE.name
+    exc = _model_error(cat, line, field, message)
+    got = judge(2, f"shaftsys: error: {exc}\n", model, "a: 1\n", exc, (cat, CATALOGUE_TEXT))
+    assert got.kind == kind, got.detail
+
+
+@pytest.fixture(scope="module")
+def open_result_json(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Any]:
+    """The JSON of ``check`` on the seed with open bearings (a passing run)."""
+    folder = tmp_path_factory.mktemp("sense")
+    (folder / CATALOGUE.name).write_text(CATALOGUE_TEXT, encoding="utf-8")
+    (folder / "m.yaml").write_text(SEED_TEXTS["belt_reducer_open.yaml"], encoding="utf-8")
+    code, err = run_check(folder / "m.yaml", "--json", str(folder / "r.json"))
+    assert code == 0, err
+    doc: dict[str, Any] = json.loads((folder / "r.json").read_text(encoding="utf-8"))
+    return doc
+
+
+def _damaged(doc: dict[str, Any], how: str) -> tuple[str, int]:
+    """The JSON text and exit code of one contradiction made by hand."""
+    doc = copy.deepcopy(doc)
+    shaft = doc["shaft_checks"]["shafts"][0]
+    code = 0
+    if how == "bearing fails":
+        doc["bearings"][0]["verdict"], doc["bearings"][0]["ok"] = "fail", False
+    elif how == "fatigue not evaluated":
+        shaft["fatigue_verdict"], shaft["fatigue_ok"] = "not evaluated", False
+    elif how == "fatigue not evaluated, not required":  # no contradiction
+        shaft["fatigue_verdict"], shaft["fatigue_ok"] = "not evaluated", False
+        shaft["fatigue_required"] = False
+    elif how == "ok beside a failed verdict":
+        doc["bearings"][0]["ok"] = False
+    elif how == "negative life":
+        doc["bearings"][0]["life"]["L10_h"] = -5.0
+    elif how == "NaN":
+        doc["system"]["life_h"] = float("nan")
+    elif how == "unbounded beside a value":
+        doc["system"]["life_h_unbounded"] = True
+    elif how == "no verdict state":
+        doc["verdict"] = "ok-ish"
+    elif how == "exit 1 with ok true":
+        code = 1
+    elif how == "not_evaluated listed":
+        doc["not_evaluated"] = ["fatigue of shaft 'input' not evaluated"]
+    return json.dumps(doc), code
+
+
+@pytest.mark.parametrize(("how", "contradicts"), [
+    ("as written", False),
+    ("bearing fails", True),
+    ("fatigue not evaluated", True),
+    ("fatigue not evaluated, not required", False),
+    ("ok beside a failed verdict", True),
+    ("negative life", True),
+    ("NaN", True),
+    ("unbounded beside a value", True),
+    ("no verdict state", True),
+    ("exit 1 with ok true", True),
+    ("not_evaluated listed", True),
+])
+def test_the_sense_check_itself(open_result_json: dict[str, Any], how: str,
+                                contradicts: bool) -> None:
+    """The JSON sense check finds each contradiction made by hand in a real result and
+    accepts the result as written (common practice, no source)."""
+    assert result_contradictions(json.dumps(open_result_json), 0) == []
+    text, code = _damaged(open_result_json, how)
+    assert bool(result_contradictions(text, code)) == contradicts
+
+
+def test_a_slow_path_is_a_failure(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    """The slow-path rule fails an example whose time exceeds factor x seed + allowance
+    (baseline and allowance set to zero here, so any real run exceeds them)."""
+    example = Fuzzed(SEED_TEXTS["conftest_base"], "conftest_base", "test:none")
+    monkeypatch.setattr(sys.modules[__name__], "SLOW_ALLOWANCE_S", 0.0)
+    monkeypatch.setitem(_SEED_SECONDS, "conftest_base", 0.0)
+    assert check_fuzzed(example, tmp_path).category == "slow"
