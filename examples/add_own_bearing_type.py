@@ -36,8 +36,8 @@ from pathlib import Path
 from typing import Any
 
 import shaftsys
-from shaftsys.bearings import evaluate_bearing
 from shaftsys.analysis.life import spectrum_of
+from shaftsys.bearings import evaluate_bearing
 from shaftsys.model import Bearing, BearingKind
 
 MODEL = Path(__file__).resolve().parent.parent / "models" / "fan_drive.yaml"

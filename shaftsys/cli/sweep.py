@@ -78,6 +78,8 @@ def add_sweep_parser(subparsers: Any) -> argparse.ArgumentParser:
                    help="print the seconds spent evaluating and writing to stderr")
     p.add_argument("--chunk", type=int, metavar="N", help="variants per chunk")
     p.add_argument("--resume", action="store_true", help="continue an interrupted study")
+    p.add_argument("--overwrite", action="store_true",
+                   help="replace the results of an earlier study in --out")
     p.add_argument("--quiet", "-q", action="store_true", help="print nothing but errors")
     return p
 
@@ -129,6 +131,7 @@ def run_sweep(args: argparse.Namespace) -> int:
         try:
             run = run_study(study, out, chunk_size=args.chunk, scheduler=args.scheduler,
                             workers=args.workers, resume=args.resume, formats=formats,
+                            overwrite=args.overwrite,
                             dashboard=args.dashboard)
         finally:
             if previous is not None:

@@ -112,8 +112,9 @@ def _read_manifest(out: Path) -> dict[str, Any] | None:
     try:
         data = json.loads(path.read_text(encoding="utf-8"))
     except (OSError, ValueError) as exc:
-        raise ModelError(f"cannot read the study checkpoint {path}: {exc}",
-                         expected="a manifest written by shaftsys, or a new folder") from None
+        raise ModelError(f"cannot read the study checkpoint {path}: {str(exc)[:80]}",
+                         field="--resume", expected="a manifest written by shaftsys, a new "
+                         "--out folder, or --overwrite to start again") from None
     return data if isinstance(data, dict) else None
 
 
@@ -127,12 +128,68 @@ def _write_manifest(out: Path, study: Study, chunk: int, done: set[int]) -> None
     })
 
 
-def _write_chunk(out: Path, cid: int, df: pd.DataFrame) -> None:
+def _write_chunk(out: Path, cid: int, df: pd.DataFrame, fingerprint: str = "") -> None:
+    """Write chunk ``cid``; its file carries the study's fingerprint in its metadata."""
     import pyarrow as pa
     import pyarrow.parquet as pq
 
     table = pa.Table.from_pandas(df, preserve_index=False)
+    meta = dict(table.schema.metadata or {})
+    meta[_CHUNK_KEY] = fingerprint.encode()
+    table = table.replace_schema_metadata(meta)
     atomic_write(_chunk_path(out, cid), lambda fh: pq.write_table(table, fh))
+
+
+#: Metadata key of a chunk file naming the study it belongs to.
+_CHUNK_KEY = b"shaftsys_study_fingerprint"
+#: The lock file of a folder while a study runs in it.
+LOCK = ".study.lock"
+
+
+def _chunk_belongs(path: Path, fingerprint: str, rows: int) -> bool:
+    """The chunk file is readable, has ``rows`` rows and names this study."""
+    import pyarrow.parquet as pq
+
+    try:
+        meta = pq.read_metadata(path)
+    except Exception:  # a truncated or damaged file: pyarrow raises several types
+        return False
+    stored = (meta.metadata or {}).get(_CHUNK_KEY, b"").decode(errors="replace")
+    return meta.num_rows == rows and stored == fingerprint
+
+
+def _pid_alive(pid: int) -> bool:
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return False
+    except PermissionError:
+        return True
+    return True
+
+
+def _lock(out: Path) -> Path:
+    """Take the folder's lock (a second study in it is refused while one runs)."""
+    path = out / LOCK
+    for _ in range(2):
+        try:
+            fd = os.open(path, os.O_CREAT | os.O_EXCL | os.O_WRONLY, 0o644)
+        except FileExistsError:
+            try:
+                pid = int(path.read_text(encoding="utf-8").strip() or "0")
+            except (OSError, ValueError):
+                pid = 0
+            if pid and pid != os.getpid() and _pid_alive(pid):
+                raise ModelError(f"{out} is in use by a study that is running (process {pid})",
+                                 field="--out", expected="another --out folder, or wait for "
+                                 "that study to end") from None
+            path.unlink(missing_ok=True)      # a lock left by a killed run
+            continue
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            fh.write(str(os.getpid()))
+        return path
+    raise ModelError(f"cannot take the lock {path}", field="--out",
+                     expected="a folder this process may write")
 
 
 def _chunk_task(study: Study, lo: int, hi: int, batched: bool | None,
@@ -180,7 +237,7 @@ def run_study(study: Study, out_dir: str | Path, *, chunk_size: int | None = Non
               on_chunk: Callable[[int, int], None] | None = None,
               batched: bool | None = None,
               formats: Sequence[str] = LIBRARY_FORMATS,
-              dashboard: str | None = None) -> StudyRun:
+              dashboard: str | None = None, overwrite: bool = False) -> StudyRun:
     """Evaluate every variant of ``study`` into ``out_dir`` (see the module docstring).
 
     Parameters
@@ -201,10 +258,18 @@ def run_study(study: Study, out_dir: str | Path, *, chunk_size: int | None = Non
     formats: result files to write: any of ``"parquet"``, ``"csv"``, ``"json"``.
     dashboard: address of the local cluster's dask dashboard (e.g. ``":8787"``);
         default none.
+    overwrite: replace the results of another study (or of this one) in ``out_dir``.
+
+    While it runs the folder is locked (``.study.lock`` with the process id): a second
+    study in it is refused; a lock left by a killed process is taken over. Every chunk
+    file carries the study's fingerprint: on ``resume`` a chunk that is missing,
+    truncated or of another study is computed again.
 
     Raises
     ------
-    ModelError: ``out_dir`` holds another study, or its checkpoint is unreadable.
+    ModelError: ``out_dir`` is in use by a running study, holds another study's (or
+        this study's) results without ``resume``/``overwrite``, or its checkpoint is
+        damaged.
     OutputError: a file cannot be written.
     """
     formats = parse_formats(formats)
@@ -212,18 +277,60 @@ def run_study(study: Study, out_dir: str | Path, *, chunk_size: int | None = Non
     t_start = time.perf_counter()
     out = Path(out_dir)
     (out / "chunks").mkdir(parents=True, exist_ok=True)
+    lock = _lock(out)
+    try:
+        return _run_locked(study, out, chunk_size, scheduler, workers, threshold, resume,
+                           progress, on_chunk, batched, formats, dashboard, overwrite, clock,
+                           t_start)
+    finally:
+        lock.unlink(missing_ok=True)
+
+
+def _run_locked(study: Study, out: Path, chunk_size: int | None, scheduler: str | None,
+                workers: int | None, threshold: int, resume: bool, progress: bool | None,
+                on_chunk: Callable[[int, int], None] | None, batched: bool | None,
+                formats: Sequence[str], dashboard: str | None, overwrite: bool,
+                clock: dict[str, float], t_start: float) -> StudyRun:
+    """:func:`run_study` with the folder's lock held."""
     _remove_stale_parts(out)
     N = study.n_variants
-    manifest = _read_manifest(out) if resume else None
-    if manifest is not None:
-        if manifest.get("fingerprint") != study.fingerprint():
-            raise ModelError(f"{out} holds the checkpoint of a different study",
-                             field="--resume", expected="the same model and sweep, or a new --out")
-        chunk = int(manifest["chunk_size"])
-        done = {int(c) for c in manifest.get("done", []) if _chunk_path(out, int(c)).is_file()}
+    fingerprint = study.fingerprint()
+    try:
+        manifest = _read_manifest(out)
+    except ModelError:
+        if not overwrite:
+            raise
+        manifest = None
+    if manifest is not None and manifest.get("fingerprint") != fingerprint and not overwrite:
+        raise ModelError(f"{out} holds the results of a different study",
+                         field="--resume" if resume else "--out",
+                         expected="the same model and sweep, a new --out folder, or "
+                         "--overwrite to replace that study")
+    if manifest is not None and not resume and not overwrite and manifest.get("done"):
+        raise ModelError(f"{out} already holds this study's results",
+                         field="--out", expected="--resume to continue it, --overwrite to run "
+                         "it again, or a new --out folder")
+    if resume and manifest is not None and manifest.get("fingerprint") == fingerprint:
+        try:
+            chunk = int(manifest["chunk_size"])
+            listed = {int(c) for c in manifest.get("done", [])}
+        except (KeyError, TypeError, ValueError):
+            raise ModelError(f"the study checkpoint {out / MANIFEST} is damaged",
+                             field="--resume", expected="a manifest written by shaftsys, or "
+                             "--overwrite to start again") from None
+        done = set()
+        for c in listed:
+            if c >= 0 and c * chunk < N and _chunk_belongs(_chunk_path(out, c), fingerprint,
+                                                             _size(c, chunk, N)):
+                done.add(c)
+            else:
+                log.warning("study: chunk %d in %s is missing, damaged or of another study; "
+                            "it is computed again", c, out)
     else:
         chunk = int(chunk_size or default_chunk_size(study))
         done = set()
+        for old in (out / "chunks").glob("chunk_*.parquet"):   # an overwritten study
+            old.unlink(missing_ok=True)
     if chunk < 1:
         raise ModelError(f"chunk size {chunk} < 1", field="chunk_size", expected=">= 1")
     _write_manifest(out, study, chunk, done)
@@ -244,7 +351,7 @@ def run_study(study: Study, out_dir: str | Path, *, chunk_size: int | None = Non
         for cid, df in results:
             t1 = time.perf_counter()
             clock["evaluate"] += t1 - t0
-            _write_chunk(out, cid, df)
+            _write_chunk(out, cid, df, fingerprint)
             done.add(cid)
             _write_manifest(out, study, chunk, done)
             t0 = time.perf_counter()
