@@ -311,3 +311,21 @@ def test_adjusted_pair_reaches_a_fixed_point(kind: str) -> None:
         expected = (0.5 * loads[bid].Fr_N / brg.Y if brg.Y is not None else
                     1.32 * loads[bid].Fr_N * math.tan(math.radians(brg.contact_angle_deg)))
         assert loads[bid].induced_N == pytest.approx(expected, rel=1e-12)
+
+
+def test_a_row_wider_than_its_seat_does_not_fit() -> None:
+    """Common practice, no source: a bearing's width stays on the steps of the seat
+    diameter (no overlap of the shoulder). Bearing A at 90 mm on the 40 mm step that
+    ends at 100 mm leaves 2 x 10 mm = 20 mm of seat: the 23 mm and 25 mm wide rows that
+    would qualify are out, the two narrow ones lack C."""
+    c_req = _required_C_by_hand()
+    model = load_model_text(_model_text())
+    sh = model.shafts[0]
+    moved = dataclasses.replace(sh, bearings=tuple(
+        dataclasses.replace(b, x_mm=90.0) if b.id == "A" else b for b in sh.bearings))
+    model = _open(dataclasses.replace(model, shafts=(moved,)), _catalogue(c_req))
+    _, sel = choose_bearings(model)
+    seat = sel.seat("A")
+    assert seat.remaining[0] == 2
+    assert seat.candidate is None and seat.reason_if_none is not None
+    assert "lacks C" in seat.reason_if_none

@@ -33,7 +33,8 @@ from shaftsys.analysis.solve import solve_model
 from shaftsys.bearings.arrays import BearingArrays
 from shaftsys.bearings.kernel import LIFE_BASIS_MODIFIED, LifeArrays, evaluate
 from shaftsys.bearings.rating import E_TAN, pressure_centre_offset_mm
-from shaftsys.model import AxialRole, Bearing, BearingKind, Model, SetArrangement
+from shaftsys.machine.seats import BORE_TOLERANCE_MM, OVERLAP_TOLERANCE_MM
+from shaftsys.model import AxialRole, Bearing, BearingKind, Model, SetArrangement, Shaft
 from shaftsys.model.catalogue import KIND_CODE, Catalogue
 from shaftsys.model.selection import Objective, OpenSeat
 
@@ -171,6 +172,7 @@ def _fit_miss(seat: OpenSeat, kinds: frozenset[BearingKind]) -> str:
     if seat.housing_bores_mm:
         limits.append("D in the housing bores " + ", ".join(f"{h:g}" for h in
                                                             seat.housing_bores_mm) + " mm")
+    limits.append("B within the seat, clear of the shoulders")
     return (f"no row with bore {seat.bore_mm:g} mm meets the envelope "
             f"({'; '.join(limits)}): the smallest is {cat.designation[smallest]} with "
             f"D = {cat.D_mm[smallest]:g} mm, B = {_fmt(float(cat.B_mm[smallest]), ' mm')}")
@@ -187,10 +189,34 @@ def _envelope(seat: OpenSeat) -> str:
     return ", ".join(parts)
 
 
-def fitting_rows(seat: OpenSeat, placeholder: Bearing
+def seat_width_mm(shaft: Shaft | None, placeholder: Bearing, bore_mm: float) -> float:
+    """Widest bearing [mm] that sits at ``placeholder.x_mm`` without overlapping a
+    shoulder: twice the distance from the station to the nearer end of the run of
+    steps whose diameter is the seat bore (within the seat tolerance of
+    :mod:`shaftsys.machine.seats`); ``inf`` without a shaft or on a sleeve.
+    """
+    if shaft is None or placeholder.on_sleeve:
+        return math.inf
+    edges = np.asarray(shaft.step_edges_mm, dtype=float)
+    d = np.array([st.d_mm for st in shaft.steps], dtype=float)
+    x = placeholder.x_mm
+    same = np.abs(d - bore_mm) <= BORE_TOLERANCE_MM
+    k = int(np.clip(np.searchsorted(edges, x, side="right") - 1, 0, d.size - 1))
+    if not same[k]:
+        return 0.0
+    lo_i, hi_i = k, k
+    while lo_i > 0 and same[lo_i - 1]:
+        lo_i -= 1
+    while hi_i < d.size - 1 and same[hi_i + 1]:
+        hi_i += 1
+    return 2.0 * min(x - edges[lo_i], edges[hi_i + 1] - x) + 2.0 * OVERLAP_TOLERANCE_MM
+
+
+def fitting_rows(seat: OpenSeat, placeholder: Bearing, shaft: Shaft | None = None
                  ) -> tuple[npt.NDArray[np.intp], frozenset[BearingKind]]:
     """Catalogue rows that fit the seat (type allowed and suited to the support's axial
-    role, bore within the tolerance, envelope, housing bores) and the types allowed.
+    role, bore within the tolerance, envelope, housing bores, and, with ``shaft``, a
+    width that stays on the seat without overlapping a shoulder) and the types allowed.
     """
     cat = seat.catalogue
     kinds = types_for_role(placeholder.axial, placeholder.pair, placeholder.arrangement)
@@ -201,6 +227,7 @@ def fitting_rows(seat: OpenSeat, placeholder: Bearing
         fit &= cat.D_mm <= seat.max_D_mm + 1e-9
     if seat.max_B_mm is not None:
         fit &= ~(cat.B_mm > seat.max_B_mm + 1e-9)
+    fit &= ~(cat.B_mm > seat_width_mm(shaft, placeholder, seat.bore_mm))
     if seat.housing_bores_mm:
         hb = np.asarray(seat.housing_bores_mm, dtype=float)
         fit &= np.any(np.abs(cat.D_mm[:, None] - hb[None, :]) <= seat.bore_tolerance_mm,
@@ -224,7 +251,7 @@ def choose_seat(model: Model, seat: OpenSeat, placeholder: Bearing, loads: Beari
     ``loads`` is the support's solved result (its spectrum over every case).
     """
     cat = seat.catalogue
-    rows, kinds = fitting_rows(seat, placeholder)
+    rows, kinds = fitting_rows(seat, placeholder, model.shaft(seat.shaft_id))
     remaining = [int(rows.size)]
     if rows.size == 0:
         return SeatChoice(seat.bearing_id, seat.shaft_id, None, None, (), tuple(remaining),

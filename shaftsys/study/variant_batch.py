@@ -201,7 +201,7 @@ def _open_choices(model: Model, shaft: Shaft) -> tuple[OpenChoice, ...]:
             continue
         j = index[seat.bearing_id]
         p = shaft.bearings[j]
-        rows, _ = fitting_rows(seat, p)
+        rows, _ = fitting_rows(seat, p, shaft)
         by_margin = model.selection.objective is Objective.LARGEST_MARGIN
         order = rank_order(seat.catalogue, rows, np.zeros(rows.size),
                            Objective.SMALLEST if by_margin else model.selection.objective)
