@@ -104,6 +104,20 @@ def test_uniform_simply_supported_first_bending_frequency():
     assert sc.first_critical_rpm == pytest.approx(_rpm(_omega_ss_uniform()), rel=1e-4)
 
 
+def test_modal_mesh_of_a_long_fine_mesh_is_capped_and_still_converged():
+    """A 1 mm solver mesh (1000 elements) is capped to MODAL_MAX_ELEMENTS for the
+    eigenproblem: the first critical speed equals the one of a 1000/300 mm mesh and still
+    meets the closed form (Rao; Shigley eq. 7-22) to 1e-4."""
+    from shaftsys.analysis.shaft_checks import MODAL_MAX_ELEMENTS
+
+    model = load_model_text(_uniform_yaml(max_element_mm=1.0))
+    fine = critical_speeds_rpm(model.shafts[0], model)
+    capped = critical_speeds_rpm(model.shafts[0], model,
+                                 max_element_mm=1000.0 / MODAL_MAX_ELEMENTS)
+    assert fine == capped
+    assert fine[0] == pytest.approx(_rpm(_omega_ss_uniform()), rel=1e-4)
+
+
 def test_uniform_free_free_first_torsional_frequency():
     """Free-free uniform shaft in torsion: omega_1 = (pi/L) sqrt(G/rho), G = E/(2(1+nu))
     (Rao, Mechanical Vibrations, torsional vibration of a shaft, free-free ends); the

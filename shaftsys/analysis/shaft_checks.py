@@ -113,6 +113,11 @@ from shaftsys.model import (
 
 log = logging.getLogger(__name__)
 
+#: Most beam elements of the modal mesh of one shaft: the dense eigenproblem grows with
+#: the cube of the nodes (seconds at 2000 elements), while the first bending mode of
+#: the cubic elements meets its closed form to 1e-4 with 100 (tests/test_shaft_checks.py).
+MODAL_MAX_ELEMENTS = 300
+
 _CP = "common practice, no source"
 #: Sharp-shoulder fillet r/d assumed when no fillet is given (Shigley 9th ed. Table 7-1).
 SHARP_FILLET_R_OVER_D = 0.02
@@ -248,7 +253,11 @@ def critical_speeds_rpm(shaft: Shaft, model: Model, *, max_element_mm: float | N
     tuple of float
         (bending, torsion) as speeds 60 f [rpm]; ``inf`` when there is no such mode.
     """
-    sm = mesh_shaft(shaft, max_element_mm or model.solver.max_element_mm)
+    h = max_element_mm or model.solver.max_element_mm
+    # the dense eigenproblem grows with the cube of the nodes: a long shaft gets at most
+    # MODAL_MAX_ELEMENTS elements (cubic beam elements converge fast in the first modes)
+    h = max(h, shaft.length_mm / MODAL_MAX_ELEMENTS)
+    sm = mesh_shaft(shaft, h)
     n = sm.mesh.n_nodes
     mass = np.zeros(n)
     dia = np.zeros(n)
