@@ -157,7 +157,7 @@ def evaluate_thermal(model: Model, bearings: tuple[BearingResult, ...]) -> Therm
 
 
 def thermal_notes(th: ThermalResult) -> list[str]:
-    """Warnings for the user: runaway, hot cases, fast bearings, factors from memory."""
+    """Warnings for the user: runaway, hot cases, fast bearings, tabulated factors."""
     notes = []
     for k, cid in enumerate(th.case_ids):
         if th.runaway[k]:
@@ -177,7 +177,7 @@ def thermal_notes(th: ThermalResult) -> list[str]:
     untabled = [b for b, g0, g1 in zip(th.bearing_ids, th.f0_given, th.f1_given, strict=True)
                 if not (g0 and g1)]
     if untabled:
-        notes.append("friction factors f0/f1 recalled from memory for bearing(s) "
+        notes.append("friction factors f0/f1 taken from the Palmgren tables for bearing(s) "
                      + ", ".join(untabled) + " - give the supplier's values under "
                      "thermal.friction; the estimate does not replace a measured "
                      "temperature or the supplier's data")

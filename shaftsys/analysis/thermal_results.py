@@ -129,7 +129,7 @@ class ThermalResult:
         return {"verdict": self.verdict, "max_temperature_C": self.max_temperature_C,
                 "reference_temperature_C": self.reference_C,
                 "search_limit_C": self.search_limit_C,
-                "method": "Palmgren friction M = M0 + M1 (f0, f1 from memory unless "
+                "method": "Palmgren friction M = M0 + M1 (f0, f1 tabulated per type unless "
                           "given); one housing, steady heat balance with Walther "
                           "viscosity",
                 "cases": cases}

@@ -21,7 +21,7 @@ DEFAULT_SEARCH_LIMIT_C = 250.0
 
 @dataclass(frozen=True, slots=True)
 class FrictionOverride:
-    """The supplier's friction factors of one bearing (``None`` = table, from memory)."""
+    """The supplier's friction factors of one bearing (``None`` = the type's table)."""
 
     f0: float | None = None
     f1: float | None = None

@@ -10,7 +10,7 @@ from shaftsys.report.tables import format_table
 HEADERS = ["bearing", "case", "M0 N*mm", "M1 N*mm", "M N*mm", "loss W", "T degC",
            "T source", "n rpm", "n heat-bal. rpm", "verdict"]
 CAUTION = ("Friction and temperature are estimates (Palmgren's model, one lumped housing "
-           "temperature, factors from memory unless given): they do not replace a "
+           "temperature, Palmgren's tabulated f0, f1 unless given): they do not replace a "
            "measured temperature or the bearing supplier's data.")
 
 
