@@ -14,7 +14,7 @@ from collections.abc import Callable
 from pathlib import Path
 from typing import Any, BinaryIO
 
-from shaftsys.errors import OutputError
+from shaftsys.errors import ModelError, OutputError
 
 
 def atomic_write(path: str | Path, write: Callable[[BinaryIO], None]) -> Path:
@@ -206,3 +206,42 @@ def write_text(path: str | Path, text: str) -> Path:
 
 def _write_bytes(fh: BinaryIO, data: bytes) -> None:
     fh.write(data)
+
+
+def write_figure(path: str | Path, draw: Callable[[Any], None],
+                 figsize: tuple[float, float], field: str = "--plot") -> Path:
+    """Draw a matplotlib figure with ``draw(fig)`` and write it atomically as .png or .svg
+    (the suffix of ``path`` decides; figures are laid out tightly, labels unclipped).
+
+    Raises
+    ------
+    ModelError: the suffix is not .png or .svg (named as ``field``), or ``draw`` raises.
+    OutputError: the file cannot be written.
+    """
+    import io
+
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    target = Path(path)
+    fmt = target.suffix.lower().lstrip(".")
+    if fmt not in ("png", "svg"):
+        raise ModelError(f"figure type '.{fmt}' not supported", field=field,
+                         expected="a .png or .svg file name")
+    fig = plt.figure(figsize=figsize)
+    try:
+        draw(fig)
+        fig.tight_layout()
+        buf = io.BytesIO()
+        fig.savefig(buf, format=fmt)
+    finally:
+        plt.close(fig)
+    data = buf.getvalue()
+
+    def put(fh: BinaryIO) -> None:
+        fh.write(data)
+
+    return atomic_write(target, put)
+

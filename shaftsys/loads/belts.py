@@ -55,6 +55,28 @@ def _wrap_delta_deg(wrap_angle_deg: float) -> float:
     return 0.5 * (180.0 - wrap)
 
 
+def _strand_load(T_el_Nmm: float, T1_N: float, T2_N: float, theta_deg: float,
+                 delta_deg: float, warnings: list[str], extra: dict[str, float]) -> AxisLoad:
+    """Hub load of two strands: tight T1 and slack T2 [N] leaving at theta -/+ delta
+    [deg] (by the sense of T_el [N*mm]); ``extra`` details go before the strand angles.
+    """
+    tight_deg, slack_deg = _strand_angles_deg(T_el_Nmm, theta_deg, delta_deg)
+    force = T1_N * u_r(tight_deg) + T2_N * u_r(slack_deg)
+    return AxisLoad(
+        force_N=force,
+        moment_Nmm=np.array([T_el_Nmm, 0.0, 0.0]),
+        warnings=tuple(warnings),
+        details={
+            "T_tight_N": T1_N,
+            "T_slack_N": T2_N,
+            **extra,
+            "tight_strand_angle_deg": tight_deg,
+            "slack_strand_angle_deg": slack_deg,
+            "hub_force_N": float(np.linalg.norm(force)),
+        },
+    )
+
+
 def _strand_angles_deg(T_el_Nmm: float, theta_deg: float, delta_deg: float) -> tuple[float, float]:
     """(tight, slack) strand directions [deg]; for ``T_el >= 0`` the tight one is "-"."""
     if T_el_Nmm >= 0.0:
@@ -249,23 +271,8 @@ def belt_hub_load(
             f"{wrap_angle_deg} deg); minimum pretension {T_min:.6g} N, given {T_i:.6g} N"
         )
 
-    tight_deg, slack_deg = _strand_angles_deg(T, theta, delta)
-    force = T1 * u_r(tight_deg) + T2 * u_r(slack_deg)
-    return AxisLoad(
-        force_N=force,
-        moment_Nmm=np.array([T, 0.0, 0.0]),
-        warnings=tuple(warnings),
-        details={
-            "T_tight_N": T1,
-            "T_slack_N": T2,
-            "tension_ratio": ratio,
-            "capstan_limit": R,
-            "min_pretension_N": T_min,
-            "tight_strand_angle_deg": tight_deg,
-            "slack_strand_angle_deg": slack_deg,
-            "hub_force_N": float(np.linalg.norm(force)),
-        },
-    )
+    return _strand_load(T, T1, T2, theta, delta, warnings,
+                        {"tension_ratio": ratio, "capstan_limit": R, "min_pretension_N": T_min})
 
 
 def takeup_belt_hub_load(
@@ -333,23 +340,9 @@ def takeup_belt_hub_load(
             f"{ratio:.4g} exceeds the capstan limit e^(mu phi) = {R:.4g} (mu = "
             f"{friction_coefficient:.3g}, wrap = {wrap_angle_deg:.4g} deg); a slack-side "
             f"tension of at least {T2_min:.4g} N grips")
-    tight_deg, slack_deg = _strand_angles_deg(T, theta, delta)
-    force = T1 * u_r(tight_deg) + T2 * u_r(slack_deg)
-    return AxisLoad(
-        force_N=force,
-        moment_Nmm=np.array([T, 0.0, 0.0]),
-        warnings=tuple(warnings),
-        details={
-            "T_tight_N": T1,
-            "T_slack_N": T2,
-            "tension_ratio": ratio,
-            "capstan_limit": R,
-            "min_slack_tension_N": T2_min,
-            "tight_strand_angle_deg": tight_deg,
-            "slack_strand_angle_deg": slack_deg,
-            "hub_force_N": float(np.linalg.norm(force)),
-        },
-    )
+    return _strand_load(T, T1, T2, theta, delta, warnings,
+                        {"tension_ratio": ratio, "capstan_limit": R,
+                         "min_slack_tension_N": T2_min})
 
 
 def chain_hub_load(

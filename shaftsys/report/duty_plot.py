@@ -2,11 +2,8 @@
 
 from __future__ import annotations
 
-import io
 from pathlib import Path
-from typing import TYPE_CHECKING, Any, BinaryIO
-
-from shaftsys.errors import ModelError
+from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
     from shaftsys.analysis.duty import DutyReduction
@@ -41,32 +38,9 @@ def plot_duty(axes: Any, red: DutyReduction) -> Any:
 
 def save_duty_plot(red: DutyReduction, path: str | Path) -> Path:
     """Write the load-duration figure (.png or .svg, atomically)."""
-    import matplotlib
+    from shaftsys.io.output import write_figure
 
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-
-    from shaftsys.io.output import atomic_write
-
-    target = Path(path)
-    fmt = target.suffix.lower().lstrip(".")
-    if fmt not in ("png", "svg"):
-        raise ModelError(f"figure type '.{fmt}' not supported", field="--plot",
-                         expected="a .png or .svg file name")
-    fig, axes = plt.subplots(1, 2, figsize=(10, 4.2))
-    try:
-        plot_duty(axes, red)
-        fig.tight_layout()
-        buf = io.BytesIO()
-        fig.savefig(buf, format=fmt)
-    finally:
-        plt.close(fig)
-    data = buf.getvalue()
-
-    def write(fh: BinaryIO) -> None:
-        fh.write(data)
-
-    return atomic_write(target, write)
+    return write_figure(path, lambda fig: plot_duty(fig.subplots(1, 2), red), (10, 4.2))
 
 
 __all__ = ["plot_duty", "save_duty_plot"]

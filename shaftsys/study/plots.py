@@ -105,22 +105,10 @@ def save_study_plot(df: pd.DataFrame, study: Study, path: str | Path) -> Path:
 
     The format follows the suffix (.png or .svg); the file is written atomically.
     """
-    import io
+    from shaftsys.io.output import write_figure
 
-    import matplotlib
-
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-
-    from shaftsys.io.output import atomic_write
-
-    target = Path(path)
-    fmt = target.suffix.lower().lstrip(".")
-    if fmt not in ("png", "svg"):
-        raise ModelError(f"figure type '.{fmt}' not supported", field="--plot",
-                         expected="a .png or .svg file name")
-    fig, ax = plt.subplots(figsize=(7.5, 4.8))
-    try:
+    def draw(fig: Any) -> None:
+        ax = fig.add_subplot()
         if len(study.quantities) == 1:
             plot_life(ax, df, study)
         elif len(study.quantities) == 2 and study.mode == "grid":
@@ -128,14 +116,5 @@ def save_study_plot(df: pd.DataFrame, study: Study, path: str | Path) -> Path:
         else:
             raise ModelError("a study figure needs one quantity (life plot) or two in a grid "
                              "(contour map)", field="--plot", expected="one or two --vary")
-        fig.tight_layout()
-        buf = io.BytesIO()
-        fig.savefig(buf, format=fmt)
-    finally:
-        plt.close(fig)
-    data = buf.getvalue()
 
-    def write(fh: Any) -> None:
-        fh.write(data)
-
-    return atomic_write(target, write)
+    return write_figure(path, draw, (7.5, 4.8))
