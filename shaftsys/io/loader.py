@@ -53,6 +53,7 @@ from shaftsys.model import (
     Unbalance,
 )
 from shaftsys.model.catalogue import Catalogue
+from shaftsys.model.interior_rules import INTERIOR_KINDS, estimate_interior, interior_problems
 from shaftsys.model.selection import Objective, OpenSeat, SelectionSettings
 
 _AXIAL_FREE_TYPES = {BearingKind.NEEDLE_ROLLER}
@@ -449,8 +450,58 @@ def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[
         tilt_stiffness_Nmm_rad=v["tilt_stiffness"], ribs=v["ribs"],
         target_life_h=v["target_life"], target_reliability=v["reliability"],
         s0_min=v["s0_min"], ec=v["ec"], line=here.line_of(None), within=v["within"],
-        on_sleeve=v["mounting"] == "sleeve",
+        on_sleeve=v["mounting"] == "sleeve", **_read_interior(here, v, kind, axial),
     )
+
+
+def _read_interior(here: Where, v: dict[str, Any], kind: BearingKind, axial: AxialRole
+                   ) -> dict[str, Any]:
+    """``interior`` and ``nonlinear`` of a typed bearing: the given internal geometry,
+    the rest estimated (flagged), impossible geometry refused at its key.
+    """
+    raw = v.get("interior")
+    if raw is None:
+        return {}
+    g = read_section(here, raw, S.INTERIOR, "interior")
+    iw = here.child("interior", raw)
+    if kind not in INTERIOR_KINDS:
+        raise here.error("interior", f"the load distribution does not model a "
+                         f"{kind.value} bearing", "remove 'interior' (modelled: "
+                         "deep_groove_ball, angular_contact_ball, cylindrical_roller, "
+                         "tapered_roller, needle_roller)")
+    for key in ("fi", "fo"):
+        if kind.is_roller and g[key] is not None:
+            raise iw.error(key, f"'{key}' is the groove osculation of a ball bearing",
+                           f"remove '{key}' (a roller bearing gives 'Lwe')")
+    if not kind.is_roller and g["Lwe"] is not None:
+        raise iw.error("Lwe", "'Lwe' is the roller length of a roller bearing",
+                       "remove 'Lwe' (a ball bearing gives 'fi', 'fo')")
+    if g["preload"] is not None and v["pair"] is None and v["arrangement"] not in {
+            "back_to_back", "face_to_face"}:
+        raise iw.error("preload", "an axial preload needs an adjusted pair",
+                       "'pair' on this bearing, or arrangement back_to_back or "
+                       "face_to_face; else remove 'preload'")
+    if g["preload"] is not None and g["clearance"] not in (None, 0.0):
+        raise iw.error("clearance", "a preloaded pair has no clearance",
+                       "either 'clearance' or 'preload'")
+    interior = estimate_interior(
+        kind, v["d"], v["D"], v["B"], v["contact_angle"], v["e"], Dw_mm=g["Dw"], Z=g["Z"],
+        dm_mm=g["pitch_diameter"], fi=g["fi"], fo=g["fo"], Lwe_mm=g["Lwe"],
+        clearance_mm=g["clearance"], preload_N=g["preload"], source="model")
+    problems = interior_problems(kind, v["d"], v["D"], v["B"], interior)
+    if problems:
+        key, message, expected = problems[0]
+        names = {"dm": "pitch_diameter", "contact_angle": None}
+        if key == "contact_angle":
+            raise here.error("contact_angle" if "contact_angle" in raw or v[
+                "contact_angle"] is not None else "interior", message, expected)
+        key = names.get(key, key) or key
+        given = key in raw
+        raise iw.error(key if given else None,
+                       message + ("" if given else f" ('{key}' estimated: give it)"),
+                       expected)
+    nonlinear = {"model": None, "rigid": False, "nonlinear": True}[g["stiffness"]]
+    return {"interior": interior, "nonlinear": nonlinear}
 
 
 def _check_bearing_form(where: Where, index: int, item: LocatedDict, v: dict[str, Any]
@@ -849,7 +900,10 @@ def _read_solver(top: Where, raw: Any) -> SolverSettings:
     return SolverSettings(shear_deformation=v["shear_deformation"],
                           max_element_mm=v["max_element"],
                           residual_tolerance=v["residual_tolerance"],
-                          include_shaft_weight=v["shaft_weight"])
+                          include_shaft_weight=v["shaft_weight"],
+                          bearing_stiffness=v["bearing_stiffness"],
+                          nonlinear_tolerance=v["nonlinear_tolerance"],
+                          nonlinear_max_iterations=v["nonlinear_max_iterations"])
 
 
 def _read_links(where: Where, raw: LocatedList | None, shafts: list[Shaft]) -> list[Link]:

@@ -183,6 +183,30 @@ BEARING = {
                   "step)", default="shaft", choices=("shaft", "sleeve")),
     "choose": F("map", "leave the bearing open: shaftsys chooses it from a catalogue "
                 "(instead of type, dimensions and ratings)", of="choose"),
+    "interior": F("map", "internal geometry of the rolling-element set (values not given "
+                  "come from the catalogue row or are estimated from d, D, B and flagged)",
+                  of="interior"),
+}
+
+#: Internal geometry of a bearing (``interior:`` on a bearing).
+INTERIOR = {
+    "Dw": F("quantity", "rolling element diameter (a roller's mean diameter)",
+            dim="length", positive=True, maximum=MAX_DIAMETER_MM),
+    "Z": F("int", "rolling elements per row", minimum=3, maximum=1000),
+    "pitch_diameter": F("quantity", "pitch diameter of the element set (default (d + D)/2)",
+                        dim="length", positive=True, maximum=MAX_DIAMETER_MM),
+    "fi": F("number", "inner groove radius / Dw (ball bearings)", above=0.5, maximum=0.6),
+    "fo": F("number", "outer groove radius / Dw (ball bearings)", above=0.5, maximum=0.6),
+    "Lwe": F("quantity", "effective roller length (roller bearings)", dim="length",
+             positive=True, maximum=MAX_LENGTH_MM),
+    "clearance": F("quantity", "radial internal clearance (total radial play of one ring "
+                   "against the other), >= 0", dim="length", maximum=MAX_DIAMETER_MM),
+    "preload": F("quantity", "axial preload of an adjusted pair (give it on one bearing "
+                 "of the pair)", dim="force", non_negative=True),
+    "stiffness": F("choice", "this bearing in the shaft solve: as the model's "
+                   "solver.bearing_stiffness (default), rigid (as typed) or nonlinear "
+                   "(tangent stiffness of the load distribution)", default="model",
+                   choices=("model", "rigid", "nonlinear")),
 }
 
 CHOOSE = {
@@ -221,7 +245,7 @@ BEARING_FORMS = Alternative(
     key="choose",
     excludes=("type", "designation", "d", "D", "B", "C", "C0", "Cu", "e", "Y", "Y0", "Y1",
               "Y2", "X", "contact_angle", "f0", "limiting_speed", "ratings",
-              "pressure_centre_offset"),
+              "pressure_centre_offset", "interior"),
     requires=("type", "d", "D", "C", "C0"),
     hint="give C and C0, or choose: {catalogue: ...}",
 )
@@ -467,6 +491,15 @@ SOLVER = {
     "residual_tolerance": F("number", "largest equilibrium residual", default=1e-9,
                             positive=True, maximum=1e-3),
     "shaft_weight": F("bool", "include the shaft's own weight", default=True),
+    "bearing_stiffness": F("choice", "rigid: supports as typed (rigid or linear springs); "
+                           "nonlinear: bearings with a modelled interior take the tangent "
+                           "stiffness of their rolling-element loads (iterated per case)",
+                           default="rigid", choices=("rigid", "nonlinear")),
+    "nonlinear_tolerance": F("number", "convergence of the nonlinear solve (largest "
+                             "change of a reaction / largest reaction)", default=1e-8,
+                             positive=True, maximum=1e-2),
+    "nonlinear_max_iterations": F("int", "most iterations of the nonlinear solve",
+                                  default=60, minimum=1, maximum=10_000),
 }
 
 CHECKS = {
@@ -519,6 +552,7 @@ SECTIONS: dict[str, dict[str, Field]] = {
     "step": STEP,
     "bearing": BEARING,
     "choose": CHOOSE,
+    "interior": INTERIOR,
     "selection": SELECTION,
     "shaft": SHAFT,
     "case": CASE,

@@ -5,6 +5,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from enum import StrEnum
 
+from shaftsys.model.interior import Interior
+
 
 class BearingKind(StrEnum):
     """Rolling bearing types shaftsys knows. The value is what a model file writes."""
@@ -107,6 +109,10 @@ class Bearing:
     within_x_mm: station of the bearing on the ``within`` shaft [mm] (from the geometry).
     on_sleeve: the bearing sits on a sleeve or adapter (its bore is larger than the
         shaft under it) instead of directly on the shaft seat.
+    interior: internal geometry of the rolling-element set (``None``: not given; the
+        load distribution then runs only with ``nonlinear`` stiffness, on an estimate).
+    nonlinear: this bearing's stiffness in the shaft solve follows from its load
+        distribution (``None``: the model's ``solver.bearing_stiffness``).
     """
 
     id: str
@@ -143,6 +149,8 @@ class Bearing:
     within: str | None = None
     within_x_mm: float | None = None
     on_sleeve: bool = False
+    interior: Interior | None = None
+    nonlinear: bool | None = None
 
     @property
     def mean_diameter_mm(self) -> float:

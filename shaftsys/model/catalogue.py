@@ -19,6 +19,8 @@ import numpy as np
 import numpy.typing as npt
 
 from shaftsys.model.bearing import AxialRole, Bearing, BearingKind, SetArrangement
+from shaftsys.model.interior import Interior
+from shaftsys.model.interior_rules import INTERIOR_KINDS, estimate_interior, interior_problems
 
 FloatArray = npt.NDArray[np.float64]
 
@@ -273,6 +275,10 @@ class Catalogue:
         def opt(name: str) -> float | None:
             return _given(float(getattr(self, name)[i]))
 
+        interior = _catalogue_interior(kind, float(self.d_mm[i]), float(self.D_mm[i]),
+                                       opt("B_mm"), opt("contact_angle_deg"), opt("e"),
+                                       opt("Dw_mm"), opt("Z"), opt("dm_mm"), opt("Lwe_mm"))
+
         return Bearing(
             id=id, kind=kind, x_mm=float(x_mm), d_mm=float(self.d_mm[i]),
             D_mm=float(self.D_mm[i]), B_mm=opt("B_mm"), C_N=C, C0_N=C0, Cu_N=Cu,
@@ -286,7 +292,24 @@ class Catalogue:
             tilt_stiffness_Nmm_rad=tilt_stiffness_Nmm_rad, ribs=ribs,
             target_life_h=target_life_h, target_reliability=target_reliability,
             s0_min=s0_min, ec=ec, line=line, within=within, within_x_mm=within_x_mm,
+            interior=interior,
         )
+
+
+def _catalogue_interior(kind: BearingKind, d: float, D: float, B: float | None,
+                        alpha: float | None, e: float | None, Dw: float | None,
+                        Z: float | None, dm: float | None, Lwe: float | None
+                        ) -> Interior | None:
+    """The internal geometry a catalogue row gives (Dw and Z at least; the rest
+    estimated and flagged), or ``None`` when it gives none or an impossible one (the
+    load distribution then estimates all of it, as for a typed bearing).
+    """
+    if Dw is None or Z is None or kind not in INTERIOR_KINDS or int(Z) != Z:
+        return None
+    interior = estimate_interior(kind, d, D, B, alpha, e, Dw_mm=Dw, Z=int(Z), dm_mm=dm,
+                                 Lwe_mm=Lwe if kind.is_roller else None,
+                                 source="catalogue")
+    return None if interior_problems(kind, d, D, B, interior) else interior
 
 
 def _given(value: float) -> float | None:
