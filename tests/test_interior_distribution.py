@@ -162,3 +162,29 @@ def test_inverse_problem_vectorised_over_cases() -> None:
     f = sum(distribution(r, u).f for r in rows)
     np.testing.assert_allclose(f, F, rtol=1e-7, atol=1e-5)
     assert res < 1e-9
+
+
+def test_preloaded_set_holds_the_preload_and_doubles_the_row_stiffness() -> None:
+    """A back-to-back set preloaded by Fp: at no external load both rows carry Fp
+    (the net thrust is zero) and the axial stiffness is twice one row's at Fp
+    (the hand formula of the test above)."""
+    from shaftsys.bearings.interior import row_geometries
+    from shaftsys.model import AxialRole, Bearing, BearingKind, SetArrangement
+    from shaftsys.model.interior import Interior
+
+    Fp = 300.0
+    b = Bearing(id="P", kind=BearingKind.ANGULAR_CONTACT_BALL, x_mm=0.0, d_mm=40.0,
+                D_mm=80.0, C_N=3e4, C0_N=2e4, contact_angle_deg=25.0, rows=2,
+                arrangement=SetArrangement.BACK_TO_BACK, axial=AxialRole.BOTH,
+                interior=Interior(Dw_mm=12.0, Z=15, dm_mm=60.0, contact_angle_deg=25.0,
+                                  preload_N=Fp))
+    rows = row_geometries(b)
+    u0 = np.zeros((1, 5))
+    ds = [distribution(r, u0) for r in rows]
+    thrust = [float(d.f[0, 2]) for d in ds]
+    assert thrust[0] == pytest.approx(Fp, rel=1e-8)
+    assert thrust[1] == pytest.approx(-Fp, rel=1e-8)
+    k_pair = sum(d.K[0, 2, 2] for d in ds)
+    sa = math.sin(math.radians(25.0))
+    hand = 1.5 * (15 * rows[0].K_N) ** (2 / 3) * sa ** (5 / 3) * Fp ** (1 / 3)
+    assert k_pair == pytest.approx(2 * hand, rel=0.05)

@@ -70,6 +70,8 @@ class BearingCaseLoad:
     Mz_Nmm: float = 0.0
     deflection_mm: float = 0.0
     slope_rad: float = 0.0
+    theta_y_rad: float = 0.0
+    theta_z_rad: float = 0.0
 
 
 @dataclass(frozen=True, eq=False)
@@ -188,6 +190,7 @@ class Result:
     flows: tuple[CaseFlow, ...]
     selection: Selection | None = None
     thermal: ThermalResult | None = None
+    internal: dict[str, dict[str, Any]] | None = None
 
     @property
     def verdict(self) -> str:

@@ -300,7 +300,8 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
             Fa_N=abs(fxb), speed_rpm=ring_speed, induced_N=induced.get(b.id, 0.0),
             My_Nmm=-my, Mz_Nmm=-mz, deflection_mm=float(math.hypot(disp[node, 1],
                                                                     disp[node, 2])),
-            slope_rad=float(math.hypot(disp[node, 4], disp[node, 5])))
+            slope_rad=float(math.hypot(disp[node, 4], disp[node, 5])),
+            theta_y_rad=float(disp[node, 4]), theta_z_rad=float(disp[node, 5]))
     sol = CaseSolution(
         case=case.id, speed_rpm=speed, torque_Nmm=float(np.abs(T_elem).max(initial=0.0)),
         node_x_mm=x, displacement=disp, stations_mm=stations, N_N=N_st, Vy_N=Vy, Vz_N=Vz,

@@ -30,7 +30,7 @@ method with the analytic Jacobian and a backtracking line search, vectorised ove
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 from numpy.typing import NDArray
@@ -56,7 +56,8 @@ class RowGeometry:
     Dw_mm, Z, dm_mm, alpha_deg, fi, fo (ball), Lwe_mm (roller), clearance_mm (radial
     clearance Pd), side (+1: the row takes thrust toward +x of the inner ring; -1:
     toward -x), line (roller: line contact), K_N (load-deflection constant of one
-    element, inner and outer contact in series, [N/mm^n]).
+    element, inner and outer contact in series, [N/mm^n]), preload_mm (axial
+    interference of the row at the centred position, from a set's preload [mm]).
     """
 
     Dw_mm: float
@@ -70,6 +71,7 @@ class RowGeometry:
     side: float
     line: bool
     K_N: float
+    preload_mm: float = 0.0
 
     @property
     def n(self) -> float:
@@ -210,7 +212,7 @@ def distribution(g: RowGeometry, u: FloatArray) -> Distribution:
         A = g.A_mm
         side = g.side if g.alpha_deg > 0.0 else 1.0
         sr = A * math.cos(a) - 0.5 * g.clearance_mm + ur
-        sax = A * math.sin(a) + side * ua
+        sax = A * math.sin(a) + side * ua + g.preload_mm
         dist = np.hypot(sr, sax)
         delta = dist - A
         pos = np.maximum(delta, 0.0)
@@ -229,7 +231,7 @@ def distribution(g: RowGeometry, u: FloatArray) -> Distribution:
     side = g.side if g.alpha_deg > 0.0 else 1.0
     cl, sl = math.cos(a), math.sin(a)
     d = ((ur[..., None] + xk * kap[..., None]) * cl + side * ua[..., None] * sl
-         - 0.5 * g.clearance_mm * cl)                                   # (m, Z, k)
+         - 0.5 * g.clearance_mm * cl + g.preload_mm * sl)  # (m, Z, k)
     pos = np.maximum(d, 0.0)
     w = g.K_N / ROLLER_SLICES
     q = w * pos**n
@@ -322,7 +324,8 @@ def load_zone_factor(g: RowGeometry, u: FloatArray) -> FloatArray:
     a = math.radians(g.alpha_deg)
     side = g.side if g.alpha_deg > 0.0 else 1.0
     d1 = np.hypot(u[:, 0], u[:, 1]) * math.cos(a)
-    d0 = side * u[:, 2] * math.sin(a) - 0.5 * g.clearance_mm * math.cos(a)
+    d0 = ((side * u[:, 2] + g.preload_mm) * math.sin(a)
+          - 0.5 * g.clearance_mm * math.cos(a))
     with np.errstate(divide="ignore", invalid="ignore"):
         eps = 0.5 * (1.0 + d0 / d1)
     return np.asarray(np.where(d1 > 0, eps, np.inf), dtype=np.float64)
@@ -330,7 +333,8 @@ def load_zone_factor(g: RowGeometry, u: FloatArray) -> FloatArray:
 
 def row_geometries(bearing: Bearing) -> list[RowGeometry]:
     """The rows of a bearing with an interior: one row; a back-to-back or face-to-face
-    set or a double-row unit two rows taking thrust in opposite directions; a tandem
+    set or a double-row unit two rows taking thrust in opposite directions (a preloaded
+    set: each row pushed axially until it carries the preload alone); a tandem
     set ``rows`` rows on one side (rows at one seat: their axial spacing is not
     modelled). A single row taking thrust toward -x (``axial: -x``) has side -1.
     """
@@ -348,5 +352,13 @@ def row_geometries(bearing: Bearing) -> list[RowGeometry]:
         sides = [1.0, -1.0]
     else:
         sides = [side] * max(1, bearing.rows)
-    return [RowGeometry(g.Dw_mm, g.Z, g.dm_mm, g.contact_angle_deg, g.fi, g.fo,
+    rows = [RowGeometry(g.Dw_mm, g.Z, g.dm_mm, g.contact_angle_deg, g.fi, g.fo,
                         g.Lwe_mm, g.clearance_mm, s, line, K) for s in sides]
+    if g.preload_N and len(sides) == 2:
+        # each row of the set is pushed axially until it carries the preload alone
+        one = rows[0]
+        u, _, _ = solve_displacement([one], np.array([[0.0, 0.0, g.preload_N, 0.0, 0.0]]),
+                                     np.array([False, False, False, True, True]))
+        shift = float(u[0, 2])
+        rows = [replace(r, preload_mm=shift) for r in rows]
+    return rows

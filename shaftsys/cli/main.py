@@ -413,6 +413,11 @@ def _check(args: argparse.Namespace) -> int:
                 _emit(selection_table(result.selection), out)
             print(file=out)
             _emit(verdict_table(result), out)
+            if result.internal:
+                from shaftsys.report.internal_table import internal_table
+
+                print(file=out)
+                _emit(internal_table(result), out)
             if result.thermal is not None:
                 from shaftsys.report.thermal_table import thermal_table
 

@@ -456,7 +456,7 @@ def _read_bearing(where: Where, index: int, item: Any, length: float, ids: dict[
 
 def _read_interior(here: Where, v: dict[str, Any], kind: BearingKind, axial: AxialRole
                    ) -> dict[str, Any]:
-    """``interior`` and ``nonlinear`` of a typed bearing: the given internal geometry,
+    """``interior`` of a typed bearing: the given internal geometry,
     the rest estimated (flagged), impossible geometry refused at its key.
     """
     raw = v.get("interior")
@@ -476,10 +476,11 @@ def _read_interior(here: Where, v: dict[str, Any], kind: BearingKind, axial: Axi
     if not kind.is_roller and g["Lwe"] is not None:
         raise iw.error("Lwe", "'Lwe' is the roller length of a roller bearing",
                        "remove 'Lwe' (a ball bearing gives 'fi', 'fo')")
-    if g["preload"] is not None and v["pair"] is None and v["arrangement"] not in {
-            "back_to_back", "face_to_face"}:
-        raise iw.error("preload", "an axial preload needs an adjusted pair",
-                       "'pair' on this bearing, or arrangement back_to_back or "
+    if g["preload"] is not None and (v["arrangement"] not in {
+            "back_to_back", "face_to_face"} or v["rows"] < 2):
+        raise iw.error("preload", "an axial preload needs an adjusted pair at one seat "
+                       "(a pair at separate seats needs the shaft's axial compatibility, "
+                       "not modelled yet)", "rows: 2 and arrangement back_to_back or "
                        "face_to_face; else remove 'preload'")
     if g["preload"] is not None and g["clearance"] not in (None, 0.0):
         raise iw.error("clearance", "a preloaded pair has no clearance",
@@ -500,8 +501,7 @@ def _read_interior(here: Where, v: dict[str, Any], kind: BearingKind, axial: Axi
         raise iw.error(key if given else None,
                        message + ("" if given else f" ('{key}' estimated: give it)"),
                        expected)
-    nonlinear = {"model": None, "rigid": False, "nonlinear": True}[g["stiffness"]]
-    return {"interior": interior, "nonlinear": nonlinear}
+    return {"interior": interior}
 
 
 def _check_bearing_form(where: Where, index: int, item: LocatedDict, v: dict[str, Any]
@@ -900,10 +900,7 @@ def _read_solver(top: Where, raw: Any) -> SolverSettings:
     return SolverSettings(shear_deformation=v["shear_deformation"],
                           max_element_mm=v["max_element"],
                           residual_tolerance=v["residual_tolerance"],
-                          include_shaft_weight=v["shaft_weight"],
-                          bearing_stiffness=v["bearing_stiffness"],
-                          nonlinear_tolerance=v["nonlinear_tolerance"],
-                          nonlinear_max_iterations=v["nonlinear_max_iterations"])
+                          include_shaft_weight=v["shaft_weight"])
 
 
 def _read_links(where: Where, raw: LocatedList | None, shafts: list[Shaft]) -> list[Link]:

@@ -88,6 +88,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
             item["misalignment"] = bearing_checks[br.id]
         if result.thermal is not None:
             item["thermal"] = result.thermal.bearing_cases(br.id)
+        if result.internal is not None and br.id in result.internal:
+            item["internal"] = result.internal[br.id]
         item["ok"] = b.ok
         item["verdict"] = b.verdict
         if result.selection is not None and br.id in seat_ids:

@@ -203,10 +203,6 @@ INTERIOR = {
                    "against the other), >= 0", dim="length", maximum=MAX_DIAMETER_MM),
     "preload": F("quantity", "axial preload of an adjusted pair (give it on one bearing "
                  "of the pair)", dim="force", non_negative=True),
-    "stiffness": F("choice", "this bearing in the shaft solve: as the model's "
-                   "solver.bearing_stiffness (default), rigid (as typed) or nonlinear "
-                   "(tangent stiffness of the load distribution)", default="model",
-                   choices=("model", "rigid", "nonlinear")),
 }
 
 CHOOSE = {
@@ -491,15 +487,6 @@ SOLVER = {
     "residual_tolerance": F("number", "largest equilibrium residual", default=1e-9,
                             positive=True, maximum=1e-3),
     "shaft_weight": F("bool", "include the shaft's own weight", default=True),
-    "bearing_stiffness": F("choice", "rigid: supports as typed (rigid or linear springs); "
-                           "nonlinear: bearings with a modelled interior take the tangent "
-                           "stiffness of their rolling-element loads (iterated per case)",
-                           default="rigid", choices=("rigid", "nonlinear")),
-    "nonlinear_tolerance": F("number", "convergence of the nonlinear solve (largest "
-                             "change of a reaction / largest reaction)", default=1e-8,
-                             positive=True, maximum=1e-2),
-    "nonlinear_max_iterations": F("int", "most iterations of the nonlinear solve",
-                                  default=60, minimum=1, maximum=10_000),
 }
 
 CHECKS = {

@@ -109,10 +109,8 @@ class Bearing:
     within_x_mm: station of the bearing on the ``within`` shaft [mm] (from the geometry).
     on_sleeve: the bearing sits on a sleeve or adapter (its bore is larger than the
         shaft under it) instead of directly on the shaft seat.
-    interior: internal geometry of the rolling-element set (``None``: not given; the
-        load distribution then runs only with ``nonlinear`` stiffness, on an estimate).
-    nonlinear: this bearing's stiffness in the shaft solve follows from its load
-        distribution (``None``: the model's ``solver.bearing_stiffness``).
+    interior: internal geometry of the rolling-element set (``None``: not given; then
+        no load distribution is computed for the bearing).
     """
 
     id: str
@@ -150,7 +148,6 @@ class Bearing:
     within_x_mm: float | None = None
     on_sleeve: bool = False
     interior: Interior | None = None
-    nonlinear: bool | None = None
 
     @property
     def mean_diameter_mm(self) -> float:

@@ -21,21 +21,12 @@ class SolverSettings:
     max_element_mm: longest beam element [mm] (nodes are also put at every station).
     residual_tolerance: largest accepted equilibrium residual, relative to the load.
     include_shaft_weight: the shaft's own weight loads it (with gravity).
-    bearing_stiffness: ``"rigid"`` (default: the supports as typed, rigid or linear
-        springs) or ``"nonlinear"`` (every bearing the load distribution models gets
-        its tangent stiffness from its rolling-element loads, iterated per case).
-    nonlinear_tolerance: convergence of the nonlinear solve: largest change of any
-        bearing reaction between iterations relative to the largest reaction.
-    nonlinear_max_iterations: most iterations of the nonlinear solve per case.
     """
 
     shear_deformation: bool = True
     max_element_mm: float = 10.0
     residual_tolerance: float = 1e-9
     include_shaft_weight: bool = True
-    bearing_stiffness: str = "rigid"
-    nonlinear_tolerance: float = 1e-8
-    nonlinear_max_iterations: int = 60
 
 
 @dataclass(frozen=True, slots=True)
