@@ -1,0 +1,44 @@
+"""Benchmark: the bearing interior of a 3-bearing shaft over 20 cases.
+
+Prints the time of the element-load analysis (Newton solve of every bearing's
+displacement, element loads, stiffness, reference life), vectorised over the cases,
+on the invented demo `models/spindle_3brg.yaml` given estimated interiors. The shaft
+solve itself is the rigid-support one (no nonlinear bearing stiffness in the beam
+solve yet). Run: python3 benchmarks/bench_interior.py
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import time
+from pathlib import Path
+
+from shaftsys.analysis import analyse
+from shaftsys.analysis.interior import internal_results
+from shaftsys.io.loader import load_model
+from shaftsys.model.interior_rules import estimate_interior
+
+
+def main() -> None:
+    path = Path(__file__).resolve().parent.parent / "models" / "spindle_3brg.yaml"
+    model = load_model(path)
+    shaft = model.shafts[0]
+    bearings = tuple(dataclasses.replace(b, interior=estimate_interior(
+        b.kind, b.d_mm, b.D_mm, b.B_mm, b.contact_angle_deg, b.e,
+        clearance_mm=0.01)) for b in shaft.bearings)
+    model = dataclasses.replace(model, shafts=(dataclasses.replace(shaft, bearings=bearings),
+                                               *model.shafts[1:]))
+    result = analyse(model, with_shaft_checks=False)
+    n_cases = len(result.bearings[0].loads)
+    best = float("inf")
+    for _ in range(5):
+        t0 = time.perf_counter()
+        internal_results(result.bearings)
+        best = min(best, time.perf_counter() - t0)
+    print(f"bearings: {len(result.bearings)}, cases: {n_cases}")
+    print(f"interior analysis (best of 5): {best * 1e3:.1f} ms "
+          f"({best * 1e3 / (len(result.bearings) * n_cases):.2f} ms per bearing and case)")
+
+
+if __name__ == "__main__":
+    main()
