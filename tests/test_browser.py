@@ -103,7 +103,7 @@ def test_browser_shows_sections_bearings_and_verdict(browser: str,
     for b in result.bearings:                 # type: ignore[attr-defined]
         assert f"Bearing {b.bearing.id} on {b.shaft_id}" in text
         assert f"CALCULATION SHEET - bearing {b.bearing.id}" in text
-    assert "PASS" in text and "ALL SUPPORTS PASS" in text
+    assert "PASS" in text and "ALL CHECKS PASS" in text
     assert "fan_drive.yaml" in text and "2024-01-02" in text
 
 

@@ -122,8 +122,41 @@ def test_report_verdicts_match_results(result: Any, report: str) -> None:
     data = result_to_dict(result)
     for b in data["bearings"]:
         assert f'id="bearing-{b["id"]}"' in report
-    stamp = "ALL SUPPORTS PASS" if data["ok"] else "TARGET MISSED"
+    stamp = ("ALL CHECKS PASS" if data["ok"] else "LIMIT OR TARGET MISSED"
+             if data["failed_checks"] else "NOT EVALUATED")
     assert stamp in report
+
+
+def _verdict_section(html: str) -> str:
+    start = html.index('<section id="verdicts">')
+    return html[start: html.index("</section>", start)]
+
+
+def test_headline_follows_the_rows(result: Any) -> None:
+    """A headline says "missed" only when a row fails (the rows decide, not the stamp).
+
+    Three variants of one result: all rows pass; one bearing's life short of a target
+    raised above it; one bearing's life removed (not evaluated). Common practice, no
+    source: a report signed off must not show a failure that no row carries.
+    """
+    assert result.ok, "the fixture must pass for the first variant"
+    html = _verdict_section(render_report(result, date="d"))
+    assert "ALL CHECKS PASS" in html and "MISSED" not in html
+    assert 'class="stamp bad"' not in html
+    b0 = result.bearings[0]
+    short = dataclasses.replace(b0.life, life_ok=False, ok=False)
+    failing = dataclasses.replace(result, bearings=(dataclasses.replace(b0, life=short),
+                                                    *result.bearings[1:]))
+    html = _verdict_section(render_report(failing, date="d"))
+    assert "LIMIT OR TARGET MISSED" in html
+    assert f"life of bearing &#x27;{b0.bearing.id}&#x27;" in html
+    assert failing.failed_checks == (f"life of bearing '{b0.bearing.id}'",)
+    missing = dataclasses.replace(result, bearings=(dataclasses.replace(b0, life=None),
+                                                    *result.bearings[1:]))
+    html = _verdict_section(render_report(missing, date="d"))
+    assert "NOT EVALUATED (NOT A PASS)" in html and "MISSED" not in html
+    assert html.count("NOT EVALUATED") >= 2     # the headline and the bearing's own row
+    assert missing.failed_checks == ()
 
 
 # ----------------------------------------------------------------------------- sheet

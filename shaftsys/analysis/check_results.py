@@ -330,6 +330,18 @@ class ShaftChecks:
                      and (m := s.not_evaluated_message) is not None)
 
     @property
+    def failed(self) -> tuple[str, ...]:
+        """The checks that fail (a limit exceeded), for the headline verdict."""
+        out = [f"slope{'/deflection' if c.kind == 'gear' else ''} at {c.kind} '{c.id}' "
+               f"of shaft '{c.shaft}'"
+               for c in (*self.bearings, *self.gears) if c.verdict == FAIL]
+        out += [f"critical speed of shaft '{s.id}'"
+                for s in self.shafts if s.critical_speed_verdict == FAIL]
+        out += [f"fatigue/yield of shaft '{s.id}'"
+                for s in self.shafts if s.fatigue_verdict == FAIL]
+        return tuple(out)
+
+    @property
     def marginal(self) -> tuple[str, ...]:
         """The checks that pass inside their caution band, for messages."""
         out = [f"slope at {c.kind} '{c.id}' of shaft '{c.shaft}'"
@@ -353,6 +365,7 @@ class ShaftChecks:
             "verdict": self.verdict,
             "not_evaluated": list(self.not_evaluated),
             "marginal": list(self.marginal),
+            "failed_checks": list(self.failed),
             "shafts": [s.to_dict() for s in self.shafts],
             "bearings": [b.to_dict() for b in self.bearings],
             "gears": [g.to_dict() for g in self.gears],

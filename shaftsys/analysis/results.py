@@ -213,6 +213,28 @@ class Result:
         return self.verdict == PASS
 
     @property
+    def failed_checks(self) -> tuple[str, ...]:
+        """The checks that were evaluated and fail, for the headline verdict: bearing
+        life, bearing static safety, the heat balance and every failing shaft check.
+        Empty exactly when no row of the verdict tables shows a failure.
+        """
+        out: list[str] = []
+        for b in self.bearings:
+            if b.life is None:
+                continue
+            if not b.life.life_ok:
+                out.append(f"life of bearing '{b.bearing.id}'")
+            if not b.life.static_ok:
+                out.append(f"static safety of bearing '{b.bearing.id}'")
+            if not b.life.ok and b.life.life_ok and b.life.static_ok:
+                out.append(f"bearing '{b.bearing.id}'")
+        if self.thermal is not None and self.thermal.verdict == FAIL:
+            out.append("heat balance (operating temperature)")
+        if self.checks is not None:
+            out.extend(self.checks.failed)
+        return tuple(out)
+
+    @property
     def not_evaluated(self) -> tuple[str, ...]:
         """What was not evaluated (bearing ids, ``"shaft checks"``), for messages."""
         still_open = {o.bearing_id for o in self.model.open_seats}

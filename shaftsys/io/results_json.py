@@ -36,6 +36,7 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         "ok": result.ok,
         "verdict": result.verdict,
         "not_evaluated": list(result.not_evaluated),
+        "failed_checks": list(result.failed_checks),
         "marginal": list(result.checks.marginal) if result.checks is not None else [],
         "checks_required": {"fatigue": model.fatigue_required},
         "warnings": list(result.warnings),

@@ -420,18 +420,25 @@ def _verdicts(result: Result) -> str:
             _n(life.target_h, 6), _n(life.C_required_N, 5), _n(life.margin, 3),
             _n(life.s0, 3) + " / " + _n(life.s0_min, 3),
             _gauge(ratio, life.life_ok), _verdict(b.ok)])
+    for b in result.bearings:
+        if b.life is None:
+            rows.append([f"{_e(b.shaft_id)}/{_e(b.bearing.id)}", *["-"] * 8,
+                         '<span class="stamp bad">NOT EVALUATED</span>'])
     table = _table(["support", "worst case", "Pm N", "Lnm h", "target h", "C req N",
                     "C/C req", "s0 / min", "life reserve", "verdict"], rows, 2)
     legend = ("Life reserve gauge: bar length is log10(Lnm/target) from 0.1x (left edge) "
               "to 100x (right edge); the dark tick is the target (1x). Pink zone = short "
               "of the target.")
-    for b in result.bearings:
-        if b.life is None:
-            rows.append([f"{_e(b.shaft_id)}/{_e(b.bearing.id)}", *["-"] * 8,
-                         '<span class="stamp bad">NOT EVALUATED</span>'])
     stamp_ok = result.ok
-    stamp_text = "ALL SUPPORTS PASS" if stamp_ok else "TARGET MISSED OR NOT EVALUATED"
+    failed = result.failed_checks
+    # the headline follows the rows: "missed" only when a check failed, "not evaluated"
+    # when nothing failed but something required could not be evaluated
+    stamp_text = ("ALL CHECKS PASS" if stamp_ok else "LIMIT OR TARGET MISSED" if failed
+                  else "NOT EVALUATED (NOT A PASS)")
     head = (f'<p><span class="stamp {"ok" if stamp_ok else "bad"}">{stamp_text}</span></p>')
+    if failed:
+        head += ('<p class="note">Failed checks:</p><ul>'
+                 + "".join(f"<li>{_e(f)}</li>" for f in failed) + "</ul>")
     missing = "".join(f"<li>{_e(m)}</li>" for m in result.not_evaluated)
     if missing:
         head += f'<p class="note">Not evaluated (not a pass):</p><ul>{missing}</ul>'
