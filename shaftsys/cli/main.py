@@ -203,6 +203,11 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
     add_sweep_parser(sub)
     handlers["sweep"] = run_sweep
 
+    from shaftsys.cli.optimise import add_optimise_parser, run_optimise
+
+    add_optimise_parser(sub)
+    handlers["optimise"] = run_optimise
+
     # ---- recorded duty -------------------------------------------------------------
     from shaftsys.cli.duty import add_duty_parser, run_duty
 
@@ -485,7 +490,8 @@ def _report(args: argparse.Namespace) -> int:
         bar.add_total(report_steps(result) + 1)
         section, name = read_study_section(args.model)
         study = None
-        if section is not None:
+        if section is not None and not (isinstance(section, dict) and "vary" not in section
+                                        and "optimise" in section):
             st = study_from_section(result.model, section, name)
             study = study_fragment(st, sweep(st))
         bar.advance("design study")
