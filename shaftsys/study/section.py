@@ -247,7 +247,8 @@ def optimise_from_section(model: Model, section: Any, file: str | None = None
         _unknown(it, BOUND_KEYS, f, here)
         path = str(it["path"])
         parts = path.split(".")
-        if parts[0] not in OPTIMISE_PATH_HEADS or parts[-1] != "at" and parts[0] != "spacing":
+        if parts[0] not in OPTIMISE_PATH_HEADS or (
+                parts[-1] != "at" and parts[0] != "spacing"):
             raise ModelError(f"path '{path}' is not a station or a spacing", file=f,
                              line=_line(it, "path"), field=f"{here}.path",
                              expected="bearing.<id>.at, element.<id>.at, gear.<id>.at or "
