@@ -130,7 +130,7 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
     c.add_argument("--loads-only", action="store_true",
                    help="print only the reaction table")
     c.add_argument("--explain", metavar="BEARING",
-                   help="print the calculation sheet of one bearing, formula by formula")
+                   help="print the calculation sheet of one bearing or gear, formula by formula")
     handlers["check"] = _check
 
     o = _command(sub, "choose", "choose every open support's bearing from a catalogue",
@@ -202,6 +202,11 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
 
     add_sweep_parser(sub)
     handlers["sweep"] = run_sweep
+
+    from shaftsys.cli.optimise import add_optimise_parser, run_optimise
+
+    add_optimise_parser(sub)
+    handlers["optimise"] = run_optimise
 
     # ---- recorded duty -------------------------------------------------------------
     from shaftsys.cli.duty import add_duty_parser, run_duty
@@ -398,10 +403,15 @@ def _check(args: argparse.Namespace) -> int:
 
     with ProgressBar(2, "check", quiet=args.quiet) as bar:
         result = _solve(args, bar)
-    if args.explain and args.explain not in {b.bearing.id for b in result.bearings}:
-        raise ModelError(f"no bearing '{args.explain}' in the model", field="--explain",
-                         expected="one of: " + ", ".join(b.bearing.id
-                                                         for b in result.bearings))
+    from shaftsys.model.elements import Gear
+
+    gears = [e.id for sr in result.shafts for e in sr.shaft.elements if isinstance(e, Gear)]
+    if args.explain and args.explain not in {b.bearing.id for b in result.bearings} | set(
+            gears):
+        raise ModelError(f"no bearing or gear '{args.explain}' in the model",
+                         field="--explain",
+                         expected="one of: " + ", ".join([b.bearing.id
+                                                          for b in result.bearings] + gears))
     if args.json != "-":
         _json_out(args, result)
     out = sys.stderr if args.json == "-" else sys.stdout
@@ -434,9 +444,10 @@ def _check(args: argparse.Namespace) -> int:
     if args.json == "-":
         _json_out(args, result)
     if args.explain:
-        from shaftsys.report.calcsheet import explain_bearing
+        from shaftsys.report.calcsheet import explain_bearing, explain_gear
 
-        print(explain_bearing(result, args.explain), file=out)
+        sheet = explain_gear if args.explain in gears else explain_bearing
+        print(sheet(result, args.explain), file=out)
     return _verdict_code(result)
 
 
@@ -490,7 +501,8 @@ def _report(args: argparse.Namespace) -> int:
         bar.add_total(report_steps(result) + 1)
         section, name = read_study_section(args.model)
         study = None
-        if section is not None:
+        if section is not None and not (isinstance(section, dict) and "vary" not in section
+                                        and "optimise" in section):
             st = study_from_section(result.model, section, name)
             study = study_fragment(st, sweep(st))
         bar.advance("design study")

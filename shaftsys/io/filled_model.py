@@ -121,6 +121,69 @@ def write_filled_model(model_path: str | Path, chosen: Mapping[str, Bearing],
     write_text(out, text)
 
 
+def moved_model_text(model_path: str | Path, stations_mm: Mapping[str, float],
+                     note: str = "") -> str:
+    """The model file with bearings and elements moved to new stations.
+
+    ``stations_mm``: bearing or element id -> new ``at`` [mm], written as ``"<x> mm"``
+    with the shortest text that reads back to the same float. Other keys stay as the
+    source writes them (its comments are lost; the header says so).
+
+    Raises
+    ------
+    ModelError: the file cannot be read, or an id is neither a bearing nor an element.
+    """
+    source = Path(model_path)
+    data = _read_source(source)
+    found: dict[str, dict[str, Any]] = {}
+    for shaft in data.get("shafts") or []:
+        if not isinstance(shaft, dict):
+            continue
+        for group in ("bearings", "elements"):
+            for entry in shaft.get(group) or []:
+                if isinstance(entry, dict) and "id" in entry:
+                    found[str(entry["id"])] = entry
+    lines = []
+    for oid, x in stations_mm.items():
+        if oid not in found:
+            raise ModelError(f"no bearing or element '{oid}' in the model", file=str(source),
+                             field=f"shafts[].bearings[{oid}]",
+                             expected="the id of a bearing or element of the model")
+        before = found[oid].get("at")
+        found[oid]["at"] = f"{_number(x)} mm"
+        lines.append(f"{oid}: at {before} -> {found[oid]['at']}")
+    header = [f"Model file written by shaftsys {__version__}: {source} with new stations.",
+              *lines, *note.splitlines(),
+              "Rewritten from the values of the source file: its comments are not kept."]
+    comment = "".join(f"# {text}\n" if text else "#\n" for text in map(_comment_safe, header))
+    return comment + _dump(data)
+
+
+def write_moved_model(model_path: str | Path, stations_mm: Mapping[str, float],
+                      out_path: str | Path, *, note: str = "") -> None:
+    """Write :func:`moved_model_text` to ``out_path`` (atomically), after loading it.
+
+    Raises
+    ------
+    OutputError: ``out_path`` is the source model file, or it cannot be written.
+    ModelError: as :func:`moved_model_text`, or the written model would not load.
+    """
+    from shaftsys.io.loader import load_model_text
+    from shaftsys.io.output import write_text
+
+    source, out = Path(model_path), Path(out_path)
+    if _same_file(source, out):
+        raise OutputError(f"refusing to write the moved model over its source {source}: "
+                          "choose another output file")
+    text = moved_model_text(source, stations_mm, note)
+    try:
+        load_model_text(text, file=str(out))
+    except ModelError as exc:
+        raise ModelError(f"the model with the new stations does not load: {exc.message}",
+                         file=str(source), field=exc.field, expected=exc.expected) from None
+    write_text(out, text)
+
+
 # ----------------------------------------------------------------------------- helpers
 def _read_source(path: Path) -> dict[str, Any]:
     try:
@@ -280,4 +343,5 @@ def _dump(data: Any) -> str:
                      allow_unicode=True, width=100)
 
 
-__all__ = ["FACTOR_KEYS", "QUANTITY_KEYS", "filled_model_text", "write_filled_model"]
+__all__ = ["FACTOR_KEYS", "QUANTITY_KEYS", "filled_model_text", "moved_model_text",
+           "write_filled_model", "write_moved_model"]

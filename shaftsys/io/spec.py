@@ -514,7 +514,7 @@ MODEL = {
     "units": F("any", "default units of bare numbers: 'internal' (N, mm, N*mm, MPa, rpm, W, "
                "h, mm^2/s, degC, deg, kg...) or a mapping such as {length: mm, force: kN, "
                "power: kW}; without it every dimensional value needs its unit"),
-    "study": F("any", "design study (see the sweep command)"),
+    "study": F("map", "design study (see the sweep and optimise commands)", of="study"),
     "selection": F("map", "how open bearings ('choose') are chosen", of="selection"),
     "thermal": F("map", "heat balance of the housing: bearing friction and operating "
                  "temperature per case", of="thermal"),
@@ -531,6 +531,54 @@ SELECTION = {
                     default=_SELECTION_DEFAULTS.max_passes, minimum=1, maximum=100),
     "runners_up": F("int", "qualifying bearings reported after the chosen one",
                     default=_SELECTION_DEFAULTS.runners_up, minimum=0, maximum=1000),
+}
+
+#: The ``study:`` section (read by :mod:`shaftsys.study.section`; bare numbers there
+#: are the internal unit of the quantity, so values are ``any`` here).
+STUDY_VARY = {
+    "path": F("str", "quantity path (bearing.<id>.at, spacing.<a>.<b>, step.<shaft>.<i>.d, "
+              "element.<id>.at, case.<id>.speed, ...)", required=True),
+    "values": F("any", "'start:stop:count', a list of values (with units) or one value",
+                required=True),
+    "seat": F("bool", "move the bearing's seat step with it", default=False),
+}
+
+STUDY_LIMIT = {
+    "kind": F("choice", "what is limited", required=True, choices=("deflection", "slope")),
+    "at": F("any", "bearing or element ids, or the groups gears, bearings, elements"),
+    "max": F("any", "largest allowed value: a length for deflection, rad for slope",
+             required=True),
+}
+
+STUDY_BOUND = {
+    "path": F("str", "station or spacing path: bearing.<id>.at, element.<id>.at, "
+              "gear.<id>.at or spacing.<a>.<b>", required=True),
+    "lower": F("any", "lower bound (a length, e.g. '200 mm')", required=True),
+    "upper": F("any", "upper bound (a length, e.g. '260 mm')", required=True),
+}
+
+STUDY_OPTIMISE = {
+    "objective": F("choice", "what is maximised: the smallest life margin C/C_req over "
+                   "the bearings", default="worst_life_margin",
+                   choices=("worst_life_margin",)),
+    "bounds": F("list", "the quantities the optimiser moves, each within its bounds",
+                of="study_bound", max_items=20),
+    "limits": F("list", "deflection/slope constraints (default: the study's limits)",
+                of="study_limit", max_items=1000),
+    "min_life_margin": F("number", "constraint: every bearing's C/C_req at least this "
+                         "(1 = its life target is met)", default=1.0, above=0.0),
+    "grid": F("int", "start-grid points per quantity", default=9, minimum=2, maximum=101),
+    "maxiter": F("int", "most optimiser iterations", default=200, minimum=1,
+                 maximum=10_000),
+}
+
+STUDY = {
+    "vary": F("list", "the swept quantities, in order", of="study_vary", max_items=20),
+    "combine": F("choice", "grid (cartesian product) or zip", choices=("grid", "zip")),
+    "limits": F("list", "deflection/slope limits of the study", of="study_limit",
+                max_items=1000),
+    "optimise": F("map", "best layout: bounds, constraints and objective of the optimise "
+                  "command", of="study_optimise"),
 }
 
 SECTIONS: dict[str, dict[str, Field]] = {
@@ -553,6 +601,11 @@ SECTIONS: dict[str, dict[str, Field]] = {
     "life": LIFE,
     "solver": SOLVER,
     "checks": CHECKS,
+    "study": STUDY,
+    "study_vary": STUDY_VARY,
+    "study_limit": STUDY_LIMIT,
+    "study_bound": STUDY_BOUND,
+    "study_optimise": STUDY_OPTIMISE,
 }
 
 

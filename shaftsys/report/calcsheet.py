@@ -329,3 +329,66 @@ def explain_bearing_html(result: Result, bearing_id: str) -> str:
     return (f'<pre class="calcsheet" id="calc-{html.escape(bearing_id, quote=True)}">'
             f"{html.escape(text)}</pre>")
 
+
+
+def explain_gear(result: Result, gear_id: str) -> str:
+    """Calculation sheet of one spur/helical gear: from the torque the power flow gives
+    it to its mesh force components (Shigley's force analysis of spur and helical
+    gears: Wt = 2T/d, Wr = Wt tan(phi_n)/cos(psi), Wa = Wt tan(psi)), compared with the
+    force the solve applied, and the shaft's force balance with the bearing reactions.
+
+    Units: N, mm, N*mm, rpm, kW in the power line. Raises ``KeyError`` for an unknown id.
+    """
+    from shaftsys.model.elements import Gear
+
+    for sr in result.shafts:
+        gear = next((e for e in sr.shaft.elements
+                     if e.id == gear_id and isinstance(e, Gear)), None)
+        if gear is not None:
+            break
+    else:
+        raise KeyError(gear_id)
+    d = gear.pitch_diameter_mm
+    phi = math.radians(gear.normal_pressure_angle_deg)
+    psi = math.radians(gear.helix_angle_deg)
+    src = f" (model line {gear.line})" if gear.line is not None else ""
+    out = [f"CALCULATION SHEET - gear {gear_id} on shaft {sr.shaft.id}",
+           "Spur/helical mesh forces (Shigley, force analysis of spur and helical gears).",
+           f"Inputs{src}: d = {format_value(d)} mm, phi_n = "
+           f"{format_value(gear.normal_pressure_angle_deg)} deg, psi = "
+           f"{format_value(gear.helix_angle_deg)} deg, x = {format_value(gear.x_mm)} mm"]
+    loads = {b.bearing.id: b for b in result.bearings if b.shaft_id == sr.shaft.id}
+    for cs in sr.cases:
+        own = [a for a in cs.applied if a.element == gear_id]
+        T = abs(sum(a.moment_Nmm[0] for a in own))
+        fy = sum(a.force_N[1] for a in own)
+        fz = sum(a.force_N[2] for a in own)
+        fx = sum(a.force_N[0] for a in own)
+        omega = 2.0 * math.pi * abs(cs.speed_rpm) / 60.0
+        Wt = 2.0 * T / d
+        Wr = Wt * math.tan(phi) / math.cos(psi)
+        Wa = Wt * math.tan(psi)
+        out += [f"case {cs.case}:",
+                f"  T  = |Mx of the gear| from the power flow = {format_value(T)} N*mm;"
+                f" P = T*omega = {format_value(T)} * {format_value(omega)} / 1e6 = "
+                f"{format_value(T * omega / 1e6)} kW at n = {format_value(cs.speed_rpm)} rpm",
+                f"  Wt = 2T/d = 2 * {format_value(T)} / {format_value(d)} = "
+                f"{format_value(Wt)} N",
+                f"  Wr = Wt tan(phi_n)/cos(psi) = {format_value(Wt)} * "
+                f"{format_value(math.tan(phi))} / {format_value(math.cos(psi))} = "
+                f"{format_value(Wr)} N",
+                f"  Wa = Wt tan(psi) = {format_value(Wa)} N",
+                f"  |W| = sqrt(Wt^2 + Wr^2 + Wa^2) = "
+                f"{format_value(math.sqrt(Wt * Wt + Wr * Wr + Wa * Wa))} N; applied by the "
+                f"solve: F = ({format_value(fx)}, {format_value(fy)}, {format_value(fz)}) N, "
+                f"|F| = {format_value(math.sqrt(fx * fx + fy * fy + fz * fz))} N"]
+        sy = sum(a.force_N[1] for a in cs.applied)
+        sz = sum(a.force_N[2] for a in cs.applied)
+        ry = sum(ld.Fy_N for b in loads.values() for ld in b.loads if ld.case == cs.case)
+        rz = sum(ld.Fz_N for b in loads.values() for ld in b.loads if ld.case == cs.case)
+        out.append(f"  equilibrium: sum Fy of element loads = {format_value(sy)} N, of "
+                   f"bearing loads = {format_value(ry)} N; sum Fz = {format_value(sz)} N "
+                   f"and {format_value(rz)} N (shaft weight aside); force and moment "
+                   f"residual of the solve {format_value(cs.force_residual_N)} N, "
+                   f"{format_value(cs.moment_residual_Nmm)} N*mm")
+    return "\n".join(out)

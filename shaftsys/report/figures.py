@@ -31,7 +31,7 @@ if TYPE_CHECKING:
     from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
-__all__ = ["diagrams", "load_life_chart", "shaft_drawing", "to_svg"]
+__all__ = ["deflection_lines", "diagrams", "load_life_chart", "shaft_drawing", "to_svg"]
 
 #: Colours of the report's own palette (ink, steel, accent, muted, warm, cool).
 INK = "#1d2630"
@@ -392,3 +392,40 @@ def to_svg(fig: Figure, salt: str | None = None) -> str:
     if start < 0:
         raise ValueError("matplotlib produced no <svg> element")
     return text[start:]
+
+
+def deflection_lines(shaft_result: ShaftResult, limits: Sequence[Any] = ()) -> Figure:
+    """Deflection and slope lines of one shaft in both planes, every case.
+
+    Four panels over x [mm]: deflection v = uy and w = uz [mm], slope dv/dx = rz and
+    dw/dx = -ry [rad], one line per case (from the solved nodal displacements). Each of
+    ``limits`` (the shaft's :class:`shaftsys.analysis.check_results.DeflectionCheck`
+    objects: bearings and gears) is drawn at its station as a bar from -limit to
+    +limit: the slope limit in the slope panels, the deflection limit (gears) in the
+    deflection panels, with its id. Nothing is solved here.
+    """
+    fig, axes = _new_figure(8.0, 7.2, nrows=4)
+    comps = ((1, 1.0, "v = uy [mm]"), (2, 1.0, "w = uz [mm]"),
+             (5, 1.0, "dv/dx [rad]"), (4, -1.0, "dw/dx [rad]"))
+    colours = ("#1b4965", WARM, COOL, "#e07a1f", "#3a7d44", MUTED)
+    for ax, (col, sign, label) in zip(axes, comps, strict=True):
+        for k, cs in enumerate(shaft_result.cases):
+            ax.plot(cs.node_x_mm, sign * cs.displacement[:, col], lw=1.2,
+                    color=colours[k % len(colours)], label=cs.case)
+        ax.axhline(0.0, color=MUTED, lw=0.6)
+        ax.set_ylabel(label)
+        ax.grid(True, lw=0.3, alpha=0.5)
+        slope_panel = col in (4, 5)
+        for c in limits:
+            lim = c.slope_limit_rad if slope_panel else c.deflection_limit_mm
+            if lim is None or not math.isfinite(lim):
+                continue
+            ax.errorbar([c.x_mm], [0.0], yerr=[[lim], [lim]], fmt="none",
+                        ecolor="#c1121f", elinewidth=1.4, capsize=4)
+            ax.annotate(f"{c.id} ±{_short(lim)}", (c.x_mm, lim), fontsize=7,
+                        color="#c1121f", xytext=(3, 2), textcoords="offset points")
+    axes[0].legend(fontsize=7, loc="best", title="case", title_fontsize=7)
+    axes[-1].set_xlabel(f"x [mm] along shaft {shaft_result.shaft.id}")
+    axes[0].set_title(f"Shaft {shaft_result.shaft.id}: deflection and slope in the x-y "
+                      "and x-z planes; red bars = limits at bearings and gears", fontsize=9)
+    return fig

@@ -506,6 +506,140 @@ def _cautions() -> str:
     return f'<section id="cautions"><h2>{SECTION_TITLES[8]}</h2><ul>{lis}</ul></section>'
 
 
+#: Titles of the shaft-check sections (shown when the result has shaft checks).
+SHAFT_CHECK_TITLES = ("Slopes and deflections", "Critical speeds",
+                      "Shaft fatigue and yield", "Static safety s0")
+
+
+def _status_word(verdict: str) -> str:
+    cls = "ok" if verdict in ("pass", "marginal") else "bad"
+    return f'<span class="stamp {cls}">{_e(verdict.upper())}</span>'
+
+
+def _deflection_section(result: Result, ctx: _Render) -> str:
+    """Slope and deflection at every bearing and gear, worst case, against its limit;
+    a deflection-line figure per shaft with the limits drawn at their stations.
+    """
+    checks = result.checks
+    if checks is None:
+        return ""
+    parts = [f'<section id="slopes"><h2>{SHAFT_CHECK_TITLES[0]}</h2>']
+    rows = []
+    for c in (*checks.bearings, *checks.gears):
+        ws = max(c.cases, key=lambda k: k.slope_rad, default=None)
+        wd = max(c.cases, key=lambda k: k.deflection_mm, default=None)
+        rows.append([
+            _e(c.shaft), _e(f"{c.kind} {c.id}"), _n(c.x_mm, 5),
+            _e(ws.case if ws else "-"), _n(ws.slope_rad if ws else None, 4),
+            _n(c.slope_limit_low_rad, 3) + " / " + _n(c.slope_limit_rad, 3),
+            _e(wd.case if wd else "-"), _n(wd.deflection_mm if wd else None, 4),
+            _n(c.deflection_limit_mm, 4) if c.deflection_limit_mm is not None else "-",
+            _e(c.source), _status_word(c.verdict)])
+    parts.append(_table(["shaft", "at", "x mm", "worst case (slope)", "slope rad",
+                         "caution / limit rad", "worst case (defl.)", "deflection mm",
+                         "limit mm", "source of limits", "verdict"], rows, (0, 1, 3, 6, 9)))
+    parts.append('<p class="note">Slope: resultant of both planes, largest over the cases; '
+                 "a slope between the caution value and the limit is marginal. Deflection: "
+                 "resultant radial deflection at the station.</p>")
+    for s in result.shafts:
+        lims = [c for c in (*checks.bearings, *checks.gears) if c.shaft == s.shaft.id]
+        parts.append(_figure(figures.deflection_lines(s, lims),
+                             f"Shaft {s.shaft.id}: deflection lines and slopes in the x-y "
+                             "and x-z planes for every case; red bars: allowed slope at "
+                             "bearings and gears, allowed deflection at gears.", ctx))
+    parts.append("</section>")
+    return "".join(parts)
+
+
+def _critical_speed_section(result: Result) -> str:
+    """First bending and torsional critical speed per shaft, margin to each case."""
+    checks = result.checks
+    if checks is None:
+        return ""
+    need = checks.settings.critical_speed_margin
+    rows = []
+    for s in result.shafts:
+        sc = checks.shaft(s.shaft.id)
+        for cs in s.cases:
+            n = abs(cs.speed_rpm)
+            margin = sc.first_critical_rpm / n if n > 0 else math.inf
+            rows.append([_e(s.shaft.id), _e(cs.case), _n(n, 5),
+                         _n(sc.first_critical_rpm, 5), _n(margin, 3),
+                         _n(sc.first_torsional_rpm, 5)])
+    table = _table(["shaft", "case", "speed rpm", "1st bending rpm",
+                    "1st bending / speed", "1st torsional rpm"], rows, 2)
+    verdicts = "".join(
+        f"<li>shaft {_e(sc.id)}: largest speed {_n(sc.max_speed_rpm, 5)} rpm, first "
+        f"bending critical {_n(sc.first_critical_rpm, 5)} rpm - required: at least "
+        f"{_n(need, 3)} x the largest speed (or below it / {_n(need, 3)}) "
+        f"{_status_word(sc.critical_speed_verdict)}</li>" for sc in checks.shafts)
+    return (f'<section id="critical"><h2>{SHAFT_CHECK_TITLES[1]}</h2>{table}<ul>{verdicts}'
+            '</ul><p class="note">Bending critical from the modal analysis of the beam '
+            "model (bearings as rigid supports unless a radial stiffness is given); the "
+            "second mode and the mode shapes are not part of the stored results.</p>"
+            "</section>")
+
+
+def _fatigue_section(result: Result) -> str:
+    """Every section of interest: notch factors, Se, stresses, safety vs required."""
+    checks = result.checks
+    if checks is None:
+        return ""
+    st = checks.settings
+    crit = {"goodman": "DE-Goodman", "asme_elliptic": "DE-ASME elliptic"}.get(
+        st.criterion, st.criterion)
+    parts = [f'<section id="fatigue"><h2>{SHAFT_CHECK_TITLES[2]}</h2>']
+    for sc in checks.shafts:
+        parts.append(f"<h3>Shaft {_e(sc.id)} {_status_word(sc.fatigue_verdict)}</h3>")
+        if sc.fatigue_not_evaluated is not None:
+            parts.append(f'<p class="note">Not evaluated: {_e(sc.fatigue_not_evaluated)}</p>')
+            continue
+        rows = [[_n(x.x_mm, 5), _e(x.feature), _n(x.d_mm, 4),
+                 _n(x.D_mm, 4) if x.D_mm is not None else "-",
+                 _n(x.r_mm, 3) if x.r_mm is not None else "-",
+                 _n(x.Kt, 3) + " / " + _n(x.Kts, 3), _n(x.Kf, 3) + " / " + _n(x.Kfs, 3),
+                 _n(x.Se_MPa, 4), _n(x.sigma_a_MPa, 4), _n(x.sigma_m_MPa, 4),
+                 _n(x.n_fatigue, 3) + " / " + _n(st.required_fatigue_safety, 3),
+                 _n(x.n_yield, 3) + " / " + _n(st.required_yield_safety, 3),
+                 _status_word(x.verdict)] for x in sc.sections]
+        parts.append(_table(["x mm", "feature", "d mm", "D mm", "r mm", "Kt / Kts",
+                             "Kf / Kfs", "Se MPa", "sigma_a' MPa", "sigma_m' MPa",
+                             f"n fatigue ({crit}) / req", "n yield / req", "verdict"],
+                            rows, (1,)))
+    parts.append(f'<p class="note">Criterion {_e(crit)} on von Mises stresses (Shigley, '
+                 "shaft design chapter); Se by the Marin factors; Kf = 1 + q (Kt - 1) "
+                 "applied to alternating and mean stress; n yield is first-cycle yield "
+                 "on the peak stresses.</p></section>")
+    return "".join(parts)
+
+
+def _static_section(result: Result) -> str:
+    """ISO 76 static safety s0 = C0/P0 of every bearing, worst case, against s0 min."""
+    rows = []
+    for b in result.bearings:
+        life = b.life
+        if life is None:
+            continue
+        rows.append([_e(f"{b.shaft_id}/{b.bearing.id}"), _e(life.s0_case or "-"),
+                     _n(b.bearing.C0_N, 5), _n(life.s0, 3), _n(life.s0_min, 3),
+                     _status_word("pass" if life.static_ok else "fail")])
+    if not rows:
+        return ""
+    return (f'<section id="static"><h2>{SHAFT_CHECK_TITLES[3]}</h2>'
+            + _table(["support", "worst case", "C0 N", "s0", "s0 min", "verdict"], rows, 2)
+            + '<p class="note">s0 = C0 / P0 with P0 = X0 Fr + Y0 Fa (ISO 76), smallest '
+            "over every case, peak and static cases included.</p></section>")
+
+
+def shaft_check_sections(result: Result, ctx: _Render | None = None) -> str:
+    """The HTML of the slope/deflection, critical-speed, fatigue and static-safety
+    sections (empty parts when the result has no shaft checks).
+    """
+    c = _Render(_no_step) if ctx is None else ctx
+    return "".join([_deflection_section(result, c), _critical_speed_section(result),
+                    _fatigue_section(result), _static_section(result)])
+
+
 def report_steps(result: Result) -> int:
     """Number of progress steps :func:`render_report` reports for ``result``.
 
@@ -556,7 +690,7 @@ def render_report(result: Result, date: str | None = None,
         f'<span class="stamp {"ok" if result.ok else "bad"}">{stamp}</span></div></header>',
         _provenance(result, date), _inputs(result), _summary(result),
         _shafts(result, ctx), _cases(result, ctx), _selection(result), _verdicts(result),
-        _bearings(result, ctx), _thermal(result),
+        _bearings(result, ctx), shaft_check_sections(result, ctx), _thermal(result),
         "" if study is None else (f'<section id="study"><h2>Design study</h2>'
                                   f"<p class=note>{_e(study[0])}</p>{study[1]}</section>"),
         _warnings(result), _cautions(),

@@ -19,6 +19,7 @@ bearing's seat step with it; ``at`` lists bearing or element ids or the groups
 from __future__ import annotations
 
 from collections.abc import Sequence
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
@@ -26,7 +27,11 @@ from shaftsys.errors import ModelError
 from shaftsys.model import Model
 from shaftsys.study.sweep import LIMIT_KINDS, Limit, Study, make_study
 
-STUDY_KEYS = ("vary", "combine", "limits")
+STUDY_KEYS = ("vary", "combine", "limits", "optimise")
+OPTIMISE_KEYS = ("objective", "bounds", "limits", "min_life_margin", "grid", "maxiter")
+BOUND_KEYS = ("path", "lower", "upper")
+#: Paths the optimiser may move (stations and spacings: a written model can hold them).
+OPTIMISE_PATH_HEADS = ("bearing", "element", "gear", "spacing")
 VARY_KEYS = ("path", "values", "seat")
 LIMIT_KEYS = ("kind", "at", "max")
 
@@ -174,3 +179,128 @@ def parse_limit_option(text: str) -> Limit:
         raise ModelError(f"--limit {text}: {exc.message}", field="--limit",
                          expected=exc.expected) from None
     return Limit(kind, tuple(a for a in at.split(",") if a), v)
+
+
+@dataclass(frozen=True)
+class OptimiseSpec:
+    """The ``study: optimise:`` sub-section, read and checked (internal units).
+
+    bounds: path -> (lower, upper) [mm]. limits: deflection [mm] / slope [rad]
+    constraints. min_life_margin: every bearing's C/C_req at least this [-].
+    grid, maxiter: start-grid points per quantity, optimiser iterations.
+    lines: path -> model-file line of its bound (for messages).
+    """
+
+    bounds: dict[str, tuple[float, float]]
+    limits: tuple[Limit, ...]
+    min_life_margin: float = 1.0
+    grid: int = 9
+    maxiter: int = 200
+    objective: str = "worst_life_margin"
+    lines: dict[str, int | None] = field(default_factory=dict)
+
+
+def optimise_from_section(model: Model, section: Any, file: str | None = None
+                          ) -> OptimiseSpec:
+    """Read ``study: optimise:`` (bounds on stations/spacings, limits, life margin).
+
+    The limits default to the study's own ``limits``. Every path is parsed against the
+    model (an unknown bearing or element is refused at its line).
+
+    Raises
+    ------
+    ModelError: naming file, line and field (``study.optimise.bounds[0].upper``...).
+    """
+    from shaftsys.io.quantities import QuantityProblem, to_internal
+    from shaftsys.study.paths import parse_quantity
+
+    f = file or "model"
+    if not isinstance(section, dict) or section.get("optimise") is None:
+        raise ModelError("the model has no optimiser section", file=f,
+                         line=getattr(section, "line", None), field="study.optimise",
+                         expected="study: {optimise: {bounds: [{path: bearing.B.at, "
+                         "lower: 200 mm, upper: 260 mm}]}}")
+    opt = section["optimise"]
+    where = "study.optimise"
+    if not isinstance(opt, dict):
+        raise ModelError("optimise is a mapping", file=f, line=_line(section, "optimise"),
+                         field=where, expected="{bounds: [...], limits: [...]}")
+    _unknown(opt, OPTIMISE_KEYS, f, where)
+    objective = str(opt.get("objective", "worst_life_margin"))
+    if objective != "worst_life_margin":
+        raise ModelError(f"objective '{objective}'", file=f, line=_line(opt, "objective"),
+                         field=f"{where}.objective", expected="worst_life_margin")
+    raw = opt.get("bounds")
+    if not isinstance(raw, list) or not raw:
+        raise ModelError("bounds is a non-empty list", file=f,
+                         line=_line(opt, "bounds") if "bounds" in opt else _line(
+                             section, "optimise"), field=f"{where}.bounds",
+                         expected="- {path: bearing.B.at, lower: 200 mm, upper: 260 mm}")
+    bounds: dict[str, tuple[float, float]] = {}
+    lines: dict[str, int | None] = {}
+    for i, it in enumerate(raw):
+        here = f"{where}.bounds[{i}]"
+        if not isinstance(it, dict) or any(k not in it for k in BOUND_KEYS):
+            raise ModelError("each bound needs a path, lower and upper", file=f,
+                             line=_line(raw, i), field=here,
+                             expected="{path: bearing.B.at, lower: 200 mm, upper: 260 mm}")
+        _unknown(it, BOUND_KEYS, f, here)
+        path = str(it["path"])
+        parts = path.split(".")
+        if parts[0] not in OPTIMISE_PATH_HEADS or (
+                parts[-1] != "at" and parts[0] != "spacing"):
+            raise ModelError(f"path '{path}' is not a station or a spacing", file=f,
+                             line=_line(it, "path"), field=f"{here}.path",
+                             expected="bearing.<id>.at, element.<id>.at, gear.<id>.at or "
+                             "spacing.<a>.<b>")
+        try:
+            parse_quantity(model, path)
+        except ModelError as exc:
+            raise ModelError(exc.message, file=f, line=_line(it, "path"),
+                             field=f"{here}.path", expected=exc.expected) from None
+        if path in bounds:
+            raise ModelError(f"path '{path}' is bounded twice", file=f,
+                             line=_line(it, "path"), field=f"{here}.path",
+                             expected="each path once")
+        vals = []
+        for key in ("lower", "upper"):
+            try:
+                vals.append(to_internal(it[key], "length"))
+            except QuantityProblem as exc:
+                raise ModelError(exc.message, file=f, line=_line(it, key),
+                                 field=f"{here}.{key}", expected=exc.expected) from None
+        lo, hi = vals
+        if not hi > lo:
+            raise ModelError(f"upper {hi:g} mm is not above lower {lo:g} mm", file=f,
+                             line=_line(it, "upper"), field=f"{here}.upper",
+                             expected="lower < upper")
+        bounds[path] = (lo, hi)
+        lines[path] = _line(raw, i)
+    limits: list[Limit] = []
+    raw_limits = opt.get("limits", section.get("limits"))
+    key_of = "limits" if "limits" in opt else None
+    if raw_limits is not None:
+        if not isinstance(raw_limits, list):
+            raise ModelError("limits is a list", file=f,
+                             line=_line(opt if key_of else section, "limits"),
+                             field=f"{where}.limits" if key_of else "study.limits",
+                             expected="- {kind: deflection, at: [gears], max: 0.05 mm}")
+        for i, it in enumerate(raw_limits):
+            lim = _limit(it, f, raw_limits, i)
+            limits.append(lim)
+    margin = opt.get("min_life_margin", 1.0)
+    if isinstance(margin, bool) or not isinstance(margin, int | float) or not margin > 0:
+        raise ModelError(f"min_life_margin {margin!r}", file=f,
+                         line=_line(opt, "min_life_margin"),
+                         field=f"{where}.min_life_margin", expected="a number above 0")
+    ints = {}
+    for key, default, lo_i, hi_i in (("grid", 9, 2, 101), ("maxiter", 200, 1, 10_000)):
+        v = opt.get(key, default)
+        if isinstance(v, bool) or not isinstance(v, int) or not lo_i <= v <= hi_i:
+            raise ModelError(f"{key} {v!r}", file=f, line=_line(opt, key),
+                             field=f"{where}.{key}",
+                             expected=f"a whole number {lo_i}..{hi_i}")
+        ints[key] = v
+    return OptimiseSpec(bounds=bounds, limits=tuple(limits), min_life_margin=float(margin),
+                        grid=ints["grid"], maxiter=ints["maxiter"], objective=objective,
+                        lines=lines)
