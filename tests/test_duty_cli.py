@@ -253,3 +253,31 @@ def test_load_channel_option(tmp_path: Path, capsys: pytest.CaptureFixture[str])
     assert thrusts == pytest.approx([-1500.0, -700.0], rel=1e-12)
     code, _, err = run(["duty", str(fan), str(p), "--load", "thrust=pulley.Fx"], capsys)
     assert code == 2 and "'pulley' is not a process-load element" in err
+
+
+def test_recording_section_equals_options(tmp_path: Path) -> None:
+    """A model's recording: section gives the same reduction as the same settings as
+    options (one reading of one file; common practice, no source), and a bad field of
+    the section is exit 2 naming file, line and field."""
+    rec = tmp_path / "conveyor.csv"
+    subprocess.run([sys.executable, str(ROOT / "models" / "make_demo_recording.py"),
+                    str(rec), "--hours", "0.5"], check=True, capture_output=True)
+    text = REDUCER.read_text() + ("\nrecording:\n  file: conveyor.csv\n  bins: 6\n"
+                                  "  peak_above: 200 N*m\n")
+    model = tmp_path / "m.yaml"
+    model.write_text(text)
+    a, b = tmp_path / "a.json", tmp_path / "b.json"
+    p1 = subprocess.run([sys.executable, "-m", "shaftsys", "duty", str(model), "--json",
+                         str(a), "-q"], capture_output=True, text=True, cwd=ROOT)
+    p2 = subprocess.run([sys.executable, "-m", "shaftsys", "duty", str(REDUCER), str(rec),
+                         "--bins", "6", "--peak-above", "200 N*m", "--json", str(b), "-q"],
+                        capture_output=True, text=True, cwd=ROOT)
+    assert p1.returncode == p2.returncode == 0, p1.stderr + p2.stderr
+    ca = json.loads(a.read_text())["duty_reduction"]["cases"]
+    cb = json.loads(b.read_text())["duty_reduction"]["cases"]
+    assert len(ca) > 2 and ca == cb
+    bad = tmp_path / "bad.yaml"
+    bad.write_text(REDUCER.read_text() + "\nrecording:\n  file: conveyor.csv\n  bins: 0\n")
+    p3 = subprocess.run([sys.executable, "-m", "shaftsys", "check", str(bad)],
+                        capture_output=True, text=True, cwd=ROOT)
+    assert p3.returncode == 2 and "bad.yaml:" in p3.stderr and "recording.bins" in p3.stderr

@@ -40,7 +40,8 @@ def add_duty_parser(subparsers: Any, exit_codes: str = "") -> argparse.ArgumentP
         epilog=DUTY_EPILOG + ("\n\n" + exit_codes if exit_codes else ""),
         formatter_class=argparse.RawDescriptionHelpFormatter)
     p.add_argument("model", help="model file (YAML)")
-    p.add_argument("series", help="recording (.csv, .parquet)")
+    p.add_argument("series", nargs="?", help="recording (.csv, .parquet); default: the "
+                   "model's recording: section, which then also gives columns and bins")
     for role in ("time", "torque", "power", "speed", "temperature"):
         p.add_argument(f"--{role}", metavar="COLUMN", help=f"name of the {role} column")
     p.add_argument("--load", action="append", default=[], metavar="COLUMN=ELEMENT.Fy",
@@ -155,6 +156,20 @@ def error_table(red: Any) -> str:
     return "\n".join(rows)
 
 
+def _apply_recording(args: argparse.Namespace, rec: Any) -> None:
+    """Fill the options from a model's ``recording:`` section (``io.recording``)."""
+    args.series = str(rec.path)
+    for role in ("time", "torque", "power", "speed", "temperature"):
+        setattr(args, role, getattr(rec, role))
+    args.load = [f"{col}={el}.{('Fx', 'Fy', 'Fz')[k]}" for col, el, k in rec.loads]
+    args.bins, args.speed_bins, args.exponent = rec.bins, rec.speed_bins, rec.exponent
+    args.edges = (",".join(f"{e!r}" for e in rec.edges_Nmm) + " N*mm"
+                  if rec.edges_Nmm else None)
+    args.peak_above = f"{rec.peak_above_Nmm!r} N*mm" if rec.peak_above_Nmm else None
+    args.tolerance, args.template, args.prefix = (rec.tolerance_pct, rec.template,
+                                                  rec.prefix)
+
+
 def run_duty(args: argparse.Namespace) -> int:
     """Run the ``duty`` command; returns the exit code."""
     from shaftsys.analysis.duty import reduce_duty
@@ -163,6 +178,15 @@ def run_duty(args: argparse.Namespace) -> int:
     from shaftsys.report.tables import overall_verdict, shaft_checks_table, verdict_table
 
     model = load_model(args.model)
+    if args.series is None:
+        from shaftsys.io.recording import model_recording
+
+        rec = model_recording(args.model)
+        if rec is None:
+            raise ModelError(f"{args.model} names no recording", file=args.model,
+                             field="recording", expected="a series file argument, or a "
+                             "'recording:' section in the model file")
+        _apply_recording(args, rec)
     settings = _settings(args, model)
     load_columns, targets = _load_options(args.load)
     source = open_series(args.series, time=args.time, torque=args.torque,

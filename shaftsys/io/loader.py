@@ -163,6 +163,10 @@ def _build_model(raw: LocatedDict, file: str | None, top: Where) -> Model:
         thermal=read_thermal(top, raw.get("thermal"), lubrication,
                              {b.id for s in shafts for b in s.bearings}),
     )
+    if raw.get("recording") is not None:   # checked here so check/report name its errors
+        from shaftsys.io.recording import read_recording
+
+        read_recording(top, raw["recording"], file)
     if links:
         from shaftsys.machine.geometry import check_machine
 

@@ -518,6 +518,35 @@ MODEL = {
     "selection": F("map", "how open bearings ('choose') are chosen", of="selection"),
     "thermal": F("map", "heat balance of the housing: bearing friction and operating "
                  "temperature per case", of="thermal"),
+    "recording": F("map", "a recorded torque/speed series reduced into the duty cases "
+                   "(see the duty command)", of="recording"),
+}
+
+#: A recorded series named in the model file (``shaftsys duty``, ``check``, ``report``).
+RECORDING = {
+    "file": F("str", "the recording (.csv or .parquet), relative to the model file",
+              required=True),
+    "time": F("str", "time column (default time or t)"),
+    "torque": F("str", "torque column of the input element (default torque)"),
+    "power": F("str", "power column of the input element (instead of torque)"),
+    "speed": F("str", "speed column of the input element (default speed or n)"),
+    "temperature": F("str", "temperature column (each case gets its bin's mean)"),
+    "loads": F("any", "force column -> ELEMENT.Fx|Fy|Fz of a process load it drives"),
+    "template": F("id", "case giving the input element and output shares (default: the "
+                  "first duty case)"),
+    "bins": F("int", "torque bins per sign region", default=16, minimum=1,
+              maximum=10_000),
+    "edges": F("quantities", "torque bin edges on |T| (instead of bins)", dim="moment",
+               non_negative=True),
+    "speed_bins": F("int", "speed bins per sign region (2-D binning when > 1)", default=1,
+                    minimum=1, maximum=10_000),
+    "exponent": F("number", "p of the bins' power mean (default 10/3 with any roller "
+                  "bearing, else 3)", minimum=1.0, maximum=20.0),
+    "peak_above": F("quantity", "|torque| above which a peak case is made", dim="moment",
+                    positive=True),
+    "tolerance": F("number", "largest reduction error of a bearing's equivalent load [%] "
+                   "before a warning", positive=True, maximum=100.0),
+    "prefix": F("str", "prefix of the generated case ids", default="rec"),
 }
 
 _SELECTION_DEFAULTS = SelectionSettings()
@@ -597,6 +626,7 @@ SECTIONS: dict[str, dict[str, Field]] = {
     "lubrication": LUBRICATION,
     "thermal": THERMAL,
     "thermal_friction": THERMAL_FRICTION,
+    "recording": RECORDING,
     "link": LINK,
     "life": LIFE,
     "solver": SOLVER,
