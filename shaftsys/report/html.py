@@ -637,7 +637,21 @@ def shaft_check_sections(result: Result, ctx: _Render | None = None) -> str:
     """
     c = _Render(_no_step) if ctx is None else ctx
     return "".join([_deflection_section(result, c), _critical_speed_section(result),
-                    _fatigue_section(result), _static_section(result)])
+                    _fatigue_section(result), _static_section(result),
+                    _gear_sheets(result)])
+
+
+def _gear_sheets(result: Result) -> str:
+    """The calculation sheet of every spur/helical gear (mesh forces from the torque)."""
+    from shaftsys.model.elements import Gear
+    from shaftsys.report.calcsheet import explain_gear
+
+    ids = [e.id for s in result.shafts for e in s.shaft.elements if isinstance(e, Gear)]
+    if not ids:
+        return ""
+    pres = "".join(f'<pre class="calcsheet">{_e(explain_gear(result, g))}</pre>' for g in ids)
+    return f'<section id="gear-forces"><h2>Gear mesh forces</h2>{pres}</section>'
+
 
 
 def report_steps(result: Result) -> int:
