@@ -226,8 +226,6 @@ class Result:
                 out.append(f"life of bearing '{b.bearing.id}'")
             if not b.life.static_ok:
                 out.append(f"static safety of bearing '{b.bearing.id}'")
-            if not b.life.ok and b.life.life_ok and b.life.static_ok:
-                out.append(f"bearing '{b.bearing.id}'")
         if self.thermal is not None and self.thermal.verdict == FAIL:
             out.append("heat balance (operating temperature)")
         if self.checks is not None:

@@ -104,21 +104,13 @@ def write_filled_model(model_path: str | Path, chosen: Mapping[str, Bearing],
         set, or the file cannot be written.
     ModelError: as :func:`filled_model_text`, or the filled model does not load.
     """
-    from shaftsys.io.loader import load_model_text
-    from shaftsys.io.output import write_text
-
     source, out = Path(model_path), Path(out_path)
     if _same_file(source, out) and not overwrite_input:
         raise OutputError(f"refusing to write the filled model over its source {source}: "
                           "choose another output file (or allow overwriting the input)")
     text = filled_model_text(source, chosen, note, designations=designations,
                              out_dir=out.parent if str(out.parent) else Path("."))
-    try:
-        load_model_text(text, file=str(out))
-    except ModelError as exc:
-        raise ModelError(f"the model with the chosen bearings does not load: {exc.message}",
-                         file=str(source), field=exc.field, expected=exc.expected) from None
-    write_text(out, text)
+    _write_if_it_loads(source, out, text, "the model with the chosen bearings")
 
 
 def moved_model_text(model_path: str | Path, stations_mm: Mapping[str, float],
@@ -168,19 +160,24 @@ def write_moved_model(model_path: str | Path, stations_mm: Mapping[str, float],
     OutputError: ``out_path`` is the source model file, or it cannot be written.
     ModelError: as :func:`moved_model_text`, or the written model would not load.
     """
-    from shaftsys.io.loader import load_model_text
-    from shaftsys.io.output import write_text
-
     source, out = Path(model_path), Path(out_path)
     if _same_file(source, out):
         raise OutputError(f"refusing to write the moved model over its source {source}: "
                           "choose another output file")
     text = moved_model_text(source, stations_mm, note)
+    _write_if_it_loads(source, out, text, "the model with the new stations")
+
+
+def _write_if_it_loads(source: Path, out: Path, text: str, what: str) -> None:
+    """Write ``text`` to ``out`` only after it loads as a model (errors name ``source``)."""
+    from shaftsys.io.loader import load_model_text
+    from shaftsys.io.output import write_text
+
     try:
         load_model_text(text, file=str(out))
     except ModelError as exc:
-        raise ModelError(f"the model with the new stations does not load: {exc.message}",
-                         file=str(source), field=exc.field, expected=exc.expected) from None
+        raise ModelError(f"{what} does not load: {exc.message}", file=str(source),
+                         field=exc.field, expected=exc.expected) from None
     write_text(out, text)
 
 
