@@ -82,7 +82,8 @@ class DutyReduction:
     analysis (``None`` with ``analyse_model=False``); ``errors``: binned vs direct per
     bearing; ``affine_mismatch``: largest relative miss of the superposition check;
     ``interpolation_error``: largest relative miss of the direct integral's P(T) table;
-    ``time_s``, ``revs``, ``samples``: totals of the series; ``warnings``: texts.
+    ``time_s``, ``revs``, ``samples``: totals of the series; ``warnings``: texts;
+    ``series``: the recording's file (as given) for the output.
     """
 
     cases: tuple[DutyCase, ...]
@@ -96,6 +97,17 @@ class DutyReduction:
     samples: int
     template: str
     warnings: tuple[str, ...]
+    series: str = ""
+
+
+def default_exponent(model: Model) -> float:
+    """The exponent p of the bins' power mean when the user gives none: the largest life
+    exponent of the model's bearings (10/3 with any roller bearing, else 3; ISO 281:2007, 7.1).
+    """
+    from shaftsys.bearings.arrays import BearingArrays
+
+    arrays = BearingArrays.from_bearings([b for s in model.shafts for b in s.bearings])
+    return float(arrays.life_exponent.max())
 
 
 def _check_targets(model: Model, targets: Sequence[LoadTarget]) -> None:
@@ -348,9 +360,10 @@ def reduce_duty(model: Model, chunks: Chunks, settings: BinSettings, *,
                                 "bins")
     return DutyReduction(tuple(cases), reduced, result, tuple(errors), affine.mismatch,
                          direct.interpolation_error,
-                         scan.time_s, scan.revs, scan.samples, tmpl.id, tuple(warnings))
+                         scan.time_s, scan.revs, scan.samples, tmpl.id, tuple(warnings),
+                         series_name)
 
 
 __all__ = ["AFFINE_TOLERANCE", "LOAD_PROBE_N", "BearingDutyError", "DutyReduction",
-           "LoadTarget", "case_loads", "model_with_cases", "probe_affine", "reduce_duty",
-           "template_case"]
+           "LoadTarget", "case_loads", "default_exponent", "model_with_cases", "probe_affine",
+           "reduce_duty", "template_case"]

@@ -191,6 +191,9 @@ class Result:
     selection: Selection | None = None
     thermal: ThermalResult | None = None
     internal: dict[str, dict[str, Any]] | None = None
+    #: the reduction of the model's recording (``recording:``) that made its duty cases,
+    #: an ``analysis.duty.DutyReduction`` (typed Any: that module builds on this one)
+    duty_reduction: Any = None
 
     @property
     def verdict(self) -> str:

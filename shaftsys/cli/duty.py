@@ -10,6 +10,7 @@ import argparse
 import itertools
 import json
 import sys
+from dataclasses import replace
 from typing import Any
 
 from shaftsys.errors import EXIT_OK, EXIT_TARGET_MISSED, ModelError
@@ -119,41 +120,15 @@ def _settings(args: argparse.Namespace, model: Any) -> Any:
         raise ModelError(f"--chunk {args.chunk}", field="--chunk", expected=">= 2 rows")
     p = args.exponent
     if p is None:
-        from shaftsys.bearings.arrays import BearingArrays
+        from shaftsys.analysis.duty import default_exponent
 
-        arrays = BearingArrays.from_bearings([b for s in model.shafts for b in s.bearings])
-        p = float(arrays.life_exponent.max())
+        p = default_exponent(model)
     elif not 1.0 <= p <= 20.0:
         raise ModelError(f"--exponent {p}", field="--exponent", expected="3 or 10/3")
     return BinSettings(
         torque_bins=args.bins, torque_edges_Nmm=_edges(args.edges) if args.edges else None,
         speed_bins=args.speed_bins, exponent=p,
         peak_above_Nmm=_torque(args.peak_above, "--peak-above") if args.peak_above else None)
-
-
-def cases_table(red: Any) -> str:
-    """Plain-text table of the generated cases."""
-    rows = [f"{'case':<28} {'kind':<5} {'torque_N*m':>11} {'speed_rpm':>10} "
-            f"{'time_h':>10} {'revolutions':>12} {'share':>9}"]
-    for c in red.cases:
-        rows.append(f"{c.id:<28} {c.kind:<5} {c.torque_Nmm / 1000:>11.4g} "
-                    f"{c.speed_rpm:>10.5g} {c.time_s / 3600:>10.4g} {c.revs:>12.5g} "
-                    f"{c.share:>9.4g}")
-    return "\n".join(rows)
-
-
-def error_table(red: Any) -> str:
-    """Plain-text table: per bearing, equivalent load and basic life, cases vs direct."""
-    rows = ["reduction error (cases vs direct integral over the raw samples; basic L10)",
-            f"{'bearing':<12} {'p':>5} {'P_cases_N':>11} {'P_direct_N':>11} {'dP_%':>8} "
-            f"{'L10_cases_h':>12} {'L10_direct_h':>12} {'dL_%':>8}"]
-    for e in red.errors:
-        rows.append(f"{e.bearing:<12} {e.exponent:>5.3g} {e.P_cases_N:>11.5g} "
-                    f"{e.P_direct_N:>11.5g} {e.P_error_pct:>+8.3f} {e.L10_cases_h:>12.5g} "
-                    f"{e.L10_direct_h:>12.5g} {e.L10_error_pct:>+8.3f}")
-    rows.append(f"direct integral: loads superposed from probe solves (affine check miss "
-                f"{red.affine_mismatch:.2g}), P^p table bound {red.interpolation_error:.2g}")
-    return "\n".join(rows)
 
 
 def _apply_recording(args: argparse.Namespace, rec: Any) -> None:
@@ -175,6 +150,7 @@ def run_duty(args: argparse.Namespace) -> int:
     from shaftsys.analysis.duty import reduce_duty
     from shaftsys.io.loader import load_model
     from shaftsys.io.timeseries import open_series
+    from shaftsys.report.duty_tables import cases_table, error_table, summary_line
     from shaftsys.report.tables import overall_verdict, shaft_checks_table, verdict_table
 
     model = load_model(args.model)
@@ -196,8 +172,8 @@ def run_duty(args: argparse.Namespace) -> int:
     red = reduce_duty(model, source.chunks, settings, template=args.template,
                       prefix=args.prefix, tolerance_pct=args.tolerance,
                       series_name=source.name, channels=kinds, load_targets=targets)
-    result = red.result
-    assert result is not None
+    assert red.result is not None
+    result = replace(red.result, duty_reduction=red)
     if args.write:
         from shaftsys.io.duty_cases import cases_fragment_text
         from shaftsys.io.output import write_text
@@ -209,21 +185,17 @@ def run_duty(args: argparse.Namespace) -> int:
 
         save_duty_plot(red, args.plot)
     if args.json:
-        from shaftsys.io.duty_cases import reduction_dict
         from shaftsys.io.output import json_ready, write_json
         from shaftsys.io.results_json import result_to_dict
 
-        data = result_to_dict(result)
-        data["duty_reduction"] = reduction_dict(red, args.series)
+        data = result_to_dict(result)  # with the reduction: the check's JSON, same keys
         if args.json == "-":
             sys.stdout.write(json.dumps(json_ready(data), indent=2, allow_nan=False) + "\n")
         else:
             write_json(args.json, data)
     out = sys.stderr if args.json == "-" else sys.stdout
     if not args.quiet:
-        print(f"{source.name}: {red.samples} samples, {red.time_s / 3600:.4g} h, "
-              f"{red.revs:.5g} revolutions of the input shaft; template case "
-              f"'{red.template}'", file=out)
+        print(summary_line(red), file=out)
         print(cases_table(red), file=out)
         print(file=out)
         print(error_table(red), file=out)
@@ -248,4 +220,4 @@ def run_duty(args: argparse.Namespace) -> int:
     return EXIT_OK if result.ok else EXIT_TARGET_MISSED
 
 
-__all__ = ["add_duty_parser", "cases_table", "error_table", "run_duty"]
+__all__ = ["add_duty_parser", "run_duty"]

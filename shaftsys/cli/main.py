@@ -58,7 +58,8 @@ REPORT_EXAMPLE = """example:
 PLOT_EXAMPLE = """examples:
   shaftsys plot models/fan_drive.yaml --what drawing -o shaft.svg
   shaftsys plot models/fan_drive.yaml --what diagrams --case full_flow -o full_flow.png
-  shaftsys plot models/fan_drive.yaml --what life --bearing A -o A_life.png"""
+  shaftsys plot models/fan_drive.yaml --what life --bearing A -o A_life.png
+  shaftsys plot models/belt_reducer_recorded.yaml --what duty -o duty.png"""
 
 SCHEMA_EXAMPLE = """example:
   shaftsys schema -o model.schema.json"""
@@ -169,10 +170,11 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
 
     pl = _command(sub, "plot", "write a figure (PNG or SVG, by the file's suffix)",
                   "Solve a model and write one figure: the to-scale shaft drawing, the "
-                  "diagrams of one case, or the load-life chart of one bearing.",
+                  "diagrams of one case, the load-life chart of one bearing, or the "
+                  "load-duration figure of the model's recording.",
                   PLOT_EXAMPLE)
     pl.add_argument("model", help="model file (YAML)")
-    pl.add_argument("--what", choices=("drawing", "diagrams", "life"), required=True,
+    pl.add_argument("--what", choices=("drawing", "diagrams", "life", "duty"), required=True,
                     help="which figure")
     pl.add_argument("--shaft", metavar="ID", help="shaft id (default: the first)")
     pl.add_argument("--case", metavar="ID", help="case id for diagrams (default: the first)")
@@ -282,7 +284,9 @@ def _warn(text: str) -> None:
 
 def _solve(args: argparse.Namespace, bar: Any) -> Any:
     """Read and solve ``args.model``, counting two steps on ``bar`` (an ``--objective``
-    option replaces the model's choice objective).
+    option replaces the model's choice objective). A model that names a recording is
+    solved with the cases reduced from it (``io.recording``); the result then carries the
+    reduction.
     """
     from shaftsys import analyse
     from shaftsys.io.loader import load_model
@@ -297,8 +301,17 @@ def _solve(args: argparse.Namespace, bar: Any) -> Any:
         model = replace(model, selection=replace(model.selection,
                                                  objective=Objective(args.objective)))
     bar.advance()
-    bar.status("solving")
-    result = analyse(model)
+    from shaftsys.io.recording import model_recording
+
+    spec = model_recording(args.model)
+    if spec is None:
+        bar.status("solving")
+        result = analyse(model)
+    else:
+        from shaftsys.io.recording import analyse_recorded
+
+        bar.status("reducing the recording, solving")
+        result = analyse_recorded(model, spec)
     bar.advance()
     return result
 
@@ -325,8 +338,12 @@ def _verdict_code(result: Any) -> int:
 # ------------------------------------------------------------------------ commands
 def _validate(args: argparse.Namespace) -> int:
     from shaftsys.io.loader import load_model
+    from shaftsys.io.recording import model_recording, require_series_file
 
     model = load_model(args.model)
+    spec = model_recording(args.model)
+    if spec is not None:
+        require_series_file(spec)
     if not args.quiet:
         nb = sum(len(s.bearings) for s in model.shafts)
         seats = (f", {len(model.open_seats)} of them to choose from a catalogue"
@@ -436,6 +453,15 @@ def _check(args: argparse.Namespace) -> int:
             if result.checks is not None:
                 print(file=out)
                 _emit(shaft_checks_table(result.checks), out)
+            if result.duty_reduction is not None:
+                from shaftsys.report.duty_tables import cases_table, error_table, summary_line
+
+                red = result.duty_reduction
+                print(file=out)
+                _emit(f"duty from the recording - {summary_line(red)}", out)
+                _emit(cases_table(red), out)
+                print(file=out)
+                _emit(error_table(red), out)
             print(file=out)
             _emit(overall_verdict(result), out)
         out.flush()
@@ -533,7 +559,16 @@ def _plot(args: argparse.Namespace) -> int:
         result = _solve(args, bar)
         bar.status("drawing")
         shaft = _pick(result.shafts, args.shaft, lambda s: s.shaft.id, "--shaft")
-        if args.what == "drawing":
+        if args.what == "duty":
+            if result.duty_reduction is None:
+                raise ModelError(f"{args.model} names no recording, so it has no "
+                                 "load-duration figure", file=args.model, field="recording",
+                                 expected="a 'recording:' section in the model file (or "
+                                 "'shaftsys duty MODEL SERIES --plot FILE')")
+            from shaftsys.report.duty_plot import duty_chart
+
+            fig = duty_chart(result.duty_reduction)
+        elif args.what == "drawing":
             fig = figures.shaft_drawing(shaft)
         elif args.what == "diagrams":
             case = _pick(shaft.cases, args.case, lambda c: c.case, "--case")
@@ -563,7 +598,9 @@ def _pick(items: Sequence[Any], wanted: str | None, key: Any, option: str) -> An
 
 def _all_warnings(result: object) -> list[str]:
     """Every warning of a result, once, model-level first."""
-    found: list[str] = list(getattr(result, "warnings", ()))
+    red = getattr(result, "duty_reduction", None)
+    found: list[str] = list(red.warnings) if red is not None else []
+    found.extend(getattr(result, "warnings", ()))
     for b in getattr(result, "bearings", ()):
         if b.life is not None:
             found.extend(w if b.bearing.id in w else f"bearing '{b.bearing.id}': {w}"

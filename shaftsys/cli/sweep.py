@@ -110,14 +110,14 @@ def _terminate_as_interrupt() -> Any:
 
 def run_sweep(args: argparse.Namespace) -> int:
     """Run the ``sweep`` command; returns the exit code (0 ran, 2 bad input, 3 failed)."""
-    from shaftsys.io.loader import load_model
+    from shaftsys.io.model_duty import load_model_with_duty
     from shaftsys.study.runner import run_study
     from shaftsys.study.section import parse_limit_option, read_study_section, study_from_section
     from shaftsys.study.writers import parse_formats
 
     logging.getLogger("shaftsys.bearings").setLevel(logging.ERROR)
     try:
-        model = load_model(args.model)
+        model, _ = load_model_with_duty(args.model, analyse_model=False)
         section, name = read_study_section(args.model)
         if args.workers is not None and args.workers < 0:
             raise ModelError(f"--workers {args.workers}", field="--workers",

@@ -73,10 +73,12 @@ def cases_fragment_text(red: DutyReduction, series: str, template: Case,
     return "\n".join(out) + "\n"
 
 
-def reduction_dict(red: DutyReduction, series: str) -> dict[str, Any]:
-    """JSON-ready summary of the reduction (units in the keys)."""
+def reduction_dict(red: DutyReduction, series: str | None = None) -> dict[str, Any]:
+    """JSON-ready summary of the reduction (units in the keys; ``series``: the file name
+    to show, default the reduction's own).
+    """
     return {
-        "series": series,
+        "series": red.series if series is None else series,
         "samples": red.samples,
         "duration_h": red.time_s / 3600.0,
         "revolutions": red.revs,

@@ -2,8 +2,11 @@
 
 ``read_recording(top, raw, file)`` checks the section (located errors, exit 2) and
 returns a :class:`RecordingSpec`; ``model_recording(path)`` reads it from a model file
-(``None`` when the model names no recording). The reduction itself is
-``analysis.duty.reduce_duty``.
+(``None`` when the model names no recording). ``reduce_recording(model, spec)`` reads the
+series and reduces it to the model's duty cases (``analysis.duty.reduce_duty``);
+``analyse_recorded(model, spec)`` analyses the model with those cases (what ``check``,
+``report`` and ``plot`` do); ``io.model_duty.load_model_with_duty`` gives the study
+commands the model with the recorded cases.
 """
 
 from __future__ import annotations
@@ -11,10 +14,16 @@ from __future__ import annotations
 import itertools
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from shaftsys.io import spec as S
 from shaftsys.io.spec import Where, read_section, require_mapping
+
+if TYPE_CHECKING:
+    from shaftsys.analysis.duty import DutyReduction
+    from shaftsys.analysis.duty_reduction import BinSettings
+    from shaftsys.analysis.results import Result
+    from shaftsys.model import Model
 
 
 @dataclass(frozen=True, slots=True)
@@ -26,7 +35,8 @@ class RecordingSpec:
     component index 0..2 for Fx, Fy, Fz); bins, speed_bins: bin counts; edges_Nmm: torque
     bin edges [N*mm] or ``None``; exponent: p or ``None`` (from the bearing types);
     peak_above_Nmm [N*mm] or ``None``; tolerance_pct [%] or ``None``; template: case id or
-    ``None``; prefix: case-id prefix; line: line of the section (messages).
+    ``None``; prefix: case-id prefix; line: line of the section, model_file: the model
+    file (messages).
     """
 
     path: Path
@@ -45,6 +55,7 @@ class RecordingSpec:
     template: str | None
     prefix: str
     line: int | None = None
+    model_file: str | None = None
 
 
 def read_recording(top: Where, raw: Any, file: str | None) -> RecordingSpec | None:
@@ -81,7 +92,7 @@ def read_recording(top: Where, raw: Any, file: str | None) -> RecordingSpec | No
         bins=v["bins"], speed_bins=v["speed_bins"], edges_Nmm=edges,
         exponent=v["exponent"], peak_above_Nmm=v["peak_above"],
         tolerance_pct=v["tolerance"], template=v["template"], prefix=v["prefix"],
-        line=rw.line_of(None))
+        line=rw.line_of("file"), model_file=file)
 
 
 def model_recording(path: str | Path) -> RecordingSpec | None:
@@ -97,4 +108,61 @@ def model_recording(path: str | Path) -> RecordingSpec | None:
         return read_recording(top, raw["recording"], name)
 
 
-__all__ = ["RecordingSpec", "model_recording", "read_recording"]
+def require_series_file(spec: RecordingSpec) -> None:
+    """Raise a ModelError at the section's ``file`` key when the series file is missing."""
+    if not spec.path.is_file():
+        from shaftsys.errors import ModelError
+
+        raise ModelError(f"the recording '{spec.path}' does not exist", file=spec.model_file,
+                         line=spec.line, field="recording.file",
+                         expected="a CSV or Parquet file, relative to the model file's "
+                         "folder (the bundled demo's is written by "
+                         "'python3 models/make_demo_recording.py')")
+
+
+def bin_settings(spec: RecordingSpec, model: Model) -> BinSettings:
+    """The binning of a recording section (p from the bearings when not given)."""
+    from shaftsys.analysis.duty import default_exponent
+    from shaftsys.analysis.duty_reduction import BinSettings
+
+    p = spec.exponent if spec.exponent is not None else default_exponent(model)
+    return BinSettings(torque_bins=spec.bins, torque_edges_Nmm=spec.edges_Nmm,
+                       speed_bins=spec.speed_bins, exponent=p,
+                       peak_above_Nmm=spec.peak_above_Nmm)
+
+
+def reduce_recording(model: Model, spec: RecordingSpec, *, analyse_model: bool = True,
+                     chunk_rows: int = 1_000_000) -> DutyReduction:
+    """Read the series of ``spec`` and reduce it to cases of ``model`` (analysed with
+    them unless ``analyse_model`` is false). Raises ModelError (file, row, column) for a
+    bad series.
+    """
+    from shaftsys.analysis.duty import reduce_duty
+    from shaftsys.io.timeseries import open_series
+
+    require_series_file(spec)
+    source = open_series(spec.path, time=spec.time, torque=spec.torque, power=spec.power,
+                         speed=spec.speed, temperature=spec.temperature,
+                         loads=tuple(col for col, _, _ in spec.loads),
+                         chunk_rows=chunk_rows)
+    kinds = tuple("load" if r.startswith("load:") else r for r in source.extras)
+    return reduce_duty(model, source.chunks, bin_settings(spec, model),
+                       template=spec.template, prefix=spec.prefix,
+                       tolerance_pct=spec.tolerance_pct, series_name=source.name,
+                       analyse_model=analyse_model, channels=kinds,
+                       load_targets=[(el, k) for _, el, k in spec.loads])
+
+
+def analyse_recorded(model: Model, spec: RecordingSpec) -> Result:
+    """The analysis of ``model`` with the cases reduced from the recording ``spec``; the
+    result carries the reduction (``Result.duty_reduction``).
+    """
+    from dataclasses import replace
+
+    red = reduce_recording(model, spec)
+    assert red.result is not None
+    return replace(red.result, duty_reduction=red)
+
+
+__all__ = ["RecordingSpec", "analyse_recorded", "bin_settings", "model_recording",
+           "read_recording", "reduce_recording", "require_series_file"]

@@ -108,6 +108,10 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         data["selection"] = result.selection.to_dict()
     if result.thermal is not None:
         data["thermal"] = result.thermal.to_dict()
+    if result.duty_reduction is not None:
+        from shaftsys.io.duty_cases import reduction_dict
+
+        data["duty_reduction"] = reduction_dict(result.duty_reduction)
     data["system"] = {"life_h": result.system_life_h,
                       "limiting_bearing": result.limiting_bearing}
     for entry, life_h in [(e["system"], s.system_life_h)

@@ -36,6 +36,19 @@ def plot_duty(axes: Any, red: DutyReduction) -> Any:
     return axes
 
 
+def duty_chart(red: DutyReduction) -> Any:
+    """The load-duration figure as a stand-alone matplotlib Figure (Agg canvas, no
+    pyplot state), for the report's inline SVG and ``shaftsys plot --what duty``.
+    """
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=(10, 4.2), layout="constrained")
+    FigureCanvasAgg(fig)
+    plot_duty(fig.subplots(1, 2), red)
+    return fig
+
+
 def save_duty_plot(red: DutyReduction, path: str | Path) -> Path:
     """Write the load-duration figure (.png or .svg, atomically)."""
     from shaftsys.io.output import write_figure
@@ -43,4 +56,4 @@ def save_duty_plot(red: DutyReduction, path: str | Path) -> Path:
     return write_figure(path, lambda fig: plot_duty(fig.subplots(1, 2), red), (10, 4.2))
 
 
-__all__ = ["plot_duty", "save_duty_plot"]
+__all__ = ["duty_chart", "plot_duty", "save_duty_plot"]
