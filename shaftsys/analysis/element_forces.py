@@ -7,6 +7,7 @@ link forces and torques from the power flow (:mod:`shaftsys.machine.flow`).
 
 from __future__ import annotations
 
+from dataclasses import replace
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
@@ -61,7 +62,8 @@ def element_loads(model: Model, shaft: Shaft, case: Case, flow: CaseFlow | None 
                 linked.add(act.element)
                 out.append(AppliedLoad(act.element if act.label == act.element else
                                        f"{act.element} {act.label}", act.x_mm, act.force_N,
-                                       act.moment_Nmm, element=act.element))
+                                       act.moment_Nmm, element=act.element,
+                                       details=act.details, angle_deg=act.angle_deg))
         if shaft is model.shafts[0]:
             warnings.extend(flow.warnings)
     else:
@@ -78,13 +80,62 @@ def element_loads(model: Model, shaft: Shaft, case: Case, flow: CaseFlow | None 
             axis = _element_axis_load(el, torque.get(el.id, 0.0), speed, overrides,
                                       slack.get(el.id))
             if axis is not None:
-                out.extend(_at_hubs(el, el.id, axis.force_N, axis.moment_Nmm))
+                hubs = _at_hubs(el, el.id, axis.force_N, axis.moment_Nmm)
+                hubs[0] = replace(hubs[0], details=tuple(axis.details.items()))
+                out.extend(hubs)
                 warnings.extend(f"case '{case.id}', element '{el.id}': {w}"
                                 for w in axis.warnings)
         if el.mass_kg > 0 and np.any(g):
             w = loads.weight_load(el.mass_kg, g)
-            out.extend(_at_hubs(el, f"{el.id} weight", w.force_N, w.moment_Nmm))
+            out.extend(replace(h, weight=True)
+                       for h in _at_hubs(el, f"{el.id} weight", w.force_N, w.moment_Nmm))
     return out, warnings
+
+
+def element_case_forces(shaft: Shaft, applied: tuple[AppliedLoad, ...]
+                        ) -> list[dict[str, Any]]:
+    """What each element of ``shaft`` puts on it in one case (``applied``: the case's
+    loads, :attr:`CaseSolution.applied`), JSON-ready, units in the keys.
+
+    Per element: ``F_shaft_N``, ``M_shaft_Nmm`` (working load, hubs summed, shaft frame;
+    ``M_shaft_Nmm[0]`` the torque), ``weight_N``; for an element with a mesh or strand
+    angle theta (gears, pulleys, sprockets, couplings): ``tangential_N`` (along
+    u_t = (0, -sin theta, cos theta)), ``radial_N`` (along -u_r, u_r = (0, cos theta,
+    sin theta): positive pushes the shaft away from the mesh, e.g. a gear's separating
+    force), ``axial_N`` (Fx); plus the force model's own terms (``W_t_N``, ``W_r_N``,
+    ``W_a_N`` of a mesh, ``T_tight_N``, ``T_slack_N`` of a belt...); a linked element
+    of a machine takes its angle and terms from the link.
+    """
+    out = []
+    for el in shaft.elements:
+        mine = [a for a in applied if a.element == el.id]
+        F = np.zeros(3)
+        M = np.zeros(3)
+        W = np.zeros(3)
+        details: dict[str, float] = {}
+        theta = getattr(el, "mesh_angle_deg", None)
+        if theta is None:
+            theta = getattr(el, "radial_angle_deg", None)
+        for a in mine:
+            if a.weight:
+                W += a.force_N
+            else:
+                F += a.force_N
+                M += a.moment_Nmm
+                details.update(a.details)
+                if a.angle_deg is not None:
+                    theta = a.angle_deg
+        item: dict[str, Any] = {"id": el.id, "F_shaft_N": F.tolist(), "M_shaft_Nmm": M.tolist(),
+                                "weight_N": W.tolist()}
+        if theta is not None:
+            t = np.radians(float(theta))
+            item["angle_deg"] = float(theta)
+            item["tangential_N"] = float(-F[1] * np.sin(t) + F[2] * np.cos(t))
+            item["radial_N"] = float(-(F[1] * np.cos(t) + F[2] * np.sin(t)))
+            item["axial_N"] = float(F[0])
+        item.update({k: float(v) for k, v in details.items()})
+        out.append(item)
+    return out
 
 
 def _at_hubs(el: Element, label: str, force: Any, moment: Any) -> list[AppliedLoad]:

@@ -46,6 +46,13 @@ class AppliedLoad:
     force_N: tuple[float, float, float]
     moment_Nmm: tuple[float, float, float]
     element: str | None = None
+    #: the element's weight (not its working load)
+    weight: bool = False
+    #: the force model's diagnostics (keys end in their unit: ``W_t_N``, ``T_tight_N``)
+    details: tuple[tuple[str, float], ...] = ()
+    #: mesh or strand direction on the shaft [deg] when it differs from the element's own
+    #: (a linked element of a machine), else None
+    angle_deg: float | None = None
 
 
 @dataclass(frozen=True)

@@ -22,8 +22,8 @@ from __future__ import annotations
 
 import logging
 import math
-from collections.abc import Sequence
-from dataclasses import dataclass
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, field
 from typing import Any
 
 import numpy as np
@@ -35,6 +35,7 @@ from shaftsys.bearings.kernel import (
     LIFE_BASIS_BASIC,
     LIFE_BASIS_MODIFIED,
     DutyCycle,
+    LifeArrays,
     evaluate,
     row_notes,
 )
@@ -200,6 +201,10 @@ class BearingLife:
     life_ok: bool
     static_ok: bool
     ok: bool
+    #: per case [-]: ``Fa_over_Fr``, ``f0_Fa_over_C0`` (deep groove ball: ISO 281 Table 3's
+    #: entry; NaN elsewhere), ``ec_Cu_over_P`` (the aISO argument; NaN without it),
+    #: ``damage_fraction`` (share of the spectrum's Palmgren-Miner damage; NaN static)
+    case_terms: Mapping[str, FloatArray] = field(default_factory=dict)
 
     def to_dict(self) -> dict[str, Any]:
         """JSON-ready plain types; non-finite numbers (inf, nan) become ``None``."""
@@ -225,8 +230,13 @@ class BearingLife:
                     "revolution_weight": _num(self.weights[k]),
                     "P0_N": _num(self.P0_N[k]),
                     "s0": _num(self.case_s0[k]),
+                    **{name: _num(v[k]) for name, v in self.case_terms.items()},
                 }
             )
+            e = self.e[k]
+            if "Fa_over_Fr" in self.case_terms and math.isfinite(e):
+                # which row of the X, Y table the case took (ISO 281:2007, 6.2 / 7.2)
+                cases[-1]["Fa_over_Fr_above_e"] = bool(self.case_terms["Fa_over_Fr"][k] > e)
         return {
             "bearing": self.bearing_id,
             "kind": self.kind,
@@ -419,4 +429,28 @@ def evaluate_bearing(
         life_ok=life_ok,
         static_ok=static_ok,
         ok=life_ok and static_ok,
+        case_terms=_case_terms(bearing, sp, la),
     )
+
+
+def _case_terms(bearing: Bearing, sp: LoadSpectrum, la: LifeArrays) -> dict[str, FloatArray]:
+    """The per-case quantities the calculation sheet states beside P and L (see
+    ``BearingLife.case_terms``); row 0 of ``la``.
+    """
+    Fr, Fa = np.asarray(sp.Fr_N, float), np.abs(np.asarray(sp.Fa_N, float))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        fa_fr = np.where(Fr > 0.0, Fa / np.where(Fr > 0.0, Fr, 1.0), np.where(Fa > 0, np.inf,
+                                                                            0.0))
+        rel = (float(la.f0[0]) * Fa / bearing.C0_N
+               if bearing.kind is BearingKind.DEEP_GROOVE_BALL and bearing.C0_N
+               else np.full(Fr.shape, np.nan))
+        cu = float(la.Cu_N[0])
+        ec_cu_p = la.ec[0] * cu / la.P_design_N[0] if math.isfinite(cu) else \
+            np.full(Fr.shape, np.nan)
+        # Palmgren-Miner over revolutions: damage_i ~ U_i / (aISO_i * L10_i), a1 common
+        life = la.case_L10_mrev[0] * np.where(np.isfinite(la.aISO[0]), la.aISO[0], 1.0)
+        d = np.where(la.dynamic & (la.weights > 0), la.weights / life, 0.0)
+        total = float(np.sum(d[np.isfinite(d)]))
+        frac = np.where(la.dynamic, d / total if total > 0 else np.nan, np.nan)
+    return {"Fa_over_Fr": fa_fr, "f0_Fa_over_C0": rel, "ec_Cu_over_P": ec_cu_p,
+            "damage_fraction": frac}

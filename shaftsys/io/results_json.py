@@ -6,7 +6,7 @@ import math
 from typing import Any
 
 from shaftsys import __version__
-from shaftsys.analysis.results import SCHEMA_VERSION, Result
+from shaftsys.analysis.results import SCHEMA_VERSION, Result, ShaftResult
 from shaftsys.units import OUTPUT_UNITS
 
 
@@ -57,6 +57,7 @@ def result_to_dict(result: Result) -> dict[str, Any]:
                 for c in s.cases
             ],
             "system": {"life_h": s.system_life_h, "limiting_bearing": s.limiting_bearing},
+            "elements": _element_forces(s),
         }
         if checks is not None:
             sc = shaft_checks[s.shaft.id]
@@ -122,6 +123,25 @@ def result_to_dict(result: Result) -> dict[str, Any]:
                                   "life.min_speed with a load), the verdicts rest on static "
                                   "safety")
     return finite_results(data)
+
+
+def _element_forces(s: ShaftResult) -> list[dict[str, Any]]:
+    """Per element of the shaft: id, type, station and, per case, the forces it puts on
+    the shaft (:func:`shaftsys.analysis.element_forces.element_case_forces`).
+    """
+    from shaftsys.analysis.element_forces import element_case_forces
+
+    per_case = [(c.case, element_case_forces(s.shaft, c.applied)) for c in s.cases]
+    out = []
+    for k, el in enumerate(s.shaft.elements):
+        cases = []
+        for cid, items in per_case:
+            row = dict(items[k])
+            row.pop("id")
+            cases.append({"case": cid, **row})
+        out.append({"id": el.id, "type": type(el).__name__, "x_mm": el.x_mm,
+                    "cases": cases})
+    return out
 
 
 def finite_results(value: Any) -> Any:

@@ -57,6 +57,10 @@ class ElementAction:
     force_N: tuple[float, float, float]
     moment_Nmm: tuple[float, float, float]
     label: str
+    #: mesh or strand direction of the link on this shaft [deg] (None: a loss torque)
+    angle_deg: float | None = None
+    #: the force model's terms for this member (``W_t_N``..., ``T_tight_N``...)
+    details: tuple[tuple[str, float], ...] = ()
 
 
 @dataclass(frozen=True)
@@ -236,11 +240,14 @@ def _link_forces(geo: LinkGeometry, torque: dict[str, float], speed: dict[str, f
         loads = {d: (load.force_N, load.moment_Nmm), o: (f_o, m_o)}
         forces_h = {d: f_h, o: -f_h}
         details = dict(load.details)
+        member_details = {d: details, o: {k: v for k, v in details.items()
+                                          if k in ("W_t_N", "W_r_N", "W_a_N")}}
     else:
         wraps = geo.wrap_deg or (180.0, 180.0)
         loads = {}
         forces_h = {}
         details = {}
+        member_details = {}
         for k, t_k in ((d, t_drv), (o, t_ideal)):
             el = els[k]
             if isinstance(el, Pulley):
@@ -254,11 +261,13 @@ def _link_forces(geo: LinkGeometry, torque: dict[str, float], speed: dict[str, f
                 warns.extend(lk.warnings)
                 details = dict(lk.details)
             loads[k] = (lk.force_N, lk.moment_Nmm)
+            member_details[k] = dict(lk.details)
             forces_h[k] = to_housing(shafts[k], lk.force_N)
     for k in (0, 1):
         f, m = loads[k]
         acts.append(ElementAction(els[k].id, shafts[k].id, els[k].x_mm, _t(f), _t(m),
-                                  els[k].id))
+                                  els[k].id, float(geo.angles_deg[k]),
+                                  tuple(member_details[k].items())))
     loss_torque = t_flow_driven - float(loads[o][1][0])
     if abs(loss_torque) > 0.0:
         acts.append(ElementAction(els[o].id, shafts[o].id, els[o].x_mm, (0.0, 0.0, 0.0),
