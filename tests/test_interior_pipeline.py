@@ -51,3 +51,54 @@ def test_model_without_interior_has_no_internal_key(demo_path: Path, tmp_path: P
     main(["check", str(demo_path), "--json", str(out), "--quiet"])
     data = json.loads(out.read_text())
     assert all("internal" not in b for b in data["bearings"])
+
+
+# ------------------------------------------------------------ the polar element-load figure
+def test_polar_figure_draws_the_element_loads_on_the_load_line(
+        tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    """The polar figure's bars are the element loads of the chosen case (one bar per
+    element and row, heights = the JSON's loads), and the most loaded element of a
+    single-row radial bearing lies on the line of the radial load (Stribeck's picture of
+    the load zone, centred on the load; classic, from memory), which fixes the drawn
+    angle convention: angles from +y toward +z."""
+    from shaftsys import analyse
+    from shaftsys.io.loader import load_model
+    from shaftsys.report.interior_plot import element_load_polar, worst_case
+
+    model = load_model(MODELS / "machine_clearance.yaml")
+    result = analyse(model)
+    assert result.internal is not None
+    data = result.internal["CRB"]
+    case = worst_case(data)
+    c = next(x for x in data["cases"] if x["case"] == case)
+    assert c["max_element_load_N"] == max(x["max_element_load_N"] for x in data["cases"])
+    fig = element_load_polar("CRB", data)
+    ax = fig.axes[0]
+    heights = sorted(p.get_height() for p in ax.patches)
+    assert len(heights) == data["Z"] * data["rows"]
+    assert heights == pytest.approx(sorted(c["element_loads_N"]), rel=1e-12)
+    ld = next(x for x in next(b for b in result.bearings if b.bearing.id == "CRB").loads
+              if x.case == case)
+    load_angle = math.degrees(math.atan2(ld.Fz_N, ld.Fy_N)) % 360.0
+    k = int(max(range(len(c["element_loads_N"])), key=lambda j: c["element_loads_N"][j]))
+    pitch = 360.0 / data["Z"]
+    gap = abs((data["element_angles_deg"][k] - load_angle + 180.0) % 360.0 - 180.0)
+    assert gap <= pitch / 2 + 1e-9
+    out = tmp_path / "crb.png"
+    assert main(["plot", str(MODELS / "machine_clearance.yaml"), "--what", "elements",
+                 "--bearing", "CRB", "-o", str(out), "-q"]) in (0, 1)
+    assert out.read_bytes()[:4] == b"\x89PNG"
+    capsys.readouterr()
+    assert main(["plot", str(MODELS / "fan_drive.yaml"), "--what", "elements",
+                 "-o", str(out)]) == 2
+    assert "no bearing an interior" in capsys.readouterr().err
+    assert main(["plot", str(MODELS / "machine_clearance.yaml"), "--what", "elements",
+                 "--case", "nope", "-o", str(out)]) == 2
+    html = tmp_path / "r.html"
+    assert main(["report", str(MODELS / "spindle_preload.yaml"), "-o", str(html),
+                 "-q"]) in (0, 1)
+    text = html.read_text()
+    start = text.index('<section id="internal">')
+    section = text[start:text.index("</section>", start)]
+    assert section.count("<svg") == 2 and "FRONT" in section and "REAR" in section
+    json.dumps(data)  # the object stays JSON-ready

@@ -59,7 +59,8 @@ PLOT_EXAMPLE = """examples:
   shaftsys plot models/fan_drive.yaml --what drawing -o shaft.svg
   shaftsys plot models/fan_drive.yaml --what diagrams --case full_flow -o full_flow.png
   shaftsys plot models/fan_drive.yaml --what life --bearing A -o A_life.png
-  shaftsys plot models/belt_reducer_recorded.yaml --what duty -o duty.png"""
+  shaftsys plot models/belt_reducer_recorded.yaml --what duty -o duty.png
+  shaftsys plot models/spindle_preload.yaml --what elements --bearing FRONT -o front.svg"""
 
 SCHEMA_EXAMPLE = """example:
   shaftsys schema -o model.schema.json"""
@@ -170,15 +171,18 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
 
     pl = _command(sub, "plot", "write a figure (PNG or SVG, by the file's suffix)",
                   "Solve a model and write one figure: the to-scale shaft drawing, the "
-                  "diagrams of one case, the load-life chart of one bearing, or the "
+                  "diagrams of one case, the load-life chart of one bearing, the "
+                  "rolling-element loads of a bearing with an interior (polar), or the "
                   "load-duration figure of the model's recording.",
                   PLOT_EXAMPLE)
     pl.add_argument("model", help="model file (YAML)")
-    pl.add_argument("--what", choices=("drawing", "diagrams", "life", "duty"), required=True,
+    pl.add_argument("--what", choices=("drawing", "diagrams", "life", "duty", "elements"),
+                    required=True,
                     help="which figure")
     pl.add_argument("--shaft", metavar="ID", help="shaft id (default: the first)")
     pl.add_argument("--case", metavar="ID", help="case id for diagrams (default: the first)")
-    pl.add_argument("--bearing", metavar="ID", help="bearing id for the load-life chart")
+    pl.add_argument("--bearing", metavar="ID", help="bearing id for the load-life chart or "
+                    "the element loads")
     pl.add_argument("-o", "--output", metavar="PATH", required=True,
                     help="figure file, .png or .svg")
     _quiet(pl)
@@ -568,6 +572,8 @@ def _plot(args: argparse.Namespace) -> int:
             from shaftsys.report.duty_plot import duty_chart
 
             fig = duty_chart(result.duty_reduction)
+        elif args.what == "elements":
+            fig = _element_loads_figure(result, args)
         elif args.what == "drawing":
             fig = figures.shaft_drawing(shaft)
         elif args.what == "diagrams":
@@ -583,6 +589,26 @@ def _plot(args: argparse.Namespace) -> int:
     if not args.quiet:
         print(f"wrote {args.output}")
     return _verdict_code(result)
+
+
+def _element_loads_figure(result: Any, args: argparse.Namespace) -> Any:
+    """The polar element-load figure of ``--bearing`` (default: the first bearing with an
+    interior) in ``--case`` (default: its most loaded case).
+    """
+    from shaftsys.report.interior_plot import element_load_polar
+
+    internal = result.internal or {}
+    if not internal:
+        raise ModelError(f"{args.model} gives no bearing an interior, so there are no "
+                         "rolling-element loads", file=args.model, field="interior",
+                         expected="an 'interior:' map on a bearing (Dw, Z, pitch_diameter..."
+                         ", or let the rules estimate it: 'interior: {}')")
+    bid = _pick(list(internal), args.bearing, lambda b: b, "--bearing")
+    cases = [c["case"] for c in internal[bid]["cases"]]
+    if args.case is not None and args.case not in cases:
+        raise ModelError(f"no case '{args.case}' in the model", field="--case",
+                         expected="one of: " + ", ".join(cases))
+    return element_load_polar(bid, internal[bid], args.case)
 
 
 def _pick(items: Sequence[Any], wanted: str | None, key: Any, option: str) -> Any:

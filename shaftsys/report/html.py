@@ -501,6 +501,27 @@ def _thermal(result: Result) -> str:
             "</section>")
 
 
+def _internal(result: Result, ctx: _Render) -> str:
+    """Rolling-element loads of the bearings with an interior: the table and, per
+    bearing, a polar figure of the element loads of its most loaded case.
+    """
+    if not result.internal:
+        return ""
+    from shaftsys.report.interior_plot import element_load_polar
+    from shaftsys.report.internal_table import HEADERS, TITLE, internal_rows
+
+    rows = [[_e(c) for c in r] for r in internal_rows(result)]
+    figs = "".join(_figure(element_load_polar(bid, data), f"Rolling-element loads of "
+                           f"{bid} in its most loaded case (outlines: the other cases)", ctx)
+                   for bid, data in result.internal.items())
+    note = ("Element loads from Hertzian contact with the bearing's clearance or preload and "
+            "the shaft's slope at the seat as the ring tilt (housing taken as aligned); "
+            "internal geometry marked estimated follows a common-practice rule, not the "
+            "maker's drawing. Use the maker's data for the bearing actually bought.")
+    return (f'<section id="internal"><h2>{_e(TITLE)}</h2>'
+            f"{_table(HEADERS, rows, (0, 1))}{figs}<p class=note>{_e(note)}</p></section>")
+
+
 def _duty(result: Result, ctx: _Render) -> str:
     """The recording that made the duty cases: its cases, the reduction error against
     the direct integral per bearing, and the load-duration figure.
@@ -741,8 +762,8 @@ def render_report(result: Result, date: str | None = None,
         f'<span class="stamp {"ok" if result.ok else "bad"}">{stamp}</span></div></header>',
         _provenance(result, date), _inputs(result), _summary(result),
         _shafts(result, ctx), _cases(result, ctx), _selection(result), _verdicts(result),
-        _bearings(result, ctx), shaft_check_sections(result, ctx), _thermal(result),
-        _duty(result, ctx),
+        _bearings(result, ctx), shaft_check_sections(result, ctx), _internal(result, ctx),
+        _thermal(result), _duty(result, ctx),
         "" if study is None else (f'<section id="study"><h2>Design study</h2>'
                                   f"<p class=note>{_e(study[0])}</p>{study[1]}</section>"),
         _warnings(result), _cautions(),

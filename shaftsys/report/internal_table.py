@@ -5,13 +5,17 @@ from __future__ import annotations
 from shaftsys.analysis.results import Result
 from shaftsys.report.tables import format_table, sig
 
+#: column headers of the table (terminal and report)
+HEADERS = ("bearing", "case", "dr mm", "dx mm", "tilt mrad", "eps", "Qmax N", "pmax MPa",
+           "Lref/L10")
+TITLE = ("Inside the bearings (rolling-element loads; reference life by the ISO/TS 16281 "
+         "approach against the ISO 281 L10)")
 
-def internal_table(result: Result) -> str:
+
+def internal_rows(result: Result) -> list[list[str]]:
     """Per bearing with an interior and case: ring displacement, tilt, load zone, largest
     element load, contact pressure, reference life and its ratio to the ISO 281 life.
     """
-    headers = ["bearing", "case", "dr mm", "dx mm", "tilt mrad", "eps", "Qmax N",
-               "pmax MPa", "Lref/L10"]
     rows = []
     for b in result.bearings:
         data = (result.internal or {}).get(b.bearing.id)
@@ -26,6 +30,9 @@ def internal_table(result: Result) -> str:
                          sig(1e3 * (ty**2 + tz**2) ** 0.5), "thrust" if eps is None
                          else sig(eps), sig(c["max_element_load_N"], 4),
                          sig(c["max_contact_pressure_MPa"], 4), sig(c["life_ratio"])])
-    title = ("Inside the bearings (rolling-element loads; reference life by the ISO/TS "
-             "16281 approach against the ISO 281 L10)")
-    return title + "\n" + format_table(headers, rows, "llrrrrrrr")
+    return rows
+
+
+def internal_table(result: Result) -> str:
+    """The plain-text table of :func:`internal_rows` with its title."""
+    return TITLE + "\n" + format_table(list(HEADERS), internal_rows(result), "llrrrrrrr")
