@@ -454,7 +454,8 @@ def judge(code: int, err: str, path: Path, text: str, exc: ShaftsysError | None,
 VERDICTS = frozenset({"pass", "fail", "marginal", "not evaluated"})
 PASSED = frozenset({"pass", "marginal"})
 #: Keys of lives and life-like quantities, which are never negative.
-_LIFE_KEY = re.compile(r"(^|_)(life|L10|Lnm|C_required)(_|$)")
+#: keys of lives and ratings (a signed difference in per cent, ``*_pct``, is not one)
+_LIFE_KEY = re.compile(r"(^|_)(life|L10|Lnm|C_required)(_(?!.*pct$)|$)")
 
 
 def _non_finite(token: str) -> float:
@@ -532,6 +533,25 @@ CATALOGUE = ROOT / "models" / "demo_catalogue.csv"
 CATALOGUE_TEXT = CATALOGUE.read_text(encoding="utf-8")
 
 
+def _short_demo_recording() -> str:
+    """Three minutes of the invented demo recording (``models/make_demo_recording.py``)
+    as CSV text: what the seed with a ``recording:`` section reads beside it."""
+    import importlib.util
+
+    spec = importlib.util.spec_from_file_location(
+        "make_demo_recording", ROOT / "models" / "make_demo_recording.py")
+    assert spec is not None and spec.loader is not None
+    mod = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(mod)
+    t, T, n = mod.recording(0.05, 20.0)
+    rows = "\n".join(f"{a:.6g},{b:.6g},{c:.6g}" for a, b, c in zip(t, T, n, strict=True))
+    return "time [s],torque [N*m],speed [rpm]\n" + rows + "\n"
+
+
+#: (file name the bundled recorded model names, its text)
+RECORDING = ("conveyor_recording.csv", _short_demo_recording())
+
+
 def classify(text: str | bytes, folder: Path, catalogue: str | bytes | None = None
              ) -> Outcome:
     """Write ``text`` to a model file in ``folder``, run ``check --json`` and judge the
@@ -539,7 +559,8 @@ def classify(text: str | bytes, folder: Path, catalogue: str | bytes | None = No
 
     The catalogue (``catalogue``, else the bundled one) goes beside it, so that seeds
     with open bearings (``choose: {catalogue: demo_catalogue.csv}``) find it as the
-    bundled models do. The outcome carries the time ``check`` took.
+    bundled models do; so does a short demo recording for the seed that names one. The
+    outcome carries the time ``check`` took.
     """
     cat_path = folder / CATALOGUE.name
     cat = CATALOGUE_TEXT if catalogue is None else catalogue
@@ -549,6 +570,7 @@ def classify(text: str | bytes, folder: Path, catalogue: str | bytes | None = No
     else:
         cat_path.write_text(cat, encoding="utf-8", newline="")
         cat_shown = cat
+    (folder / RECORDING[0]).write_text(RECORDING[1], encoding="utf-8")
     path = folder / "fuzzed.yaml"
     if isinstance(text, bytes):
         path.write_bytes(text)

@@ -131,8 +131,9 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
     _quiet(c)
     c.add_argument("--loads-only", action="store_true",
                    help="print only the reaction table")
-    c.add_argument("--explain", metavar="BEARING",
-                   help="print the calculation sheet of one bearing or gear, formula by formula")
+    c.add_argument("--explain", metavar="ID",
+                   help="print the calculation sheet of one bearing, gear or belt pulley, "
+                   "formula by formula")
     handlers["check"] = _check
 
     o = _command(sub, "choose", "choose every open support's bearing from a catalogue",
@@ -424,15 +425,18 @@ def _check(args: argparse.Namespace) -> int:
 
     with ProgressBar(2, "check", quiet=args.quiet) as bar:
         result = _solve(args, bar)
-    from shaftsys.model.elements import Gear
+    from shaftsys.model.elements import Gear, Pulley
 
     gears = [e.id for sr in result.shafts for e in sr.shaft.elements if isinstance(e, Gear)]
+    pulleys = [e.id for sr in result.shafts for e in sr.shaft.elements
+               if isinstance(e, Pulley)]
     if args.explain and args.explain not in {b.bearing.id for b in result.bearings} | set(
-            gears):
-        raise ModelError(f"no bearing or gear '{args.explain}' in the model",
+            gears) | set(pulleys):
+        raise ModelError(f"no bearing, gear or pulley '{args.explain}' in the model",
                          field="--explain",
                          expected="one of: " + ", ".join([b.bearing.id
-                                                          for b in result.bearings] + gears))
+                                                          for b in result.bearings]
+                                                         + gears + pulleys))
     if args.json != "-":
         _json_out(args, result)
     out = sys.stderr if args.json == "-" else sys.stdout
@@ -474,9 +478,10 @@ def _check(args: argparse.Namespace) -> int:
     if args.json == "-":
         _json_out(args, result)
     if args.explain:
-        from shaftsys.report.calcsheet import explain_bearing, explain_gear
+        from shaftsys.report.calcsheet import explain_bearing, explain_gear, explain_pulley
 
-        sheet = explain_gear if args.explain in gears else explain_bearing
+        sheet = (explain_gear if args.explain in gears else
+                 explain_pulley if args.explain in pulleys else explain_bearing)
         print(sheet(result, args.explain), file=out)
     return _verdict_code(result)
 

@@ -23,7 +23,8 @@ from shaftsys.bearings.static import static_factors
 from shaftsys.model import AxialRole
 from shaftsys.units import MEGA_REVOLUTIONS
 
-__all__ = ["explain_bearing", "explain_bearing_html", "format_value"]
+__all__ = ["explain_bearing", "explain_bearing_html", "explain_gear", "explain_pulley",
+           "format_value"]
 
 _RULE = "-" * 78
 
@@ -391,4 +392,64 @@ def explain_gear(result: Result, gear_id: str) -> str:
                    f"and {format_value(rz)} N (shaft weight aside); force and moment "
                    f"residual of the solve {format_value(cs.force_residual_N)} N, "
                    f"{format_value(cs.moment_residual_Nmm)} N*mm")
+    return "\n".join(out)
+
+
+def explain_pulley(result: Result, pulley_id: str) -> str:
+    """Calculation sheet of one belt pulley: from the torque the power flow gives it to the
+    strand tensions (T1 - T2 = |T|/r with T1 + T2 = 2 T_i for an installed pretension, or
+    T2 held by a take-up), the slip check against the capstan limit (Euler-Eytelwein;
+    e^(mu phi / sin(beta/2)) for a V-belt, Shigley, flexible elements), and the hub force
+    as the vector sum of the strand tensions, against the force the solve applied.
+
+    Units: N, mm, N*mm, rpm, deg. Raises ``KeyError`` for an unknown id.
+    """
+    from shaftsys.model.elements import Pulley
+
+    for sr in result.shafts:
+        pulley = next((e for e in sr.shaft.elements
+                       if e.id == pulley_id and isinstance(e, Pulley)), None)
+        if pulley is not None:
+            break
+    else:
+        raise KeyError(pulley_id)
+    r = pulley.diameter_mm / 2.0
+    src = f" (model line {pulley.line})" if pulley.line is not None else ""
+    kind = ("V-belt, groove angle beta = " + format_value(pulley.groove_angle_deg) + " deg"
+            if pulley.groove_angle_deg else "flat belt")
+    out = [f"CALCULATION SHEET - pulley {pulley_id} on shaft {sr.shaft.id}",
+           "Belt strand tensions and hub force (Shigley, flexible mechanical elements).",
+           f"Inputs{src}: D = {format_value(pulley.diameter_mm)} mm (r = "
+           f"{format_value(r)} mm), {kind}, wrap phi = {format_value(pulley.wrap_angle_deg)}"
+           f" deg, mu = {format_value(pulley.friction_coefficient)}, x = "
+           f"{format_value(pulley.x_mm)} mm"]
+    for cs in sr.cases:
+        own = [a for a in cs.applied if a.element == pulley_id and not a.weight]
+        details = {k: v for a in own for k, v in a.details}
+        T = sum(a.moment_Nmm[0] for a in own)
+        F = np.sum([a.force_N for a in own], axis=0) if own else np.zeros(3)
+        out.append(f"case {cs.case}: T = {format_value(T)} N*mm at n = "
+                   f"{format_value(cs.speed_rpm)} rpm")
+        if "T_tight_N" not in details:
+            out.append("  no strand tensions for this case (the pulley carries no belt "
+                       "load in it)")
+            continue
+        T1, T2 = details["T_tight_N"], details.get("T_slack_N", 0.0)
+        out.append(f"  T1 - T2 = |T|/r = {format_value(abs(T))} / {format_value(r)} = "
+                   f"{format_value(abs(T) / r)} N; T1 = {format_value(T1)} N, T2 = "
+                   f"{format_value(T2)} N (T1 + T2 = {format_value(T1 + T2)} N)")
+        if "capstan_limit" in details:
+            ratio = details.get("tension_ratio", math.inf)
+            limit = details["capstan_limit"]
+            out.append(f"  slip: T1/T2 = {format_value(ratio)} against the capstan limit "
+                       f"{format_value(limit)} -> {'holds' if ratio <= limit else 'SLIPS'}")
+        a1 = details.get("tight_strand_angle_deg")
+        a2 = details.get("slack_strand_angle_deg")
+        if a1 is not None and a2 is not None:
+            hy = T1 * math.cos(math.radians(a1)) + T2 * math.cos(math.radians(a2))
+            hz = T1 * math.sin(math.radians(a1)) + T2 * math.sin(math.radians(a2))
+            out.append(f"  hub force = T1 u_r({format_value(a1)} deg) + T2 u_r("
+                       f"{format_value(a2)} deg) = ({format_value(hy)}, {format_value(hz)}) N"
+                       f", |F| = {format_value(math.hypot(hy, hz))} N; applied by the solve:"
+                       f" ({format_value(float(F[1]))}, {format_value(float(F[2]))}) N")
     return "\n".join(out)

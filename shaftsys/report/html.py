@@ -696,7 +696,7 @@ def shaft_check_sections(result: Result, ctx: _Render | None = None) -> str:
     c = _Render(_no_step) if ctx is None else ctx
     return "".join([_deflection_section(result, c), _critical_speed_section(result),
                     _fatigue_section(result), _static_section(result),
-                    _gear_sheets(result)])
+                    _gear_sheets(result), _pulley_sheets(result)])
 
 
 def _gear_sheets(result: Result) -> str:
@@ -710,6 +710,18 @@ def _gear_sheets(result: Result) -> str:
     pres = "".join(f'<pre class="calcsheet">{_e(explain_gear(result, g))}</pre>' for g in ids)
     return f'<section id="gear-forces"><h2>Gear mesh forces</h2>{pres}</section>'
 
+
+def _pulley_sheets(result: Result) -> str:
+    """The calculation sheet of every belt pulley (strand tensions, slip, hub force)."""
+    from shaftsys.model.elements import Pulley
+    from shaftsys.report.calcsheet import explain_pulley
+
+    ids = [e.id for s in result.shafts for e in s.shaft.elements if isinstance(e, Pulley)]
+    if not ids:
+        return ""
+    pres = "".join(f'<pre class="calcsheet">{_e(explain_pulley(result, p))}</pre>'
+                   for p in ids)
+    return f'<section id="belt-forces"><h2>Belt tensions and hub forces</h2>{pres}</section>'
 
 
 def report_steps(result: Result) -> int:
