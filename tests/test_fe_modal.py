@@ -205,3 +205,35 @@ def test_massless_dofs_raise() -> None:
     mesh, _ = _mesh(500.0, 30.0, 4, rho=0.0)
     with pytest.raises(NumericalError, match="mass matrix"):
         bending_modes(mesh, [Support(0), Support(4)])
+
+
+def test_rayleigh_and_dunkerley_bracket_the_first_mode_with_their_closed_forms() -> None:
+    """Uniform pinned-pinned beam, omega_k = (k pi/L)^2 sqrt(EI/(rho A)) (Blevins, as
+    above). Dunkerley's sum over all modes, sum 1/omega_k^2 = (L^4 rho A/(EI pi^4))
+    zeta(4) with zeta(4) = pi^4/90 (exact), gives omega_D = sqrt(90) sqrt(EI/(rho A))/L^2
+    = 0.9612 omega_1. Rayleigh's quotient with the uniform-load deflection curve
+    y ~ s - 2 s^3 + s^4 (s = x/L; Roark, simply supported beam under uniform load) is
+    int(y''^2)/int(y^2) = 3024/31 (hand integration of the polynomials; recomputed
+    below by quadrature as a second route), omega_R = 1.00073 omega_1. Both from the FE
+    matrices of ``bending_matrices``; Rayleigh >= omega_1 >= Dunkerley.
+    """
+    from shaftsys.fe.modal import bending_matrices, classical_estimates
+
+    L, d = 1000.0, 40.0
+    sec = circular_section(d, 0.0, NU)
+    c = math.sqrt(E * sec.I_mm4 / (RHO_T * sec.A_mm2)) / L**2
+    # second route for Rayleigh: y(s) = s - 2 s^3 + s^4 (static curve, s = x/L, scaled)
+    s = np.linspace(0.0, 1.0, 200_001)
+    y = s - 2 * s**3 + s**4
+    ypp = -12 * s + 12 * s**2
+    ratio_R = math.sqrt(np.trapezoid(ypp**2, s) / np.trapezoid(y**2, s))
+    assert ratio_R == pytest.approx(math.sqrt(3024.0 / 31.0), rel=1e-8)
+    mesh, _ = _mesh(L, d, 40)
+    K, M, rigid = bending_matrices(mesh, [Support(0), Support(40)])
+    w1 = bending_modes(mesh, [Support(0), Support(40)], n_modes=1).omega_rad_s[0]
+    rayleigh, dunkerley = classical_estimates(K, M, rigid)
+    assert w1 == pytest.approx(math.pi**2 * c, rel=1e-5)
+    # the FE trial shape is cubic between nodes: 1e-4 still tells Rayleigh from pi^2 (7e-4)
+    assert rayleigh == pytest.approx(ratio_R * c, rel=1e-4)
+    assert dunkerley == pytest.approx(math.sqrt(90.0) * c, rel=2e-3)  # FE truncates the sum
+    assert rayleigh > w1 > dunkerley

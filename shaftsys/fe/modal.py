@@ -53,7 +53,9 @@ __all__ = [
     "Modes",
     "bar_mass",
     "beam_mass",
+    "bending_matrices",
     "bending_modes",
+    "classical_estimates",
     "torsion_modes",
 ]
 
@@ -277,6 +279,25 @@ def bending_modes(
     NumericalError
         Mass matrix not positive definite (massless DOFs) or a negative eigenvalue.
     """
+    K, M, rigid = bending_matrices(mesh, supports, point_mass_kg=point_mass_kg,
+                                   point_inertia_kgm2=point_inertia_kgm2, shear=shear,
+                                   rotary_inertia=rotary_inertia, label=label)
+    return _solve_eig(K, M, rigid, n_modes, label)
+
+
+def bending_matrices(
+    mesh: BeamMesh,
+    supports: Sequence[Support | tuple[float, ...]] = (),
+    *,
+    point_mass_kg: ArrayLike | None = None,
+    point_inertia_kgm2: ArrayLike | None = None,
+    shear: bool = False,
+    rotary_inertia: bool = False,
+    label: str = "bending modes",
+) -> tuple[Array, Array, NDArray[np.bool_]]:
+    """Dense stiffness K [N/mm, N*mm/rad] and mass M [t, t*mm^2] of the planar bending
+    model of :func:`bending_modes` (same arguments), and the rigid-DOF mask.
+    """
     n = mesh.n_nodes
     _, rigid, springs = planar_support_dofs(supports, n, label)
     L = mesh.L_mm
@@ -289,7 +310,37 @@ def bending_modes(
     M = _dense(me, 2, 2 * n)
     M[0::2, 0::2] += np.diag(_nodal(point_mass_kg, n, "point_mass_kg") * KG_TO_T)
     M[1::2, 1::2] += np.diag(_nodal(point_inertia_kgm2, n, "point_inertia_kgm2") * KG_M2_TO_T_MM2)
-    return _solve_eig(K, M, rigid, n_modes, label)
+    return K, M, rigid
+
+
+def classical_estimates(K: Array, M: Array, rigid: NDArray[np.bool_]) -> tuple[float, float]:
+    """Rayleigh's and Dunkerley's estimates of the first bending frequency [rad/s] of the
+    system (K, M) with the rigid DOFs held.
+
+    Rayleigh (Shigley, critical speeds of shafts, from memory): the static deflection
+    y = K^-1 M a under a uniform lateral acceleration a (gravity's shape) as the trial
+    shape, omega_R^2 = y^T K y / y^T M y = a^T M y / y^T M y: an upper bound of omega_1.
+    Dunkerley (same source): 1/omega_D^2 = trace(K^-1 M) = sum over all modes of
+    1/omega_k^2 (the sum over the lumped masses m_i a_ii in the classical form): a lower
+    bound of omega_1. ``nan`` when the system is not held (a free-free shaft).
+    """
+    free = np.flatnonzero(~rigid)
+    Kr = K[np.ix_(free, free)]
+    Mr = M[np.ix_(free, free)]
+    try:
+        c = np.linalg.cholesky(Kr)
+    except np.linalg.LinAlgError:
+        return math.nan, math.nan
+    import scipy.linalg  # deferred to the first modal solve (start-up)
+
+    a = np.zeros(free.size)
+    a[free % 2 == 0] = 1.0          # lateral DOFs: u at even rows of the full vector
+    f = Mr @ a
+    y = scipy.linalg.cho_solve((c, True), f)
+    rayleigh = math.sqrt(float(a @ Mr @ y) / float(y @ Mr @ y))
+    flex_m = scipy.linalg.cho_solve((c, True), Mr)
+    dunkerley = 1.0 / math.sqrt(float(np.trace(flex_m)))
+    return rayleigh, dunkerley
 
 
 def torsion_modes(
