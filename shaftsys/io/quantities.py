@@ -46,9 +46,9 @@ DEFAULT_UNITS: dict[str, str] = {
     "specific_heat": "J/(kg*K)",
 }
 
-_NUMBER = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$")
+_NUMBER = re.compile(r"^\s*[-+]?(\d+(?:\.\d*)?|\.\d+)([eE][-+]?\d+)?\s*$")
 #: A leading number, then the unit text.
-_LEADING_NUMBER = re.compile(r"\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)")
+_LEADING_NUMBER = re.compile(r"\s*([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)")
 #: Tokens of a unit expression: a unit name, a small integer exponent, an operator,
 #: brackets, blanks, or the ``1`` of ``1/s``.
 _UNIT_TOKEN = re.compile(
@@ -116,7 +116,7 @@ def split_quantity(text: str) -> tuple[float | None, str]:
         raise QuantityProblem(f"unbalanced brackets in {excerpt(text)}", expected)
     return number, unit
 
-_NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(\S.*?)\s*$")
+_NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(\S.*?)\s*$")
 
 #: Exact factors of the common units: (dimension, unit as written) -> internal units
 #: per unit. A value written in one of them is read without pint (building pint's

@@ -648,7 +648,7 @@ UNITLESS = frozenset({"dimensionless"})
 _DECLARED: ContextVar[dict[str, str] | None] = ContextVar("shaftsys_declared_units",
                                                           default=None)
 
-_BARE = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$")
+_BARE = re.compile(r"^\s*[-+]?(\d+(?:\.\d*)?|\.\d+)([eE][-+]?\d+)?\s*$")
 
 
 #: Plausibility warnings found while a model is read (see :func:`note`).
