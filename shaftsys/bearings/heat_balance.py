@@ -90,7 +90,10 @@ def solve_temperature(heat_W: HeatFunction, removal_W_K: float, sink_C: float,
         dfdt = (f(t + DERIVATIVE_STEP_K) - ft) / DERIVATIVE_STEP_K
         with np.errstate(divide="ignore", invalid="ignore"):
             newton = t - ft / dfdt
-        ok = np.isfinite(newton) & (newton > lo) & (newton < hi)
+        # a Newton step onto the bracket's end is kept: at the root f(t) may be a
+        # round-off above 0, so lo = t and the step returns t itself (bisecting away
+        # from it would cost some 25 halvings back to 1e-7 K)
+        ok = np.isfinite(newton) & (newton >= lo) & (newton <= hi)
         t_new = np.where(ok, newton, 0.5 * (lo + hi))
         scale = np.maximum(np.abs(removal_W_K * (t - sink_C)), 1e-12)
         done = (np.abs(t_new - t) < TOL_K) & (np.abs(ft) <= TOL_RELATIVE * scale + 1e-9)
