@@ -169,6 +169,36 @@ def test_temperature_and_life_by_an_independent_route(roll, roll_study, roll_fra
         assert row[f"{b.bearing.id}.Lnm_h"] == pytest.approx(b.life.Lnm_h, rel=1e-9)
 
 
+@pytest.mark.parametrize("i", [0, 1])
+def test_heat_balance_speed_by_an_independent_route(roll, roll_study, roll_frame, i):
+    """Reference: the factor s on a case's speeds at which Palmgren's friction heat at
+    T_ref = ambient + 50 K (the model's default reference rise) equals h A (T_ref -
+    T_amb), written out and solved by scipy brentq (M0 upper branch, P1 = Fr, f0 = 2,
+    f1 = 0.001 as the model file gives them); the study reports the smallest over the
+    duty cases (variant 0 passes with s >= 1, variant 1 fails with s < 1)."""
+    values = roll_study.values_block(i, i + 1)[0]
+    variant, _ = model_with(roll, roll_study.quantities, values)
+    res = shaftsys.analyse(variant, with_shaft_checks=False)
+    dm = 0.5 * (50.0 + 90.0)
+    nu_ref = _walther(75.0, 32.0, 5.4)
+    capacity = 10.0 * 0.3 * 50.0
+    factors = []
+    for case in variant.cases:
+        n = abs(case.drives["roll"].speed_rpm)
+        Fr = [next(ld.Fr_N for ld in b.loads if ld.case == case.id) for b in res.bearings]
+
+        def surplus(s, n=n, Fr=Fr):
+            assert nu_ref * n * s >= 2000.0
+            return sum((1e-7 * 2.0 * (nu_ref * n * s) ** (2.0 / 3.0) * dm**3
+                        + 0.001 * f * dm) * 2.0 * math.pi * n * s / 60.0 / 1000.0
+                       for f in Fr) - capacity
+
+        factors.append(brentq(surplus, 0.3, 20.0, xtol=1e-14, rtol=1e-15))
+    got = roll_frame.loc[i, "heat_balance_speed_factor_min"]
+    assert got == pytest.approx(min(factors), rel=1e-9)
+    assert (got >= 1.0) == (i == 0)
+
+
 def test_batch_of_one_is_bit_identical_with_the_heat_balance(roll_study):
     values = roll_study.values_block(0, roll_study.n_variants)
     full, _ = evaluate_values(roll_study, values)

@@ -245,8 +245,7 @@ def balance(setup: ThermalSetup, Fr_N: npt.ArrayLike, Fa_N: npt.ArrayLike,
         return np.asarray(q[:, 0, :] + setup.extra_W, dtype=np.float64).reshape(-1)
 
     cap = np.broadcast_to(np.where(ev, setup.capacity_W, np.inf), (V, m)).reshape(-1)
-    # 64 halvings of ln(1e12) reach 1.5e-18 in ln s, below double resolution
-    s = speed_factor(heat_at, cap, steps=64).reshape(V, m)
+    s = speed_factor(heat_at, cap).reshape(V, m)
     turning = evm[:, None, :] & (n > 0.0)
     limit_rpm = np.where(turning, s[:, None, :] * np.where(turning, n, 1.0), np.nan)
     temperature_ok = ~evm | (np.isfinite(used) & (used <= setup.max_temperature_C))
