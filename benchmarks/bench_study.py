@@ -17,10 +17,12 @@ that comparison), a checksum, a random sample against batch-of-one runs (bit for
 and against ``shaftsys.analyse`` (largest relative difference of reactions, lives and
 system life), a flop estimate per variant against the measured time, and the peak
 memory. ``--scaling`` prints the table of microseconds per variant against the number
-of cases, bearings and shaft steps (DEVELOPERS.md). Targets (not asserted): >= 50 000
+of cases, bearings and shaft steps (DEVELOPERS.md); ``--thermal`` the variants per
+second with an invented heat balance off and on (DEVELOPERS.md). Targets (not asserted): >= 50 000
 variant-analyses/s per core, >= 5000x the lean PyNiteFEA model.
 
-Run: ``python benchmarks/bench_study.py [--n 20] [--pynite 4] [--sample 25] [--scaling]``.
+Run: ``python benchmarks/bench_study.py [--n 20] [--pynite 4] [--sample 25] [--scaling]
+[--thermal]``.
 """
 
 from __future__ import annotations
@@ -118,6 +120,57 @@ def scaling_table(model) -> None:
         print(f"| {what} | {k} | {best / st.n_variants * 1e6:.1f} |")
 
 
+def thermal_model(model):
+    """The spindle with an invented heat balance: the duty cases' typed temperatures
+    dropped, so every variant's lives use the temperatures the balance computes."""
+    from shaftsys.model.thermal import HeatBalance
+
+    hb = HeatBalance(ambient_C=25.0, conductance_W_K=60.0, extra_loss_W=150.0,
+                     search_limit_C=200.0)
+    cases = tuple(dataclasses.replace(c, temperature_C=float("nan"))
+                  if c.kind.value == "duty" else c for c in model.cases)
+    return dataclasses.replace(model, thermal=hb, cases=cases)
+
+
+def thermal_table(model, n: int, repeat: int, sample: int) -> None:
+    """Variants per second with the heat balance off (typed temperatures) and on."""
+    hot = thermal_model(model)
+    off, on = study_for(model, n), study_for(hot, n)
+    N = off.n_variants
+    values = off.values_block(0, N)
+    for st in (off, on):
+        evaluate_values(st, values[:64])
+    t_off, t_on = np.inf, np.inf
+    arrays = None
+    for _ in range(repeat):   # alternately, so that both see the same machine load
+        t_off = min(t_off, _timed(off, values))
+        t0 = time.perf_counter()
+        arrays, method = evaluate_values(on, values)
+        t_on = min(t_on, time.perf_counter() - t0)
+    assert arrays is not None and arrays.thermal is not None
+    df = results_frame(on, np.arange(N), values, arrays, method)
+    rng = np.random.default_rng(11)
+    worst = 0.0
+    for i in rng.choice(N, size=min(sample, N), replace=False):
+        variant, reason = model_with(hot, on.quantities, values[i])
+        if reason:
+            continue
+        res = analyse(variant, with_shaft_checks=False)
+        t_ref = float(np.max(res.thermal.used_C[res.thermal.evaluated]))
+        worst = max(worst, abs(df["temperature_max_C"].iloc[i] / t_ref - 1.0), *(
+            abs(df[f"{b.bearing.id}.Lnm_h"].iloc[i] / b.life.Lnm_h - 1.0)
+            for b in res.bearings if b.life is not None))
+    print(f"study {off.shape} = {N} variants of {MODEL.name}, evaluator: {method}")
+    print(f"variants per second, heat balance off (typed temperatures): {N / t_off:10,.0f}")
+    print(f"variants per second, heat balance on (computed):            {N / t_on:10,.0f}")
+    print(f"cost of the heat balance: {t_on / t_off:.2f}x the time; temperatures "
+          f"{df['temperature_max_C'].min():.2f}..{df['temperature_max_C'].max():.2f} degC, "
+          f"runaway {int(df['thermal_runaway'].sum())}, thermal fails "
+          f"{int((~df['thermal_ok']).sum())}")
+    print(f"sample of {min(sample, N)}: largest relative difference to shaftsys.analyse "
+          f"(temperature_max_C, Lnm_h): {worst:.2e}")
+
+
 def _timed(st, vals) -> float:
     t0 = time.perf_counter()
     evaluate_values(st, vals)
@@ -131,11 +184,16 @@ def main() -> None:
     p.add_argument("--sample", type=int, default=25, help="variants checked one by one")
     p.add_argument("--repeat", type=int, default=3)
     p.add_argument("--scaling", action="store_true", help="print the scaling table only")
+    p.add_argument("--thermal", action="store_true",
+                   help="print variants/s with the heat balance off and on only")
     args = p.parse_args()
     logging.getLogger("shaftsys").setLevel(logging.ERROR)
     model = shaftsys.load_model(str(MODEL))
     if args.scaling:
         scaling_table(model)
+        return
+    if args.thermal:
+        thermal_table(model, args.n, args.repeat, args.sample)
         return
     study = study_for(model, args.n)
     N = study.n_variants

@@ -301,3 +301,18 @@ def test_report_and_table_show_the_balance(demo) -> None:  # type: ignore[no-unt
     k = th.case_ids.index("forward_full")
     assert f"{th.power_loss_W[0, k]:.1f}" in text
     assert f"{th.used_C[k]:.1f}" in html
+
+
+def test_newton_step_onto_the_bracket_end_is_kept():
+    """Closed form: a heat a - b*T against H*(T - T_sink) balances at
+    T = (a + H*T_sink)/(b + H) (hand-derived). Newton lands on it in one step; where
+    f(T) is then a round-off above zero the bracket's lower end is T itself, and the
+    step back onto it must be kept (it used to bisect away and crawl back)."""
+    rng = np.random.default_rng(3)
+    a = rng.uniform(30.0, 300.0, 2000)          # W: rises of 1..10 K at H = 30 W/K
+    b = rng.uniform(0.0, 1.0, 2000) * a / 400.0  # heat >= 0 up to the search limit
+    H, sink = 30.0, 25.0
+    sol = solve_temperature(lambda t: a - b * t, H, sink, 400.0, a.size)
+    assert sol.converged.all()
+    assert np.allclose(sol.temperature_C, (a + H * sink) / (b + H), rtol=0, atol=1e-9)
+    assert sol.iterations.max() <= 4

@@ -6,7 +6,7 @@ W, degC, rpm).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Any
 
 import numpy as np
@@ -29,7 +29,8 @@ class ThermalResult:
     case), ``typed_C`` (NaN = not typed), ``used_C``, ``source`` (``typed``,
     ``computed``, ``not computed``), ``converged``, ``runaway``, ``iterations``,
     ``residual_W``, ``total_power_W`` (bearings + extra loss), ``temperature_ok``,
-    ``speed_ok``. ``shaft_power_W``: shaft id -> (m,) bearing power.
+    ``speed_ok``, ``speed_factor`` (the factor s on the case's speeds of the
+    heat-balance speed; >= 1 passes). ``shaft_power_W``: shaft id -> (m,) bearing power.
     """
 
     bearing_ids: tuple[str, ...]
@@ -59,6 +60,7 @@ class ThermalResult:
     temperature_ok: np.ndarray
     speed_ok: np.ndarray
     evaluated: np.ndarray
+    speed_factor: FloatArray = field(default_factory=lambda: np.zeros(0))
 
     @property
     def verdict(self) -> str:

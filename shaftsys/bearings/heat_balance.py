@@ -90,7 +90,10 @@ def solve_temperature(heat_W: HeatFunction, removal_W_K: float, sink_C: float,
         dfdt = (f(t + DERIVATIVE_STEP_K) - ft) / DERIVATIVE_STEP_K
         with np.errstate(divide="ignore", invalid="ignore"):
             newton = t - ft / dfdt
-        ok = np.isfinite(newton) & (newton > lo) & (newton < hi)
+        # a Newton step onto the bracket's end is kept: at the root f(t) may be a
+        # round-off above 0, so lo = t and the step returns t itself (bisecting away
+        # from it would cost some 25 halvings back to 1e-7 K)
+        ok = np.isfinite(newton) & (newton >= lo) & (newton <= hi)
         t_new = np.where(ok, newton, 0.5 * (lo + hi))
         scale = np.maximum(np.abs(removal_W_K * (t - sink_C)), 1e-12)
         done = (np.abs(t_new - t) < TOL_K) & (np.abs(ft) <= TOL_RELATIVE * scale + 1e-9)
@@ -108,13 +111,20 @@ def solve_temperature(heat_W: HeatFunction, removal_W_K: float, sink_C: float,
         heat_W=np.where(good, heat, np.nan), t_max_C=float(t_max_C))
 
 
+#: Step of the numerical derivative in ln s [-] and convergence of ln s [-].
+DERIVATIVE_STEP_LN = 1e-6
+TOL_LN = 1e-12
+
+
 def speed_factor(heat_at_factor: HeatFunction, capacity_W: FloatArray,
                  *, s_min: float = 1e-6, s_max: float = 1e6, steps: int = 100) -> FloatArray:
     """Per case, the factor s on all speeds at which the heat equals ``capacity_W``.
 
     ``heat_at_factor(s)`` [W] must increase with s (friction heat rises with speed).
-    Bisection in log s over [s_min, s_max]; 0 where even s_min generates too much
-    heat, ``inf`` where s_max still generates too little.
+    Newton steps on ln(heat) - ln(capacity) in u = ln s (numerical derivative), started
+    at s = 1 and kept inside a bisection bracket over [s_min, s_max], each entry
+    converged on its own to ``TOL_LN`` in ln s (at most ``steps`` iterations); 0 where
+    even s_min generates too much heat, ``inf`` where s_max still generates too little.
     """
     cap = np.asarray(capacity_W, dtype=np.float64)
     m = cap.shape[0]
@@ -122,12 +132,27 @@ def speed_factor(heat_at_factor: HeatFunction, capacity_W: FloatArray,
     hi = np.full(m, np.log(s_max))
     too_hot = np.asarray(heat_at_factor(np.exp(lo))) > cap
     too_cold = np.asarray(heat_at_factor(np.exp(hi))) < cap
+    done = too_hot | too_cold
+    u = np.clip(np.zeros(m), lo, hi)
     for _ in range(steps):
-        mid = 0.5 * (lo + hi)
-        above = np.asarray(heat_at_factor(np.exp(mid))) > cap
-        hi = np.where(above, mid, hi)
-        lo = np.where(above, lo, mid)
-    s = np.exp(0.5 * (lo + hi))
+        if np.all(done):
+            break
+        with np.errstate(invalid="ignore", divide="ignore"):
+            # ln(heat) - ln(capacity) is close to linear in ln s (friction heat grows
+            # like s to s^(5/3)), so Newton converges in a few steps from s = 1
+            g = np.log(np.asarray(heat_at_factor(np.exp(u)))) - np.log(cap)
+            above = g > 0.0
+            hi = np.where(~done & above, u, hi)
+            lo = np.where(~done & ~above, u, lo)
+            dg = (np.log(np.asarray(heat_at_factor(np.exp(u + DERIVATIVE_STEP_LN))))
+                  - np.log(cap) - g) / DERIVATIVE_STEP_LN
+            newton = u - g / dg
+        ok = np.isfinite(newton) & (newton >= lo) & (newton <= hi)
+        u_new = np.where(ok, newton, 0.5 * (lo + hi))
+        conv = (np.abs(u_new - u) < TOL_LN) | (hi - lo < TOL_LN)
+        u = np.where(done, u, u_new)
+        done = done | conv
+    s = np.exp(u)
     return np.where(too_hot, 0.0, np.where(too_cold, np.inf, s))
 
 

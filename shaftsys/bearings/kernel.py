@@ -73,7 +73,8 @@ class DutyCycle:
     duration: time share or hours per case.
     duration_in_hours: ``duration`` is in hours (enables duty repetitions).
     static_only: cases checked for statics only.
-    temperature_C: operating temperature [degC] (NaN = not given).
+    temperature_C: operating temperature [degC] (NaN = not given), shape (m,), or one
+        row of temperatures per bearing row, shape (N, m) (a study's heat balance).
     """
 
     case_ids: tuple[str, ...]
@@ -343,8 +344,8 @@ def evaluate(
     ec_from_c = np.zeros(N, dtype=bool)
     if use_mod and lubrication is not None and np.any(dyn):
         idx = np.flatnonzero(dyn)
-        temps = duty.temperature_C[idx]
-        missing = np.flatnonzero(~np.isfinite(temps))
+        temps = duty.temperature_C[..., idx]
+        missing = np.flatnonzero(~np.all(np.isfinite(np.atleast_2d(temps)), axis=0))
         block = True
         if missing.size:
             cid = duty.case_ids[int(idx[missing[0]])]
@@ -368,12 +369,14 @@ def evaluate(
             # nu1 depends on dm and the case speed only: once per distinct dm
             dm_u, dm_inv = np.unique(np.where(dm > 0.0, dm, 1.0), return_inverse=True)
             nu1 = reference_viscosity(n_abs[idx], dm_u[:, None])[dm_inv.ravel()]
-            kappa_raw = nu[None, :] / nu1
+            nu_rows = nu[None, :] if nu.ndim == 1 else nu   # (1 or N, dynamic cases)
+            kappa_raw = nu_rows / nu1
             low = ~(kappa_raw >= KAPPA_MIN)  # NaN is low too
             jl = np.argmax(low, axis=1)
             err.add(np.any(low, axis=1), lambda i: ModelError(
                 f"bearing '{p.ids[i]}', case {case_name(duty.case_ids, int(idx[jl[i]]))}: "
-                f"viscosity ratio kappa = {kappa_raw[i, jl[i]]:.4g} (nu = {nu[jl[i]]:.4g}, "
+                f"viscosity ratio kappa = {kappa_raw[i, jl[i]]:.4g} "
+                f"(nu = {nu_rows[min(i, len(nu_rows) - 1), jl[i]]:.4g}, "
                 f"nu1 = {nu1[i, jl[i]]:.4g} mm^2/s) below {KAPPA_MIN}: outside ISO 281:2007 "
                 "modified life",
                 field="lubrication.viscosity",
@@ -422,7 +425,7 @@ def evaluate(
             if per_case:
                 kappa_out[:, idx] = kappa
                 kappa_raw_out[:, idx] = kappa_raw
-                nu_out[:, idx] = nu[None, :]
+                nu_out[:, idx] = nu_rows
                 nu1_out[:, idx] = nu1
                 ec_out[:, idx] = k_ec
 

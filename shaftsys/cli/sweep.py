@@ -165,6 +165,9 @@ def run_sweep(args: argparse.Namespace) -> int:
         s = run.summary
         print(f"{s['variants']} variants: {s['valid']} valid, {s['invalid']} invalid, "
               f"{s['passing']} pass")
+        if "thermal_failing" in s:
+            print(f"heat balance: {s['thermal_failing']} valid variants fail the thermal "
+                  f"check ({s['thermal_runaway']} of them thermal runaway)")
         if s["best_variant"]:
             vals = ", ".join(f"{k} = {v:g}" for k, v in s["best_values"].items())
             print(f"best: {s['best_variant']} ({vals}), worst margin "

@@ -442,9 +442,12 @@ def _summary_streaming(study: Study, chunk_files: Sequence[Path]) -> dict[str, A
     """:func:`study_summary` over the chunks (only the columns it reads), one at a time."""
     import pyarrow.parquet as pq
 
-    columns = ["variant", "valid", "ok", "worst_margin", *(q.path for q in study.quantities)]
+    columns = ["variant", "valid", "ok", "worst_margin", "thermal_ok", "thermal_runaway",
+               *(q.path for q in study.quantities)]
     best = None
     counts = {"valid": 0, "passing": 0}
+    thermal = {"thermal_failing": 0, "thermal_runaway": 0}
+    has_thermal = False
     for path in chunk_files:
         if not path.is_file():
             raise ModelError(f"chunk file {path} is missing", field="--resume",
@@ -454,6 +457,10 @@ def _summary_streaming(study: Study, chunk_files: Sequence[Path]) -> dict[str, A
         s = study_summary(study, df)
         counts["valid"] += s["valid"]
         counts["passing"] += s["passing"]
+        if "thermal_failing" in s:
+            has_thermal = True
+            for k in thermal:
+                thermal[k] += s[k]
         key = (1 if s["passing"] else 0, s["best_worst_margin"] or -1.0)
         if s["best_variant"] is not None and (best is None or key > best[0]):
             best = (key, s)
@@ -462,4 +469,6 @@ def _summary_streaming(study: Study, chunk_files: Sequence[Path]) -> dict[str, A
                            "passing": counts["passing"]}
     for k in ("best_variant", "best_values", "best_worst_margin"):
         res[k] = None if best is None else best[1][k]
+    if has_thermal:
+        res.update(thermal)
     return res

@@ -15,7 +15,9 @@ the model has one shaft and every quantity is geometric (bearing and element sta
 spacings, step diameters, bores and lengths, bearing C); otherwise it runs
 :func:`shaftsys.analyse` per variant (logged once per study). Shaft strength checks
 (fatigue, critical speeds) are not part of a study's verdict: ``ok`` means every bearing
-meets its life and static targets and every limit of the study is met.
+meets its life and static targets, every limit of the study is met and, with a heat
+balance (``model.thermal``), the thermal checks of the single run pass; the lives then use
+each variant's own temperatures (:mod:`shaftsys.analysis.thermal_batch`).
 """
 
 from __future__ import annotations
@@ -32,6 +34,7 @@ from typing import TYPE_CHECKING, Any, BinaryIO
 import numpy as np
 from numpy.typing import NDArray
 
+from shaftsys.analysis.thermal_batch import VariantThermal, from_result, thermal_setup
 from shaftsys.errors import ModelError, NumericalError
 from shaftsys.model import Model
 from shaftsys.study.paths import Quantity, geometry_of, model_with, parse_quantity, parse_values
@@ -130,6 +133,8 @@ class Study:
                 # an open adjusted pair needs the solve-choose passes of analyse
                 and all(placeholders[o.bearing_id].pair is None
                         for o in self.model.open_seats)
+                # a chosen row's friction changes the heat balance that its life uses
+                and not (self.model.thermal is not None and self.model.open_seats)
                 and not any(getattr(e, "hubs_mm", ())  # a drum's hubs: loads off its station
                             for e in self.model.shafts[0].elements))
 
@@ -226,6 +231,8 @@ def _evaluate_each(study: Study, values: NDArray[np.float64]) -> BatchArrays:
     B = values.shape[0]
     seat_ids = [o.bearing_id for o in model.open_seats]
     out = BatchArrays.empty(B, len(bearings), len(elements), len(seat_ids))
+    if model.thermal is not None:
+        out.thermal = VariantThermal.empty(B, len(bearings))
     for i in range(B):
         variant, reason = model_with(model, study.quantities, values[i])
         if reason:
@@ -271,6 +278,10 @@ def _evaluate_each(study: Study, values: NDArray[np.float64]) -> BatchArrays:
                 out.el_deflection_mm[i, j] = d
                 out.el_slope_rad[i, j] = s
                 j += 1
+        if res.thermal is not None and out.thermal is not None:
+            setup = thermal_setup(res.model, [(br.bearing, br.shaft_id) for br in res.bearings])
+            if setup is not None:
+                out.thermal.put(np.array([i]), from_result(setup, res.thermal))
         out.system_life_h[i] = math.nan if res.system_life_h is None else res.system_life_h
         out.limiting[i] = (bearings.index(res.limiting_bearing)
                            if res.limiting_bearing in bearings else -1)
@@ -295,10 +306,14 @@ def _log_fallback(study: Study) -> None:
     if key in _LOGGED:
         return
     _LOGGED.add(key)
+    slow = [q.path for q in study.quantities if not q.geometric]
     why = ("the model has several shafts or links" if len(study.model.shafts) != 1
            or getattr(study.model, "links", None) else
-           "quantities " + ", ".join(q.path for q in study.quantities if not q.geometric)
-           + " are not geometric")
+           "quantities " + ", ".join(slow) + " are not geometric" if slow else
+           "the model's open supports are chosen per variant, and with a heat balance "
+           "the chosen bearing's friction changes the temperature its life uses"
+           if study.model.thermal is not None and study.model.open_seats else
+           "an adjusted pair or a drum needs the single run")
     log.warning("study: %s; the batched evaluator does not cover this study, so every "
                 "variant runs shaftsys.analyse (slower)", why)
 
@@ -315,6 +330,17 @@ def results_frame(study: Study, index: NDArray[np.intp], values: NDArray[np.floa
     ``max_deflection_gears_mm``, ``max_slope_gears_rad``,
     ``max_deflection_bearings_mm``, ``max_slope_bearings_rad``, ``limits_ok``,
     ``worst_limit_ratio`` (largest value/limit), ``ok``.
+
+    With a heat balance (``model.thermal``) also, per bearing, ``<id>.temperature_max_C``
+    (the hottest duty case's temperature the lives use: typed wins; one housing, so the
+    same for every bearing), ``.power_loss_W`` (duration-weighted mean over the duty
+    cases, standstill counting as 0 W) and ``.power_loss_max_W``; per variant
+    ``temperature_max_C``, ``computed_temperature_max_C`` (the balance's hottest),
+    ``power_loss_W`` and ``power_loss_max_W`` (bearings plus the extra loss),
+    ``heat_balance_speed_factor_min`` (>= 1 passes), ``thermal_runaway``, ``thermal_ok``
+    (the single run's thermal verdict) and ``thermal_reason``; ``ok`` then needs
+    ``thermal_ok``. A variant that runs away stays valid, with NaN lives, temperatures
+    and losses, ``ok`` false and its reason.
     """
     import pandas as pd
 
@@ -371,7 +397,23 @@ def results_frame(study: Study, index: NDArray[np.intp], values: NDArray[np.floa
         ratio = np.maximum(ratio, v / li.max_value)
     cols["limits_ok"] = valid & (ratio <= 1.0)
     cols["worst_limit_ratio"] = np.where(valid, ratio, np.nan)
-    cols["ok"] = valid & np.all(a.ok, axis=1) & (ratio <= 1.0)
+    thermal_ok = np.ones(B, dtype=bool)
+    if study.model.thermal is not None:
+        th = a.thermal if a.thermal is not None else VariantThermal.empty(B, len(bearings))
+        for j, bid in enumerate(bearings):
+            cols[f"{bid}.temperature_max_C"] = th.temperature_max_C[:, j]
+            cols[f"{bid}.power_loss_W"] = th.power_loss_W[:, j]
+            cols[f"{bid}.power_loss_max_W"] = th.power_loss_max_W[:, j]
+        cols["temperature_max_C"] = th.variant_temperature_max_C
+        cols["computed_temperature_max_C"] = th.computed_temperature_max_C
+        cols["power_loss_W"] = th.total_power_loss_W
+        cols["power_loss_max_W"] = th.total_power_loss_max_W
+        cols["heat_balance_speed_factor_min"] = th.speed_factor_min
+        cols["thermal_runaway"] = valid & th.runaway
+        thermal_ok = valid & th.ok
+        cols["thermal_ok"] = thermal_ok
+        cols["thermal_reason"] = np.where(valid, th.reason, "").astype(str)
+    cols["ok"] = valid & np.all(a.ok, axis=1) & (ratio <= 1.0) & thermal_ok
     return pd.DataFrame(cols)
 
 
@@ -451,7 +493,10 @@ def write_results(df: pd.DataFrame, out_dir: str | Path, stem: str = "results"
 
 
 def study_summary(study: Study, df: pd.DataFrame) -> dict[str, Any]:
-    """Headline figures: counts, best variant by worst margin among the passing ones."""
+    """Headline figures: counts, best variant by worst margin among the passing ones;
+    with a heat balance also ``thermal_failing`` and ``thermal_runaway`` (valid variants
+    whose thermal check fails, and those of them without a steady temperature).
+    """
     valid = df[df["valid"]]
     passing = valid[valid["ok"]]
     best = passing if len(passing) else valid
@@ -468,4 +513,7 @@ def study_summary(study: Study, df: pd.DataFrame) -> dict[str, Any]:
         "best_values": None if row is None else {q.path: float(row[q.path])
                                                  for q in study.quantities},
         "best_worst_margin": None if row is None else float(row["worst_margin"]),
+        **({"thermal_failing": int((~valid["thermal_ok"].astype(bool)).sum()),
+            "thermal_runaway": int(valid["thermal_runaway"].astype(bool).sum())}
+           if "thermal_ok" in df.columns else {}),
     }

@@ -34,7 +34,10 @@ over variants, elements or cases):
    run uses, with one row per variant (the bearing's parameters, the variant's C): a
    user error of a variant (e.g. axial load on a needle bearing) becomes its reason.
    Errors that do not depend on the loads are found once in :func:`prepare` with a
-   zero-load evaluation and fail every variant. System life: the Weibull
+   zero-load evaluation and fail every variant. With a heat balance the temperatures
+   of each variant come first (:func:`shaftsys.analysis.thermal_batch.study_balance`,
+   the single run's core) and enter its lives; a variant that runs away gets none, as
+   the single run. System life: the Weibull
    product of :mod:`shaftsys.bearings.system` solved by a vectorised Newton iteration
    on ln L (converged to round-off, where the single-model path uses brentq).
 
@@ -53,6 +56,13 @@ from numpy.typing import NDArray
 
 from shaftsys.analysis.element_forces import element_loads
 from shaftsys.analysis.selection import fitting_rows, qualifying, rank_order
+from shaftsys.analysis.thermal_batch import (
+    ThermalSetup,
+    VariantThermal,
+    merged,
+    study_balance,
+    thermal_setup,
+)
 from shaftsys.bearings.arrays import BearingArrays
 from shaftsys.bearings.axial import axial_reactions
 from shaftsys.bearings.kernel import DutyCycle, evaluate
@@ -106,6 +116,7 @@ class Prepared:
     error: str = ""
     gear_index: tuple[int, ...] = field(default=())
     open_seats: tuple[OpenChoice, ...] = ()
+    thermal: ThermalSetup | None = None   # the heat balance (model.thermal), if any
 
 
 @dataclass(frozen=True, eq=False)
@@ -167,12 +178,20 @@ def prepare(model: Model) -> Prepared:
         temperature_C=np.asarray([c.temperature_C for c in model.cases], dtype=float))
     preps = tuple(BearingArrays.from_bearings([b]) for b in shaft.bearings)
     still_open = {o.bearing_id for o in model.open_seats}
+    thermal, zero_duty = None, duty
+    try:
+        thermal = thermal_setup(model, [(b, shaft.id) for b in shaft.bearings])
+    except ModelError as exc:
+        error = error or error_text(exc)
+    if thermal is not None:   # the balance supplies the missing temperatures (>= sink)
+        zero_duty = replace(duty, temperature_C=np.where(
+            np.isfinite(duty.temperature_C), duty.temperature_C, thermal.sink_C))
     for b, params in zip(shaft.bearings, preps, strict=True):
         # errors that do not depend on the loads fail every variant (an open support's
         # placeholder is not evaluated: its candidates are)
         if b.id in still_open:
             continue
-        first = evaluate(params, np.zeros(m), np.zeros(m), duty, model.life,
+        first = evaluate(params, np.zeros(m), np.zeros(m), zero_duty, model.life,
                          model.lubrication).errors[0]
         if first is not None and not error:
             error = f"ModelError: {first}"
@@ -191,7 +210,7 @@ def prepare(model: Model) -> Prepared:
         duty=duty,
         slopes=np.array([b.kind.weibull_slope for b in shaft.bearings], dtype=float),
         reliability=float(model.life.target_reliability), error=error, gear_index=gears,
-        open_seats=opens)
+        open_seats=opens, thermal=thermal)
 
 
 def _open_choices(model: Model, shaft: Shaft) -> tuple[OpenChoice, ...]:
@@ -250,6 +269,7 @@ class BatchArrays:
     choice: NDArray[np.intp] = field(default_factory=lambda: np.zeros((0, 0), np.intp))
     chosen_mass_kg: Array = field(default_factory=lambda: np.zeros(0))
     chosen_price: Array = field(default_factory=lambda: np.zeros(0))
+    thermal: VariantThermal | None = None   # the heat balance per variant, if any
 
     @classmethod
     def empty(cls, B: int, nb: int, ne: int, n_open: int = 0) -> BatchArrays:
@@ -268,6 +288,9 @@ class BatchArrays:
     def put(self, rows: NDArray[np.intp], other: BatchArrays) -> None:
         """Copy ``other`` (len(rows) variants) into ``rows``."""
         for name in self.__dataclass_fields__:
+            if name == "thermal":
+                self.thermal = merged(self.thermal, rows, other.thermal, self.reason.size)
+                continue
             getattr(self, name)[rows] = getattr(other, name)
 
 
@@ -451,9 +474,17 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
     res.Fr_max_N[:] = Fr.max(axis=1).T
     res.Fa_max_N[:] = Fa.max(axis=1).T
     ok_rows = np.flatnonzero(reason == "")
+    temps = None
+    if prep.thermal is not None and ok_rows.size:   # temperatures from the heat balance
+        res.thermal, temps, failed = study_balance(
+            prep.thermal, np.moveaxis(Fr, 2, 0), np.moveaxis(Fa, 2, 0),
+            prep.duty.speed_rpm, ok_rows)
+        res.reason[ok_rows] = failed[ok_rows]
+        # as the single run: without a steady temperature the lives are not evaluated
+        ok_rows = ok_rows[(failed[ok_rows] == "") & ~res.thermal.runaway[ok_rows]]
     if ok_rows.size:
         C = geom.bearing_C_N[rows]
-        _lives(prep, np.moveaxis(Fr, 2, 0), np.moveaxis(Fa, 2, 0), C, ok_rows, res)
+        _lives(prep, np.moveaxis(Fr, 2, 0), np.moveaxis(Fa, 2, 0), C, ok_rows, res, temps)
     bad_rows = np.flatnonzero(res.reason != "")
     if bad_rows.size:
         for name in ("Fr_max_N", "Fa_max_N", "deflection_mm", "slope_rad",
@@ -472,7 +503,7 @@ def _axial(shaft: Shaft, Ka: Array, Fr: Array) -> Array:
 
 # ------------------------------------------------------------------------------ lives
 def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp],
-           res: BatchArrays) -> None:
+           res: BatchArrays, temps: Array | None = None) -> None:
     """Life verdict of every bearing by :func:`shaftsys.bearings.kernel.evaluate`.
 
     Fr, Fa (b, nb, m) [N] and C (b, nb) [N] of the variants ``rows`` (positions in
@@ -480,7 +511,8 @@ def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp
     in model order with one) and no life results. One kernel call per group of bearings
     of one kind (:attr:`Prepared.kind_groups`) covers all their (variant, bearing) rows:
     the fixed cost is paid once per group and chunk, and each call takes the kernel's
-    one-kind paths.
+    one-kind paths. ``temps`` (b, m) [degC]: per variant the case temperatures of the
+    heat balance (``None``: the model's).
     """
     b = rows.size
     nb = len(prep.bearings)
@@ -495,8 +527,10 @@ def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp
         cols = np.asarray(group, dtype=np.intp)
         which = np.tile(cols, b)                      # row r = (variant r // g, bearing)
         params = replace(prep.stacked.take(which), C_N=C[rows][:, cols].reshape(-1))
+        duty = prep.duty if temps is None else replace(
+            prep.duty, temperature_C=np.repeat(temps[rows], g, axis=0))
         la = evaluate(params, Fr[rows][:, cols].reshape(-1, m),
-                      Fa[rows][:, cols].reshape(-1, m), prep.duty, model.life,
+                      Fa[rows][:, cols].reshape(-1, m), duty, model.life,
                       model.lubrication, per_case=False)
         failed = ~la.valid
         for r in np.flatnonzero(failed):
