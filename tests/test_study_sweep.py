@@ -183,6 +183,25 @@ def test_batch_of_one_is_bit_identical(spindle):
                                   equal_nan=True), name
 
 
+def test_variant_with_a_rating_error_takes_the_general_life_chain(spindle):
+    """A variant whose C is not positive is refused with the single run's message (the
+    per-bearing planned path hands it to the general chain); its neighbours in the same
+    chunk keep the bits of a batch of one and agree with shaftsys.analyse (1e-9)."""
+    st = make_study(spindle, [("bearing.A.C", [22000, 0, 21000])])
+    values = st.values_block(0, st.n_variants)
+    a, method = evaluate_values(st, values)
+    assert method == "batched"
+    assert a.reason[1] == ("ModelError: line 43: bearings[A].C_N: bearing 'A' needs positive "
+                           "ratings C and C0 (expected C > 0 and C0 > 0 [N])")
+    assert np.isnan(a.Lnm_h[1]).all() and np.isnan(a.system_life_h[1])
+    assert a.reason[0] == a.reason[2] == ""
+    for i in (0, 2):
+        one, _ = evaluate_values(st, values[i : i + 1])
+        for name in ("Lnm_h", "margin", "life_ratio", "s0", "system_life_h"):
+            assert np.array_equal(getattr(one, name)[0], getattr(a, name)[i]), name
+    _compare(spindle, st, [0, 2])
+
+
 def test_reactions_follow_statics():
     """Simply supported shaft, F = 10 kN at a = 200 mm, supports at 0 and L = 500 mm.
 
