@@ -261,17 +261,29 @@ OIL_EC = Lubrication(nu1_at_t1_mm2_s=46.0, nu2_at_t2_mm2_s=6.8, ec=0.3)
 PLAN_FIELDS = ("Lnm_h", "margin", "life_ratio", "s0", "life_ok", "static_ok", "ok")
 
 
+def _permuted_duty(order: list[int]) -> DutyCycle:
+    """The duty above with its cases in another order."""
+    d = duty()
+    return DutyCycle(case_ids=tuple(d.case_ids[k] for k in order),
+                     speed_rpm=d.speed_rpm[order], duration=d.duration[order],
+                     duration_in_hours=d.duration_in_hours, static_only=d.static_only[order],
+                     temperature_C=d.temperature_C[order])
+
+
+@pytest.mark.parametrize("order", [[0, 1, 2, 3, 4], [3, 0, 4, 1, 2]],
+                         ids=["running-first", "interleaved"])
 @pytest.mark.parametrize("lubrication", [OIL, OIL_EC, None], ids=["ep", "ec", "basic"])
 def test_planned_rows_equal_the_general_chain_bit_for_bit(
-        lubrication: Lubrication | None) -> None:
+        lubrication: Lubrication | None, order: list[int]) -> None:
     """No outside source: ``evaluate_planned`` (the study's per-bearing path) must give
     the bits of ``evaluate`` (checked against the single-bearing engine and ISO 281
     above) for every row it covers. Every bearing of the mixed table that gets a plan
     (all but the Table 3 angular-contact ones), 40 invented spectra each with its own C
     (0.6..1.4 of the bearing's), loads spanning two decades; a static-only and a
-    standstill case (the duty above)."""
+    standstill case (the duty above), first after the running cases and then between
+    them."""
     rng = np.random.default_rng(3)
-    du = duty()
+    du = _permuted_duty(order)
     planned = 0
     for b in mixed_table():
         params = BearingArrays.from_bearings([b])

@@ -550,9 +550,9 @@ class RowPlan:
     dynamic: BoolArray      # (m,)
     used: BoolArray         # (m,) U_i > 0
     weights: FloatArray     # (m,) U_i
-    idx: IntArray           # (k,) dynamic cases
-    used_cols: IntArray     # cases with U_i > 0 ...
-    used_pos: IntArray      # ... and their positions in idx
+    idx: IntArray | slice   # (k,) dynamic cases
+    used_cols: IntArray | slice   # cases with U_i > 0 ...
+    used_pos: IntArray | slice    # ... and their positions in idx
     p: FloatArray           # (1, 1) life exponent (an array, as the general chain's)
     inv_p: FloatArray       # (1,) 1/p
     a1: float
@@ -588,6 +588,13 @@ class PlannedLife:
     static_ok: BoolArray
     ok: BoolArray
     fallback: BoolArray
+
+
+def _as_slice(index: IntArray) -> IntArray | slice:
+    """A slice where ``index`` is a contiguous range (a view instead of a gather)."""
+    if index.size and np.array_equal(index, np.arange(index[0], index[0] + index.size)):
+        return slice(int(index[0]), int(index[0]) + index.size)
+    return index
 
 
 def plan_row(params: BearingArrays, duty: DutyCycle, settings: LifeSettings,
@@ -639,8 +646,8 @@ def plan_row(params: BearingArrays, duty: DutyCycle, settings: LifeSettings,
         rel_coef=float(f.rel_coef[0]), C0_N=float(params.C0_N[0]), e=float(f.e[0]),
         x_low=float(f.x_low[0]), y_low=float(f.y_low[0]), x_high=float(f.x_high[0]),
         y_high=float(f.y_high[0]), af=float(la.application_factor),
-        dynamic=dyn, used=used, weights=U, idx=idx, used_cols=used_cols,
-        used_pos=np.array([pos[int(k)] for k in used_cols], dtype=np.intp),
+        dynamic=dyn, used=used, weights=U, idx=_as_slice(idx), used_cols=_as_slice(used_cols),
+        used_pos=_as_slice(np.array([pos[int(k)] for k in used_cols], dtype=np.intp)),
         p=np.full((1, 1), pexp), inv_p=np.full(1, 1.0 / pexp), a1=float(la.a1[0]),
         target_h=float(target_h), target_mrev=float(target_h * 60.0 * n_m / MEGA_REVOLUTIONS),
         n_m_rpm=n_m, modified=bool(use_mod), Cu_N=float(la.Cu_N[0]), ec=ec, terms=terms,
@@ -671,14 +678,18 @@ def evaluate_planned(plan: RowPlan, Fr_N: npt.ArrayLike, Fa_N: npt.ArrayLike,
     C = np.asarray(C_N, dtype=np.float64)
     pl = plan
     with np.errstate(all="ignore"):
-        # rows the general chain may refuse: take them there (errors, messages)
-        fall = ~(C > 0.0) | ~np.all(np.isfinite(Fr) & (Fr >= 0.0), axis=1)
-        fall |= ~np.all(np.isfinite(Fa), axis=1)
-        tol = (1e-9 * np.maximum(np.abs(C), 1.0))[:, None]
+        # rows the general chain may refuse: take them there (errors, messages). A NaN
+        # fails every comparison and propagates through min/max, an infinity fails
+        # isfinite: the same rows as its checks (a false alarm would only cost time)
+        fr_max = Fr.max(axis=1)
+        fa_max = Fa.max(axis=1)
+        fall = ~(C > 0.0) | ~(Fr.min(axis=1) >= 0.0) | ~np.isfinite(fr_max)
+        fall |= ~np.isfinite(fa_max)
+        tol = 1e-9 * np.maximum(np.abs(C), 1.0)
         if pl.mode == MODE_RADIAL and pl.no_axial:
-            fall |= np.any(Fa > tol, axis=1)
+            fall |= fa_max > tol
         if pl.mode == MODE_THRUST or pl.thrust_ball:
-            fall |= np.any(Fr > tol, axis=1)
+            fall |= fr_max > tol
         # equivalent dynamic load (ISO 281:2007 6.2, 7.2)
         if pl.mode == MODE_RADIAL:
             P = Fr
@@ -694,24 +705,29 @@ def evaluate_planned(plan: RowPlan, Fr_N: npt.ArrayLike, Fa_N: npt.ArrayLike,
                 e, xl, yl, xh, yh = pl.e, pl.x_low, pl.y_low, pl.x_high, pl.y_high
             high = Fa > e * Fr
             P = np.where(high, xh, xl) * Fr + np.where(high, yh, yl) * Fa
-        P_design = pl.af * P
-        used = pl.used
-        UPp = np.where(used, np.where(used, P_design, 0.0) ** pl.p, 0.0)
-        UPp *= pl.weights
-        P1 = np.where(pl.dynamic, P_design, 1.0)
-        L10 = np.where(P1 > 0.0, (C[:, None] / np.where(P1 > 0.0, P1, 1.0)) ** pl.p, np.inf)
-        L10 = L10[:, pl.idx]
+        P_design = P if pl.af == 1.0 else pl.af * P   # 1.0 * P is P
+        b, m = Fr.shape
+        Pd = P_design[:, pl.idx]                     # (b, k) the dynamic cases
+        all_pos = bool(Pd.size) and bool(Pd.min() > 0.0)
+        pos = Pd > 0.0 if not all_pos else None      # (where(True, x, y) is x)
+        Pw = Pd if pos is None else np.where(pos, Pd, 1.0)
+        # U_i * P_i^p of the cases that count (zero elsewhere, as the general chain)
+        UPp = np.zeros((b, m))
+        UPp[:, pl.used_cols] = Pd[:, pl.used_pos] ** pl.p * pl.weights[pl.used_cols]
+        L10 = (C[:, None] / Pw) ** pl.p
+        if pos is not None:
+            L10 = np.where(pos, L10, np.inf)
         if pl.modified and pl.terms is not None:
-            Pd = P_design[:, pl.idx]
-            cu_p = np.where(Pd > 0.0, pl.Cu_N / np.where(Pd > 0.0, Pd, 1.0), np.inf)
-            ecu = pl.ec * cu_p
-            neg = ~np.all(ecu >= 0.0, axis=1)
+            cu_p = pl.Cu_N / Pw
+            ecu = pl.ec * (cu_p if pos is None else np.where(pos, cu_p, np.inf))
+            neg = ~(ecu.min(axis=1) >= 0.0)
             if np.any(neg):      # the general chain raises on these: let it
                 fall |= neg
                 ecu[neg] = 0.0
-            ai = a_iso_apply(pl.terms, ecu)
+            ai = a_iso_apply(pl.terms, ecu, checked=True)
             if pl.ep_terms is not None and np.any(pl.ep_use):
-                relieved = np.minimum(a_iso_apply(pl.ep_terms, ecu), EP_AISO_MAX)
+                relieved = np.minimum(a_iso_apply(pl.ep_terms, ecu, checked=True),
+                                      EP_AISO_MAX)
                 ai = np.where(pl.ep_use, np.maximum(ai, relieved), ai)
             factors: FloatArray | float = pl.a1 * ai
         else:
@@ -719,8 +735,8 @@ def evaluate_planned(plan: RowPlan, Fr_N: npt.ArrayLike, Fa_N: npt.ArrayLike,
         Lnm_case = factors * L10                     # (b, k)
         fac_used = (factors[:, pl.used_pos] if isinstance(factors, np.ndarray)
                     else factors)
-        # Palmgren-Miner over the cases with a revolution weight
-        b, m = Fr.shape
+        # Palmgren-Miner over the cases with a revolution weight (sums over all m cases,
+        # zeros elsewhere: the general chain's order of summation)
         D = np.zeros((b, m))
         D[:, pl.used_cols] = pl.weights[pl.used_cols] / Lnm_case[:, pl.used_pos]
         damage = D.sum(axis=1)
@@ -730,11 +746,16 @@ def evaluate_planned(plan: RowPlan, Fr_N: npt.ArrayLike, Fa_N: npt.ArrayLike,
         C_req = (pl.target_mrev * UPp.sum(axis=1)) ** pl.inv_p
         margin = np.where(C_req > 0.0, C / np.where(C_req > 0.0, C_req, 1.0), np.inf)
         life_ratio = margin ** pl.p[0]
-        # static safety (ISO 76:2006)
-        P0 = pl.X0 * Fr + pl.Y0 * Fa
-        if pl.floor_at_Fr:
-            P0 = np.maximum(P0, Fr)
-        s0 = np.where(P0 > 0.0, pl.C0_N / np.where(P0 > 0.0, P0, 1.0), np.inf).min(axis=1)
+        # static safety (ISO 76:2006): min over the cases of C0/P0 is C0/max P0 (a
+        # correctly rounded division is monotone; P0 >= 0), the same bits
+        if pl.X0 == 1.0 and pl.Y0 == 0.0:     # P0 = 1*Fr + 0*Fa is Fr (Fa finite here)
+            P0max = fr_max
+        else:
+            P0 = pl.X0 * Fr + pl.Y0 * Fa
+            if pl.floor_at_Fr:
+                P0 = np.maximum(P0, Fr)
+            P0max = P0.max(axis=1)
+        s0 = np.where(P0max > 0.0, pl.C0_N / np.where(P0max > 0.0, P0max, 1.0), np.inf)
     life_ok = Lnm_h >= pl.target_h
     static_ok = s0 >= pl.s0_min
     return PlannedLife(Lnm_h=Lnm_h, margin=margin, life_ratio=life_ratio, s0=s0,

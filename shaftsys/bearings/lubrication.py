@@ -397,13 +397,15 @@ def a_iso_terms(kappa: npt.ArrayLike, roller: npt.ArrayLike, thrust_ball: npt.Ar
     return AisoTerms(coef_r, coef_b, rol, tb, all_roller, no_roller)
 
 
-def a_iso_apply(terms: AisoTerms, ec_Cu_over_P: npt.ArrayLike) -> FloatArray:
+def a_iso_apply(terms: AisoTerms, ec_Cu_over_P: npt.ArrayLike, *,
+                checked: bool = False) -> FloatArray:
     """The aISO [-] (at most 50) of ``terms`` at ec*Cu/P [-] (broadcast against the terms).
 
-    Raises ValueError where ec*Cu/P is not >= 0 (NaN included).
+    Raises ValueError where ec*Cu/P is not >= 0 (NaN included), unless ``checked`` (the
+    caller has made sure of it).
     """
     r = np.atleast_1d(np.asarray(ec_Cu_over_P, dtype=np.float64))
-    if not np.all(r >= 0.0):
+    if not checked and not np.all(r >= 0.0):
         raise ValueError("ec*Cu/P must be >= 0")
     t = terms
     with np.errstate(invalid="ignore"):
@@ -421,7 +423,11 @@ def a_iso_apply(terms: AisoTerms, ec_Cu_over_P: npt.ArrayLike) -> FloatArray:
         base = 1.0 - np.where(t.roller, term_r, term_b)
         exponent = np.where(t.roller, -9.185, -9.3)
     with np.errstate(divide="ignore", invalid="ignore"):
-        value = np.where(base > 0.0, 0.1 * np.where(base > 0.0, base, 1.0) ** exponent, np.inf)
+        if base.size and base.min() > 0.0:      # where(True, x, y) is x: fewer passes
+            value = 0.1 * base**exponent
+        else:
+            value = np.where(base > 0.0, 0.1 * np.where(base > 0.0, base, 1.0) ** exponent,
+                             np.inf)
     return np.minimum(value, AISO_MAX, out=value)
 
 

@@ -80,7 +80,7 @@ Array = NDArray[np.float64]
 #: (10 000 variants, quiet machine, alternating runs): 512 -> 38 000/s, 1024 -> 49 000/s,
 #: 2048 -> 52 000-54 000/s, 4096 -> 47 000/s; the per-chunk Python cost of the life chain
 #: dominates below 2048 (an earlier choice of 512 was measured on a loaded machine).
-CHUNK = 2048
+CHUNK = 1024
 _LN09 = math.log(0.9)
 
 
@@ -425,18 +425,36 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
 
     # --- case values of both planes from the unit columns: value[k] = sum_c Z[c]*coef[c, k],
     # summed term by term in the order c = 0, 1, ..., one output at a time so that its
-    # (2m, b) block and the term stay in cache
+    # (2m, b) block and the term stay in cache. A term whose coefficients in one plane
+    # are all 0 adds nothing there and one whose coefficients are all 1 adds Z itself
+    # (the shaft weight): exact, the same values up to the sign of a zero, which no
+    # result reads (|R|, |u| and |phi| are taken of them).
     tmp = np.empty((2 * m, b))
+    halves = (slice(0, m), slice(m, 2 * m))
+    terms = [(c, h, bool(np.all(coef[c, h] == 1.0))) for c in range(nc) for h in halves
+             if np.any(coef[c, h] != 0.0)]
 
     def combine(Z: Array, out_: Array) -> Array:
         """(nc, b) unit-column values of one output -> ``out_`` (2m, b) case values."""
-        if nc == 0:
-            out_.fill(0.0)
-            return out_
-        np.multiply(coef[0][:, None], Z[0][None, :], out=out_)
-        for c in range(1, nc):
-            np.multiply(coef[c][:, None], Z[c][None, :], out=tmp)
-            out_ += tmp
+        started = [False, False]
+        for c, h, one in terms:
+            k = 0 if h.start == 0 else 1
+            dest = out_[h]
+            if not started[k]:
+                started[k] = True
+                if one:
+                    dest[...] = Z[c][None, :]
+                else:
+                    np.multiply(coef[c, h][:, None], Z[c][None, :], out=dest)
+            elif one:
+                dest += Z[c][None, :]
+            else:
+                t = tmp[h]
+                np.multiply(coef[c, h][:, None], Z[c][None, :], out=t)
+                dest += t
+        for k, h in enumerate(halves):
+            if not started[k]:
+                out_[h] = 0.0
         return out_
 
     ry = np.zeros((nb, m, b))
@@ -455,10 +473,12 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
     slope = np.empty((nodes.size, b))
     hyp = np.empty((m, b))
     for r, nd in enumerate(nodes):
-        combine(U[2 * nd], block)
-        np.max(np.hypot(block[:m], block[m:], out=hyp), axis=0, out=defl[r])
-        combine(U[2 * nd + 1], block)
-        np.max(np.hypot(block[:m], block[m:], out=hyp), axis=0, out=slope[r])
+        for dof, largest in ((2 * nd, defl), (2 * nd + 1, slope)):
+            if rigid[dof]:          # a rigid support's DOF: u = 0 in every column
+                largest[r] = 0.0
+                continue
+            combine(U[dof], block)
+            np.max(np.hypot(block[:m], block[m:], out=hyp), axis=0, out=largest[r])
     res = BatchArrays.empty(b, nb, ne, len(prep.open_seats))
     res.reason[:] = reason
     res.deflection_mm[:] = defl[:nb].T
