@@ -26,17 +26,22 @@ over variants, elements or cases):
    ``solve_planar_batch``); both planes and every case are right-hand sides of one
    factorisation. Reactions as K u - F at rigid DOFs and -k u at springs. Pivots below
    ``shaftsys.fe.solve.DEFAULT_PIVOT_TOL`` and a global force/moment balance
-   (:func:`shaftsys.fe.balance.global_balance`, the single run's definition) of a unit
-   column above ``solver.residual_tolerance`` mark the variant invalid (NumericalError).
+   (:func:`shaftsys.fe.balance.global_balance`, the single run's definition, as
+   :func:`~shaftsys.fe.balance.planar_balance`) of a unit column above
+   ``solver.residual_tolerance`` mark the variant invalid (NumericalError).
 3. **Axial rule** of :func:`shaftsys.bearings.axial.axial_reactions`, vectorised (locating
    bearing, cross-locating, adjusted pair with induced forces).
-4. **Lives** by :func:`shaftsys.bearings.kernel.evaluate`, the life chain the single
-   run uses, with one row per variant (the bearing's parameters, the variant's C): a
-   user error of a variant (e.g. axial load on a needle bearing) becomes its reason.
-   Errors that do not depend on the loads are found once in :func:`prepare` with a
-   zero-load evaluation and fail every variant. System life: the Weibull
-   product of :mod:`shaftsys.bearings.system` solved by a vectorised Newton iteration
-   on ln L (converged to round-off, where the single-model path uses brentq).
+4. **Lives** by the life chain the single run uses: per bearing its plan
+   (:func:`shaftsys.bearings.kernel.plan_row`, built once in :func:`prepare`: all
+   that does not depend on the loads and C) applied to every variant's spectrum by
+   :func:`~shaftsys.bearings.kernel.evaluate_planned` (the same bits as
+   :func:`~shaftsys.bearings.kernel.evaluate`); variants it flags and bearings without
+   a plan go through ``evaluate`` with one row per (variant, bearing): a user error of
+   a variant (e.g. C not positive) becomes its reason. Errors that do not depend on
+   the loads are found once in :func:`prepare` with a zero-load evaluation and fail
+   every variant. System life: the Weibull product of :mod:`shaftsys.bearings.system`
+   solved by a vectorised Newton iteration on ln L (converged to round-off, where the
+   single-model path uses brentq).
 
 Every variant's arithmetic is independent of the others, so a batch of one gives the
 same bits as the same variant inside a large batch.
@@ -76,10 +81,12 @@ log = logging.getLogger(__name__)
 
 Array = NDArray[np.float64]
 
-#: Variants solved together. Measured on the 2-core machine with the spindle study
-#: (10 000 variants, quiet machine, alternating runs): 512 -> 38 000/s, 1024 -> 49 000/s,
-#: 2048 -> 52 000-54 000/s, 4096 -> 47 000/s; the per-chunk Python cost of the life chain
-#: dominates below 2048 (an earlier choice of 512 was measured on a loaded machine).
+#: Variants solved together. Measured on the shared 2-core machine with the spindle study
+#: of bench_study.py (40 000 variants, CPU seconds, best of 4, sizes alternating, load
+#: average 4): 512 -> 68 000/s, 768 -> 72 000/s, 1024 -> 74 000/s, 1536 -> 64 000/s,
+#: 2048 -> 65 000/s, 4096 -> 61 000/s. Since the planned life chain the per-chunk Python
+#: cost is small and a chunk's (case x variant) blocks staying in the L2 cache matters
+#: more (2048 was best before it).
 CHUNK = 1024
 _LN09 = math.log(0.9)
 
@@ -478,7 +485,7 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
                 largest[r] = 0.0
                 continue
             combine(U[dof], block)
-            np.max(np.hypot(block[:m], block[m:], out=hyp), axis=0, out=largest[r])
+            _largest_hypot(block[:m], block[m:], largest[r], hyp)
     res = BatchArrays.empty(b, nb, ne, len(prep.open_seats))
     res.reason[:] = reason
     res.deflection_mm[:] = defl[:nb].T
@@ -499,6 +506,32 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
                      "el_deflection_mm", "el_slope_rad"):
             getattr(res, name)[bad_rows] = np.nan
     out.put(rows, res)
+
+
+#: Squared norms within this relative distance of the largest count as a tie.
+_TIE = 1e-12
+
+
+def _largest_hypot(a: Array, b: Array, out: Array, work: Array) -> None:
+    """``out[v] = max_k hypot(a[k, v], b[k, v])`` with one hypot per column, bit for bit.
+
+    hypot is the costly pass; the largest is where a^2 + b^2 is largest: computed in
+    floating point that sum is within about 2.2e-16 of the exact one, so a column whose
+    largest sum is ahead of every other case by more than 1e-12 (relative) has its
+    largest hypot (an error below one ulp) at that case. Other columns (near ties,
+    zeros, tiny or non-finite values) take the hypot of every case. ``work``: (m, b).
+    """
+    np.multiply(a, a, out=work)
+    work += b * b
+    k = np.argmax(work, axis=0)
+    cols = np.arange(a.shape[1])
+    top = work[k, cols]
+    single = (work >= top * (1.0 - _TIE)).sum(axis=0) == 1
+    single &= top >= 1e-280                     # normal numbers: the error bound holds
+    np.hypot(a[k, cols], b[k, cols], out=out)
+    rest = np.flatnonzero(~single)
+    if rest.size:
+        out[rest] = np.hypot(a[:, rest], b[:, rest]).max(axis=0)
 
 
 def _axial(shaft: Shaft, Ka: Array, Fr: Array) -> Array:
