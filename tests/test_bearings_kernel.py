@@ -5,6 +5,7 @@ Every bearing below is invented demo data (sizes and ratings made up, no real se
 
 from __future__ import annotations
 
+import dataclasses
 import math
 
 import numpy as np
@@ -12,7 +13,7 @@ import pytest
 
 from shaftsys.bearings import LoadSpectrum, evaluate_bearing
 from shaftsys.bearings.arrays import BearingArrays
-from shaftsys.bearings.kernel import DutyCycle, evaluate
+from shaftsys.bearings.kernel import DutyCycle, evaluate, evaluate_planned, plan_row
 from shaftsys.bearings.reliability import a1_iso281, reliability_iso281
 from shaftsys.errors import ModelError
 from shaftsys.model.bearing import Bearing, BearingKind, LifeSettings, Lubrication
@@ -254,3 +255,92 @@ def test_selection_checks_minimum_load_and_speed() -> None:
     assert la.min_load_ratio[1] == pytest.approx(1200.0 / (0.01 * 35000.0), rel=1e-15)
     assert la.speed_ratio[0] == pytest.approx(2400.0 / 2000.0, rel=1e-15)
     assert math.isnan(la.speed_ratio[1])
+
+
+OIL_EC = Lubrication(nu1_at_t1_mm2_s=46.0, nu2_at_t2_mm2_s=6.8, ec=0.3)
+PLAN_FIELDS = ("Lnm_h", "margin", "life_ratio", "s0", "life_ok", "static_ok", "ok")
+
+
+def _permuted_duty(order: list[int]) -> DutyCycle:
+    """The duty above with its cases in another order."""
+    d = duty()
+    return DutyCycle(case_ids=tuple(d.case_ids[k] for k in order),
+                     speed_rpm=d.speed_rpm[order], duration=d.duration[order],
+                     duration_in_hours=d.duration_in_hours, static_only=d.static_only[order],
+                     temperature_C=d.temperature_C[order])
+
+
+@pytest.mark.parametrize("order", [[0, 1, 2, 3, 4], [3, 0, 4, 1, 2]],
+                         ids=["running-first", "interleaved"])
+@pytest.mark.parametrize("lubrication", [OIL, OIL_EC, None], ids=["ep", "ec", "basic"])
+def test_planned_rows_equal_the_general_chain_bit_for_bit(
+        lubrication: Lubrication | None, order: list[int]) -> None:
+    """No outside source: ``evaluate_planned`` (the study's per-bearing path) must give
+    the bits of ``evaluate`` (checked against the single-bearing engine and ISO 281
+    above) for every row it covers. Every bearing of the mixed table that gets a plan
+    (all but the Table 3 angular-contact ones), 40 invented spectra each with its own C
+    (0.6..1.4 of the bearing's), loads spanning two decades; a static-only and a
+    standstill case (the duty above), first after the running cases and then between
+    them."""
+    rng = np.random.default_rng(3)
+    du = _permuted_duty(order)
+    planned = 0
+    for b in mixed_table():
+        params = BearingArrays.from_bearings([b])
+        plan = plan_row(params, du, SETTINGS, lubrication)
+        if b.kind is K.ANGULAR_CONTACT_BALL and b.X is None:
+            assert plan is None            # load-dependent Table 3 factors: general chain
+            continue
+        assert plan is not None, b.id
+        planned += 1
+        n = 40
+        C = b.C_N * rng.uniform(0.6, 1.4, n)
+        Fr = b.C_N * 10 ** rng.uniform(-2.5, -0.5, (n, 5))
+        Fa = Fr * rng.uniform(0.0, 0.8, (n, 5)) * np.where(rng.random((n, 5)) < 0.5, -1, 1)
+        if b.kind is K.NEEDLE_ROLLER or (b.kind is K.CYLINDRICAL_ROLLER and not b.ribs):
+            Fa[:] = 0.0
+        if b.kind is K.THRUST_BALL:
+            Fr[:] = 0.0
+        Fr[0, 2] = 0.0                     # a running case without radial load
+        Fa[1] = 0.0
+        got = evaluate_planned(plan, Fr, Fa, C)
+        assert not got.fallback.any(), b.id
+        ref = evaluate(_rows_with_C(params, C), Fr, Fa, du, SETTINGS, lubrication,
+                       per_case=False)
+        assert all(x is None for x in ref.errors)
+        for name in PLAN_FIELDS:
+            assert np.array_equal(getattr(got, name), getattr(ref, name)), (b.id, name)
+        assert plan.a1 == ref.a1[0]
+    assert planned >= 30
+
+
+def _rows_with_C(params: BearingArrays, C: np.ndarray) -> BearingArrays:
+    """``len(C)`` copies of the one-row ``params`` with their own C [N]."""
+    return dataclasses.replace(params.take(np.zeros(C.size, dtype=np.intp)), C_N=C)
+
+
+def test_planned_rows_leave_load_dependent_errors_to_the_general_chain() -> None:
+    """No outside source: rows the plan cannot vouch for are flagged for ``evaluate``,
+    which then gives the single run's error (axial load on a needle bearing, radial load
+    on a thrust ball bearing, C not positive); the other rows are unaffected."""
+    du = duty()
+    needle = Bearing(id="NDL", kind=K.NEEDLE_ROLLER, x_mm=0.0, d_mm=30.0, D_mm=42.0,
+                     C_N=20000.0, C0_N=25000.0)
+    thrust = Bearing(id="TB", kind=K.THRUST_BALL, x_mm=0.0, d_mm=30.0, D_mm=52.0,
+                     C_N=25000.0, C0_N=40000.0)
+    for b, hurt in ((needle, "Fa"), (thrust, "Fr")):
+        params = BearingArrays.from_bearings([b])
+        plan = plan_row(params, du, SETTINGS, OIL)
+        assert plan is not None
+        Fr = np.full((4, 5), 0.0 if b is thrust else 2000.0)
+        Fa = np.full((4, 5), 1500.0 if b is thrust else 0.0)
+        (Fa if hurt == "Fa" else Fr)[1, 2] = 300.0
+        C = np.array([b.C_N, b.C_N, 0.0, b.C_N])
+        got = evaluate_planned(plan, Fr, Fa, C)
+        assert got.fallback.tolist() == [False, True, True, False]
+        ref = evaluate(_rows_with_C(params, C), Fr, Fa, du, SETTINGS, OIL, per_case=False)
+        assert [x is None for x in ref.errors] == [True, False, False, True]
+        assert ("axial load" if hurt == "Fa" else "radial load") in ref.reason[1]
+        assert "positive ratings" in ref.reason[2]
+        for name in PLAN_FIELDS:
+            assert np.array_equal(getattr(got, name)[[0, 3]], getattr(ref, name)[[0, 3]])

@@ -18,7 +18,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from shaftsys.analysis import AppliedLoad, equilibrium_residual
-from shaftsys.fe.balance import global_balance
+from shaftsys.fe.balance import global_balance, planar_balance
 from shaftsys.fe.banded_batch import solve_supported_band
 from shaftsys.fe.mesh import (
     STATION_SNAP_MM,
@@ -231,6 +231,30 @@ def test_global_balance_with_batch_axes_equals_each_set() -> None:
                      for p in range(k)]
             ref = _reference_equilibrium_residual(loads, [])
             assert (f_res[i, j], m_res[i, j], rel[i, j]) == pytest.approx(ref, rel=1e-13)
+
+
+def test_planar_balance_is_global_balance_bit_for_bit() -> None:
+    """No outside source: planar_balance is global_balance with Fx = Fz = Mx = My = 0
+    and must give the same bits (random loads, batch axes, an unbalanced set, a zero set
+    and positions all at x = 0); global_balance itself is checked above."""
+    rng = np.random.default_rng(5)
+    k = 9
+    x = rng.uniform(0.0, 700.0, (7, 1, k))
+    x[0] = 0.0
+    fy = rng.normal(size=(7, 4, k)) * 10 ** rng.uniform(-2, 4, (7, 4, k))
+    mz = rng.normal(size=(7, 4, k)) * 1e4
+    fy[1] -= fy[1].sum(axis=-1, keepdims=True) / k       # nearly balanced forces
+    fy[2, 0] = 0.0
+    mz[2, 0] = 0.0                                       # an empty set: residual 0
+    F = np.zeros((7, 4, k, 3))
+    M = np.zeros((7, 4, k, 3))
+    F[..., 1] = fy
+    M[..., 2] = mz
+    _, _, rel = global_balance(x, F, M)
+    got = planar_balance(x, fy, mz)
+    assert got.shape == (7, 4)
+    assert np.array_equal(got, rel)
+    assert got[2, 0] == 0.0 and np.all(got[3:] > 1e-6)
 
 
 def test_hand_balanced_beam_and_a_wrong_reaction() -> None:

@@ -183,6 +183,51 @@ def test_batch_of_one_is_bit_identical(spindle):
                                   equal_nan=True), name
 
 
+def test_variant_with_a_rating_error_takes_the_general_life_chain(spindle):
+    """A variant whose C is not positive is refused with the single run's message (the
+    per-bearing planned path hands it to the general chain); its neighbours in the same
+    chunk keep the bits of a batch of one and agree with shaftsys.analyse (1e-9)."""
+    st = make_study(spindle, [("bearing.A.C", [22000, 0, 21000])])
+    values = st.values_block(0, st.n_variants)
+    a, method = evaluate_values(st, values)
+    assert method == "batched"
+    assert a.reason[1] == ("ModelError: line 43: bearings[A].C_N: bearing 'A' needs positive "
+                           "ratings C and C0 (expected C > 0 and C0 > 0 [N])")
+    assert np.isnan(a.Lnm_h[1]).all() and np.isnan(a.system_life_h[1])
+    assert a.reason[0] == a.reason[2] == ""
+    for i in (0, 2):
+        one, _ = evaluate_values(st, values[i : i + 1])
+        for name in ("Lnm_h", "margin", "life_ratio", "s0", "system_life_h"):
+            assert np.array_equal(getattr(one, name)[0], getattr(a, name)[i]), name
+    _compare(spindle, st, [0, 2])
+
+
+def test_largest_deflection_takes_one_hypot_per_variant_and_the_same_bits():
+    """No outside source: the study's largest |(u_y, u_z)| over the cases (one hypot per
+    variant where the largest squared norm leads by more than 1e-12) equals the maximum
+    of hypot over every case bit for bit, also with exact and near ties, zeros, values
+    too small to square, infinities and NaN."""
+    from shaftsys.study.variant_batch import _largest_hypot
+
+    rng = np.random.default_rng(21)
+    m, b = 20, 400
+    a = rng.normal(size=(m, b)) * 10 ** rng.uniform(-6, 3, (1, b))
+    c = rng.normal(size=(m, b)) * 10 ** rng.uniform(-6, 3, (1, b))
+    a[:, 0] = c[:, 0] = 0.0                               # a rigid support's DOF
+    a[4, 1], c[4, 1] = a[9, 1], c[9, 1]                   # an exact tie
+    a[5, 2], c[5, 2] = -a[2, 2], c[2, 2]                  # a tie by sign
+    a[6, 3] = a[1, 3] * (1.0 + 1e-15)                     # a near tie
+    c[6, 3] = c[1, 3]
+    a[:, 4] *= 1e-160                                     # squares underflow
+    c[:, 4] *= 1e-160
+    a[7, 5] = np.inf
+    a[8, 6] = np.nan
+    out = np.empty(b)
+    _largest_hypot(a, c, out, np.empty((m, b)))
+    assert np.array_equal(out, np.hypot(a, c).max(axis=0), equal_nan=True)
+    assert out[0] == 0.0 and np.isinf(out[5]) and np.isnan(out[6])
+
+
 def test_reactions_follow_statics():
     """Simply supported shaft, F = 10 kN at a = 200 mm, supports at 0 and L = 500 mm.
 

@@ -27,13 +27,26 @@ import numpy.typing as npt
 from shaftsys.bearings._util import BoolArray, FloatArray, case_name
 from shaftsys.bearings.arrays import BearingArrays, RowErrors
 from shaftsys.bearings.equivalent import (
+    DEEP_GROOVE_E,
+    DEEP_GROOVE_REL_LOAD,
+    DEEP_GROOVE_X,
+    DEEP_GROOVE_Y,
+    MODE_DEEP_GROOVE,
+    MODE_RADIAL,
+    MODE_SWITCH,
+    MODE_THRUST,
     EquivalentLoadArrays,
     dynamic_load_notes,
     equivalent_dynamic_load_arrays,
 )
 from shaftsys.bearings.lubrication import (
+    EP_AISO_MAX,
+    EP_EC_MIN,
     KAPPA_MAX,
     KAPPA_MIN,
+    AisoTerms,
+    a_iso_apply,
+    a_iso_terms,
     a_iso_with_ep_arrays,
     contamination_constants,
     contamination_factor,
@@ -514,6 +527,245 @@ def evaluate(
     )
 
 
+@dataclass(frozen=True, eq=False)
+class RowPlan:
+    """What :func:`evaluate` computes for one bearing that does not depend on its loads
+    or its C, for :func:`evaluate_planned` to apply to many load spectra at once.
+
+    A design study evaluates the same bearing (kind, factors, C0, Cu, lubrication,
+    kappa and ec per case, a1, target, life exponent) for every variant; only the loads
+    and C change. Built by :func:`plan_row` from a zero-load :func:`evaluate` of the
+    bearing (so every load-independent number is the one the general chain computes).
+    Shapes: (m,) per case, (k,) per dynamic case; the rest are numbers.
+    """
+
+    mode: int
+    no_axial: bool          # radial mode: needle or rib-less cylindrical (no axial load)
+    thrust_ball: bool
+    rel_coef: float         # deep groove: f0
+    C0_N: float
+    e: float                # e-switch factors (maker's or derived)
+    x_low: float
+    y_low: float
+    x_high: float
+    y_high: float
+    af: float
+    dynamic: BoolArray      # (m,)
+    used: BoolArray         # (m,) U_i > 0
+    weights: FloatArray     # (m,) U_i
+    idx: IntArray | slice   # (k,) dynamic cases
+    used_cols: IntArray | slice   # cases with U_i > 0 ...
+    used_pos: IntArray | slice    # ... and their positions in idx
+    p: FloatArray           # (1, 1) life exponent (an array, as the general chain's)
+    inv_p: FloatArray       # (1,) 1/p
+    a1: float
+    target_h: float
+    target_mrev: float
+    n_m_rpm: float
+    modified: bool          # aISO from the lubrication
+    Cu_N: float
+    ec: FloatArray          # (k,)
+    terms: AisoTerms | None
+    ep_terms: AisoTerms | None   # aISO terms at kappa = 1 where the EP relief applies
+    ep_use: BoolArray       # (k,)
+    X0: float
+    Y0: float
+    floor_at_Fr: bool
+    s0_min: float
+
+
+@dataclass(frozen=True, eq=False)
+class PlannedLife:
+    """Per-row results of :func:`evaluate_planned` (shape (b,), units in the names).
+
+    ``fallback``: rows the plan does not cover (a load-dependent user error is possible,
+    or C or a load is not a finite positive number): evaluate them with
+    :func:`evaluate`; their other numbers are not meaningful.
+    """
+
+    Lnm_h: FloatArray
+    margin: FloatArray
+    life_ratio: FloatArray
+    s0: FloatArray
+    life_ok: BoolArray
+    static_ok: BoolArray
+    ok: BoolArray
+    fallback: BoolArray
+
+
+def _as_slice(index: IntArray) -> IntArray | slice:
+    """A slice where ``index`` is a contiguous range (a view instead of a gather)."""
+    if index.size and np.array_equal(index, np.arange(index[0], index[0] + index.size)):
+        return slice(int(index[0]), int(index[0]) + index.size)
+    return index
+
+
+def plan_row(params: BearingArrays, duty: DutyCycle, settings: LifeSettings,
+             lubrication: Lubrication | None) -> RowPlan | None:
+    """The load-independent part of the life chain of ONE bearing (``len(params) == 1``).
+
+    ``None`` where the plan would not cover the general chain: the bearing has an error
+    at zero load, an angular-contact Table 3 interpolation (load-dependent factors), or
+    no case with a revolution weight.
+    """
+    if len(params) != 1:
+        raise ValueError("plan_row takes one bearing")
+    m = len(duty)
+    la = evaluate(params, np.zeros(m), np.zeros(m), duty, settings, lubrication)
+    f = la.equivalent.factors
+    mode = int(f.mode[0])
+    if la.errors[0] is not None or mode not in (MODE_RADIAL, MODE_THRUST, MODE_SWITCH,
+                                                 MODE_DEEP_GROOVE):
+        return None
+    dyn = np.asarray(la.dynamic, dtype=bool)
+    U = np.asarray(la.weights, dtype=np.float64)
+    used = U > 0.0
+    if not np.any(used):
+        return None
+    idx = np.flatnonzero(dyn)
+    used_cols = np.flatnonzero(used)
+    pos = {int(k): i for i, k in enumerate(idx)}
+    use_mod = lubrication is not None and settings.use_modified_life
+    pexp = float(la.life_exponent[0])
+    terms = ep_terms = None
+    ep_use = np.zeros(idx.size, dtype=bool)
+    ec = np.full(idx.size, np.nan)
+    if use_mod and lubrication is not None:
+        kappa = la.kappa[0, idx]
+        ec = np.array(la.ec[0, idx], dtype=np.float64)
+        roller = bool(params.roller[0])
+        tb = bool(params.is_kind(BearingKind.THRUST_BALL)[0])
+        terms = a_iso_terms(kappa, roller, tb)
+        if lubrication.ep_additives:
+            ep_use = (kappa < 1.0) & (ec >= EP_EC_MIN)
+            ep_terms = a_iso_terms(np.ones_like(kappa), roller, tb)
+    n_m = float(la.n_m_rpm)
+    target_h = np.float64(la.target_h[0])
+    kind = params.is_kind
+    return RowPlan(
+        mode=mode,
+        no_axial=bool((kind(BearingKind.NEEDLE_ROLLER) | ~params.ribs)[0]),
+        thrust_ball=bool(kind(BearingKind.THRUST_BALL)[0]),
+        rel_coef=float(f.rel_coef[0]), C0_N=float(params.C0_N[0]), e=float(f.e[0]),
+        x_low=float(f.x_low[0]), y_low=float(f.y_low[0]), x_high=float(f.x_high[0]),
+        y_high=float(f.y_high[0]), af=float(la.application_factor),
+        dynamic=dyn, used=used, weights=U, idx=_as_slice(idx), used_cols=_as_slice(used_cols),
+        used_pos=_as_slice(np.array([pos[int(k)] for k in used_cols], dtype=np.intp)),
+        p=np.full((1, 1), pexp), inv_p=np.full(1, 1.0 / pexp), a1=float(la.a1[0]),
+        target_h=float(target_h), target_mrev=float(target_h * 60.0 * n_m / MEGA_REVOLUTIONS),
+        n_m_rpm=n_m, modified=bool(use_mod), Cu_N=float(la.Cu_N[0]), ec=ec, terms=terms,
+        ep_terms=ep_terms, ep_use=ep_use, X0=float(la.static_factors.X0[0]),
+        Y0=float(la.static_factors.Y0[0]),
+        floor_at_Fr=bool(la.static_factors.floor_at_Fr[0]), s0_min=float(la.s0_min[0]))
+
+
+def evaluate_planned(plan: RowPlan, Fr_N: npt.ArrayLike, Fa_N: npt.ArrayLike,
+                     C_N: npt.ArrayLike) -> PlannedLife:
+    """The per-row verdicts of :func:`evaluate` for b load spectra of one planned bearing.
+
+    The same operations in the same order as the general chain on its rows, so the
+    same bits; only what depends on the loads and C is computed per row.
+
+    Parameters
+    ----------
+    plan:
+        From :func:`plan_row`.
+    Fr_N, Fa_N:
+        Radial load and axial load (sign ignored) [N], shape (b, m).
+    C_N:
+        Basic dynamic load rating of each row [N], shape (b,).
+    """
+    # C-contiguous (b, m): the sums over the cases then run in the general chain's order
+    Fr = np.ascontiguousarray(Fr_N, dtype=np.float64)
+    Fa = np.abs(np.ascontiguousarray(Fa_N, dtype=np.float64))
+    C = np.asarray(C_N, dtype=np.float64)
+    pl = plan
+    with np.errstate(all="ignore"):
+        # rows the general chain may refuse: take them there (errors, messages). A NaN
+        # fails every comparison and propagates through min/max, an infinity fails
+        # isfinite: the same rows as its checks (a false alarm would only cost time)
+        fr_max = Fr.max(axis=1)
+        fa_max = Fa.max(axis=1)
+        fall = ~(C > 0.0) | ~(Fr.min(axis=1) >= 0.0) | ~np.isfinite(fr_max)
+        fall |= ~np.isfinite(fa_max)
+        tol = 1e-9 * np.maximum(np.abs(C), 1.0)
+        if pl.mode == MODE_RADIAL and pl.no_axial:
+            fall |= fa_max > tol
+        if pl.mode == MODE_THRUST or pl.thrust_ball:
+            fall |= fr_max > tol
+        # equivalent dynamic load (ISO 281:2007 6.2, 7.2)
+        if pl.mode == MODE_RADIAL:
+            P = Fr
+        elif pl.mode == MODE_THRUST:
+            P = Fa
+        else:
+            if pl.mode == MODE_DEEP_GROOVE:
+                rel = pl.rel_coef * Fa / pl.C0_N
+                e: FloatArray | float = np.interp(rel, DEEP_GROOVE_REL_LOAD, DEEP_GROOVE_E)
+                xl, yl, xh = 1.0, 0.0, DEEP_GROOVE_X
+                yh: FloatArray | float = np.interp(rel, DEEP_GROOVE_REL_LOAD, DEEP_GROOVE_Y)
+            else:
+                e, xl, yl, xh, yh = pl.e, pl.x_low, pl.y_low, pl.x_high, pl.y_high
+            high = Fa > e * Fr
+            P = np.where(high, xh, xl) * Fr + np.where(high, yh, yl) * Fa
+        P_design = P if pl.af == 1.0 else pl.af * P   # 1.0 * P is P
+        b, m = Fr.shape
+        Pd = P_design[:, pl.idx]                     # (b, k) the dynamic cases
+        all_pos = bool(Pd.size) and bool(Pd.min() > 0.0)
+        pos = Pd > 0.0 if not all_pos else None      # (where(True, x, y) is x)
+        Pw = Pd if pos is None else np.where(pos, Pd, 1.0)
+        # U_i * P_i^p of the cases that count (zero elsewhere, as the general chain)
+        UPp = np.zeros((b, m))
+        UPp[:, pl.used_cols] = Pd[:, pl.used_pos] ** pl.p * pl.weights[pl.used_cols]
+        L10 = (C[:, None] / Pw) ** pl.p
+        if pos is not None:
+            L10 = np.where(pos, L10, np.inf)
+        if pl.modified and pl.terms is not None:
+            cu_p = pl.Cu_N / Pw
+            ecu = pl.ec * (cu_p if pos is None else np.where(pos, cu_p, np.inf))
+            neg = ~(ecu.min(axis=1) >= 0.0)
+            if np.any(neg):      # the general chain raises on these: let it
+                fall |= neg
+                ecu[neg] = 0.0
+            ai = a_iso_apply(pl.terms, ecu, checked=True)
+            if pl.ep_terms is not None and np.any(pl.ep_use):
+                relieved = np.minimum(a_iso_apply(pl.ep_terms, ecu, checked=True),
+                                      EP_AISO_MAX)
+                ai = np.where(pl.ep_use, np.maximum(ai, relieved), ai)
+            factors: FloatArray | float = pl.a1 * ai
+        else:
+            factors = pl.a1 * 1.0
+        Lnm_case = factors * L10                     # (b, k)
+        fac_used = (factors[:, pl.used_pos] if isinstance(factors, np.ndarray)
+                    else factors)
+        # Palmgren-Miner over the cases with a revolution weight (sums over all m cases,
+        # zeros elsewhere: the general chain's order of summation)
+        D = np.zeros((b, m))
+        D[:, pl.used_cols] = pl.weights[pl.used_cols] / Lnm_case[:, pl.used_pos]
+        damage = D.sum(axis=1)
+        Lnm = np.where(damage > 0.0, 1.0 / np.where(damage > 0.0, damage, 1.0), np.inf)
+        Lnm_h = Lnm * MEGA_REVOLUTIONS / (60.0 * pl.n_m_rpm)
+        UPp[:, pl.used_cols] /= fac_used
+        C_req = (pl.target_mrev * UPp.sum(axis=1)) ** pl.inv_p
+        margin = np.where(C_req > 0.0, C / np.where(C_req > 0.0, C_req, 1.0), np.inf)
+        life_ratio = margin ** pl.p[0]
+        # static safety (ISO 76:2006): min over the cases of C0/P0 is C0/max P0 (a
+        # correctly rounded division is monotone; P0 >= 0), the same bits
+        if pl.X0 == 1.0 and pl.Y0 == 0.0:     # P0 = 1*Fr + 0*Fa is Fr (Fa finite here)
+            P0max = fr_max
+        else:
+            P0 = pl.X0 * Fr + pl.Y0 * Fa
+            if pl.floor_at_Fr:
+                P0 = np.maximum(P0, Fr)
+            P0max = P0.max(axis=1)
+        s0 = np.where(P0max > 0.0, pl.C0_N / np.where(P0max > 0.0, P0max, 1.0), np.inf)
+    life_ok = Lnm_h >= pl.target_h
+    static_ok = s0 >= pl.s0_min
+    return PlannedLife(Lnm_h=Lnm_h, margin=margin, life_ratio=life_ratio, s0=s0,
+                       life_ok=life_ok, static_ok=static_ok, ok=life_ok & static_ok,
+                       fallback=fall)
+
+
 def row_notes(params: BearingArrays, la: LifeArrays, i: int, speed_rpm: npt.ArrayLike
               ) -> list[str]:
     """Warnings of row ``i`` in the order the single-bearing engine gives them.
@@ -598,7 +850,11 @@ __all__ = [
     "LIFE_BASIS_MODIFIED",
     "DutyCycle",
     "LifeArrays",
+    "PlannedLife",
+    "RowPlan",
     "dynamic_cases",
     "evaluate",
+    "evaluate_planned",
+    "plan_row",
     "row_notes",
 ]

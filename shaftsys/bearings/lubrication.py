@@ -19,6 +19,7 @@ from __future__ import annotations
 
 import math
 import re
+from dataclasses import dataclass
 
 import numpy as np
 import numpy.typing as npt
@@ -352,6 +353,84 @@ def estimate_fatigue_load_limit(C0_N: float, dm_mm: float, kind: BearingKind) ->
     return cu
 
 
+@dataclass(frozen=True, eq=False)
+class AisoTerms:
+    """The part of aISO (ISO 281:2007 9.3.2) that depends on kappa and the type only.
+
+    Built by :func:`a_iso_terms` for a kappa array; :func:`a_iso_apply` adds the load
+    (ec*Cu/P). A design study builds it once per bearing and case and applies it to
+    every variant: the same operations as :func:`a_iso_arrays`, so the same bits.
+
+    ``roller_coef``: 1.5859 - c/kappa^q (None without roller rows); ``ball_coef``:
+    (2.5671 - c/kappa^q)^0.83 (None without ball rows); ``roller``, ``thrust_ball``:
+    the type masks as given.
+    """
+
+    roller_coef: FloatArray | None
+    ball_coef: FloatArray | None
+    roller: npt.NDArray[np.bool_]
+    thrust_ball: npt.NDArray[np.bool_]
+    all_roller: bool
+    no_roller: bool
+
+
+def a_iso_terms(kappa: npt.ArrayLike, roller: npt.ArrayLike, thrust_ball: npt.ArrayLike
+                ) -> AisoTerms:
+    """The kappa part of :func:`a_iso_arrays` (ValueError outside 0.1 <= kappa <= 4)."""
+    k = np.atleast_1d(np.asarray(kappa, dtype=np.float64))
+    if not np.all((k >= KAPPA_MIN - 1e-12) & (k <= KAPPA_MAX + 1e-12)):  # NaN fails too
+        raise ValueError(f"aISO needs {KAPPA_MIN} <= kappa <= {KAPPA_MAX}, got {k}")
+    rol = np.asarray(roller, dtype=bool)
+    tb = np.asarray(thrust_ball, dtype=bool)
+    all_roller, no_roller = bool(np.all(rol)), not bool(np.any(rol))
+    low = k < 0.4
+    mid = (k >= 0.4) & (k < 1.0)
+    q = np.where(low, 0.054381, np.where(mid, 0.19087, 0.071739))
+    # only the branch (roller / ball) that some row needs is evaluated
+    coef_r = coef_b = None
+    with np.errstate(invalid="ignore"):
+        kq = k**q
+        if not no_roller:
+            coef_r = 1.5859 - np.where(low, 1.3993, 1.2348) / kq
+        if not all_roller:
+            coef_b = (2.5671 - np.where(low, 2.2649, 1.9987) / kq) ** 0.83
+    return AisoTerms(coef_r, coef_b, rol, tb, all_roller, no_roller)
+
+
+def a_iso_apply(terms: AisoTerms, ec_Cu_over_P: npt.ArrayLike, *,
+                checked: bool = False) -> FloatArray:
+    """The aISO [-] (at most 50) of ``terms`` at ec*Cu/P [-] (broadcast against the terms).
+
+    Raises ValueError where ec*Cu/P is not >= 0 (NaN included), unless ``checked`` (the
+    caller has made sure of it).
+    """
+    r = np.atleast_1d(np.asarray(ec_Cu_over_P, dtype=np.float64))
+    if not checked and not np.all(r >= 0.0):
+        raise ValueError("ec*Cu/P must be >= 0")
+    t = terms
+    with np.errstate(invalid="ignore"):
+        if t.roller_coef is not None:
+            term_r = t.roller_coef * r**0.4
+        if t.ball_coef is not None:
+            r_b = np.where(t.thrust_ball, r / 3.0, r) if np.any(t.thrust_ball) else r
+            term_b = t.ball_coef * np.cbrt(r_b)
+    exponent: FloatArray | float
+    if t.all_roller:
+        base, exponent = 1.0 - term_r, -9.185
+    elif t.no_roller:
+        base, exponent = 1.0 - term_b, -9.3
+    else:
+        base = 1.0 - np.where(t.roller, term_r, term_b)
+        exponent = np.where(t.roller, -9.185, -9.3)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        if base.size and base.min() > 0.0:      # where(True, x, y) is x: fewer passes
+            value = 0.1 * base**exponent
+        else:
+            value = np.where(base > 0.0, 0.1 * np.where(base > 0.0, base, 1.0) ** exponent,
+                             np.inf)
+    return np.minimum(value, AISO_MAX, out=value)
+
+
 def a_iso_arrays(
     kappa: npt.ArrayLike,
     ec_Cu_over_P: npt.ArrayLike,
@@ -376,39 +455,7 @@ def a_iso_arrays(
     numpy.ndarray
         aISO [-], at most 50.
     """
-    k = np.atleast_1d(np.asarray(kappa, dtype=np.float64))
-    r = np.atleast_1d(np.asarray(ec_Cu_over_P, dtype=np.float64))
-    if not np.all((k >= KAPPA_MIN - 1e-12) & (k <= KAPPA_MAX + 1e-12)):  # NaN fails too
-        raise ValueError(f"aISO needs {KAPPA_MIN} <= kappa <= {KAPPA_MAX}, got {k}")
-    if not np.all(r >= 0.0):
-        raise ValueError("ec*Cu/P must be >= 0")
-    rol = np.asarray(roller, dtype=bool)
-    tb = np.asarray(thrust_ball, dtype=bool)
-    all_roller, no_roller = bool(np.all(rol)), not bool(np.any(rol))
-    low = k < 0.4
-    mid = (k >= 0.4) & (k < 1.0)
-    q = np.where(low, 0.054381, np.where(mid, 0.19087, 0.071739))
-    # only the branch (roller / ball) that some row needs is evaluated
-    with np.errstate(invalid="ignore"):
-        kq = k**q
-        if not no_roller:
-            c_r = np.where(low, 1.3993, 1.2348)
-            term_r = (1.5859 - c_r / kq) * r**0.4
-        if not all_roller:
-            r_b = np.where(tb, r / 3.0, r) if np.any(tb) else r
-            c_b = np.where(low, 2.2649, 1.9987)
-            term_b = (2.5671 - c_b / kq) ** 0.83 * np.cbrt(r_b)
-    exponent: FloatArray | float
-    if all_roller:
-        base, exponent = 1.0 - term_r, -9.185
-    elif no_roller:
-        base, exponent = 1.0 - term_b, -9.3
-    else:
-        base = 1.0 - np.where(rol, term_r, term_b)
-        exponent = np.where(rol, -9.185, -9.3)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        value = np.where(base > 0.0, 0.1 * np.where(base > 0.0, base, 1.0) ** exponent, np.inf)
-    return np.minimum(value, AISO_MAX, out=value)
+    return a_iso_apply(a_iso_terms(kappa, roller, thrust_ball), ec_Cu_over_P)
 
 
 def a_iso(kappa: npt.ArrayLike, ec_Cu_over_P: npt.ArrayLike, kind: BearingKind) -> FloatArray:

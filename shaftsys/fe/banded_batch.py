@@ -119,7 +119,7 @@ def cholesky_banded_batch(ab: Array) -> Array:
     return Lb
 
 
-def solve_banded_batch(Lb: Array, b: Array) -> Array:
+def solve_banded_batch(Lb: Array, b: Array, *, overwrite_b: bool = False) -> Array:
     """Solve L L^T x = b for a stack of band Cholesky factors.
 
     Parameters
@@ -128,23 +128,32 @@ def solve_banded_batch(Lb: Array, b: Array) -> Array:
         Factors from :func:`cholesky_banded_batch`, shape (u+1, n, B).
     b:
         Right-hand sides, shape (n, m, B).
+    overwrite_b:
+        Solve in ``b`` itself (a float64 array the caller no longer needs) instead of a
+        copy; the same operations, so the same bits.
 
     Returns
     -------
     numpy.ndarray
-        x, shape (n, m, B).
+        x, shape (n, m, B) (``b`` itself with ``overwrite_b``).
     """
     p, n, _ = Lb.shape
-    y = np.array(b, dtype=float, copy=True)
+    y = b if overwrite_b and b.dtype == np.float64 else np.array(b, dtype=float, copy=True)
     for j in range(n):  # forward: L y = b
         y[j] /= Lb[0, j]
         k = min(p - 1, n - 1 - j)
         if k:
             y[j + 1 : j + 1 + k] -= Lb[1 : 1 + k, j][:, None, :] * y[j][None]
+    acc = np.empty(y.shape[1:])
+    term = np.empty(y.shape[1:])
     for j in range(n - 1, -1, -1):  # backward: L^T x = y
         k = min(p - 1, n - 1 - j)
-        if k:
-            y[j] -= np.sum(Lb[1 : 1 + k, j][:, None, :] * y[j + 1 : j + 1 + k], axis=0)
+        if k:   # sum over d = 1..k in that order (a sum over the first axis), no temporary
+            np.multiply(Lb[1, j][None, :], y[j + 1], out=acc)
+            for d in range(2, k + 1):
+                np.multiply(Lb[d, j][None, :], y[j + d], out=term)
+                acc += term
+            y[j] -= acc
         y[j] /= Lb[0, j]
     return y
 
@@ -322,5 +331,6 @@ def solve_supported_band(
         min_piv[~np.all(np.isfinite(s), axis=0)] = np.nan
         rhs = s[:, None, :] * F
         rhs[rigid] = 0.0
-        x = s[:, None, :] * solve_banded_batch(Lb, rhs)
+        x = solve_banded_batch(Lb, rhs, overwrite_b=True)
+        x *= s[:, None, :]
     return x, min_piv

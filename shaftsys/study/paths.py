@@ -340,6 +340,8 @@ class Geometry:
 
 def _note(reason: NDArray[np.object_], mask: NDArray[np.bool_], text: Any) -> None:
     """Record ``text`` (str, or callable(i) -> str) where ``mask`` and no reason yet."""
+    if not np.any(mask):     # the usual case: no object comparison over all variants
+        return
     for i in np.flatnonzero(mask & (reason == "")):
         reason[i] = text(int(i)) if callable(text) else text
 

@@ -26,18 +26,23 @@ over variants, elements or cases):
    ``solve_planar_batch``); both planes and every case are right-hand sides of one
    factorisation. Reactions as K u - F at rigid DOFs and -k u at springs. Pivots below
    ``shaftsys.fe.solve.DEFAULT_PIVOT_TOL`` and a global force/moment balance
-   (:func:`shaftsys.fe.balance.global_balance`, the single run's definition) of a unit
-   column above ``solver.residual_tolerance`` mark the variant invalid (NumericalError).
+   (:func:`shaftsys.fe.balance.global_balance`, the single run's definition, as
+   :func:`~shaftsys.fe.balance.planar_balance`) of a unit column above
+   ``solver.residual_tolerance`` mark the variant invalid (NumericalError).
 3. **Axial rule** of :func:`shaftsys.bearings.axial.axial_reactions`, vectorised (locating
    bearing, cross-locating, adjusted pair with induced forces).
-4. **Lives** by :func:`shaftsys.bearings.kernel.evaluate`, the life chain the single
-   run uses, with one row per variant (the bearing's parameters, the variant's C): a
-   user error of a variant (e.g. axial load on a needle bearing) becomes its reason.
-   Errors that do not depend on the loads are found once in :func:`prepare` with a
-   zero-load evaluation and fail every variant. With a heat balance the temperatures
-   of each variant come first (:func:`shaftsys.analysis.thermal_batch.study_balance`,
-   the single run's core) and enter its lives; a variant that runs away gets none, as
-   the single run. System life: the Weibull
+4. **Lives** by the life chain the single run uses: per bearing its plan
+   (:func:`shaftsys.bearings.kernel.plan_row`, built once in :func:`prepare`: all
+   that does not depend on the loads and C) applied to every variant's spectrum by
+   :func:`~shaftsys.bearings.kernel.evaluate_planned` (the same bits as
+   :func:`~shaftsys.bearings.kernel.evaluate`); variants it flags and bearings without
+   a plan go through ``evaluate`` with one row per (variant, bearing): a user error of
+   a variant (e.g. C not positive) becomes its reason. Errors that do not depend on
+   the loads are found once in :func:`prepare` with a zero-load evaluation and fail
+   every variant. With a heat balance the temperatures of each variant come first
+   (:func:`shaftsys.analysis.thermal_batch.study_balance`, the single run's core) and
+   enter its lives (no plan then: kappa changes with each variant's temperature); a
+   variant that runs away gets none, as the single run. System life: the Weibull
    product of :mod:`shaftsys.bearings.system` solved by a vectorised Newton iteration
    on ln L (converged to round-off, where the single-model path uses brentq).
 
@@ -65,9 +70,9 @@ from shaftsys.analysis.thermal_batch import (
 )
 from shaftsys.bearings.arrays import BearingArrays
 from shaftsys.bearings.axial import axial_reactions
-from shaftsys.bearings.kernel import DutyCycle, evaluate
+from shaftsys.bearings.kernel import DutyCycle, RowPlan, evaluate, evaluate_planned, plan_row
 from shaftsys.errors import ModelError, NumericalError
-from shaftsys.fe.balance import global_balance
+from shaftsys.fe.balance import planar_balance
 from shaftsys.fe.banded_batch import planar_band, solve_supported_band
 from shaftsys.fe.mesh import cluster_nodes, node_order, snap_stations_batch
 from shaftsys.fe.sections import circular_section_arrays
@@ -86,11 +91,13 @@ log = logging.getLogger(__name__)
 
 Array = NDArray[np.float64]
 
-#: Variants solved together. Measured on the 2-core machine with the spindle study
-#: (10 000 variants, quiet machine, alternating runs): 512 -> 38 000/s, 1024 -> 49 000/s,
-#: 2048 -> 52 000-54 000/s, 4096 -> 47 000/s; the per-chunk Python cost of the life chain
-#: dominates below 2048 (an earlier choice of 512 was measured on a loaded machine).
-CHUNK = 2048
+#: Variants solved together. Measured on the shared 2-core machine with the spindle study
+#: of bench_study.py (40 000 variants, CPU seconds, best of 4, sizes alternating, load
+#: average 4): 512 -> 68 000/s, 768 -> 72 000/s, 1024 -> 74 000/s, 1536 -> 64 000/s,
+#: 2048 -> 65 000/s, 4096 -> 61 000/s. Since the planned life chain the per-chunk Python
+#: cost is small and a chunk's (case x variant) blocks staying in the L2 cache matters
+#: more (2048 was best before it).
+CHUNK = 1024
 _LN09 = math.log(0.9)
 
 
@@ -117,6 +124,7 @@ class Prepared:
     gear_index: tuple[int, ...] = field(default=())
     open_seats: tuple[OpenChoice, ...] = ()
     thermal: ThermalSetup | None = None   # the heat balance (model.thermal), if any
+    plans: tuple[RowPlan | None, ...] = ()   # per bearing: the life chain's fixed part
 
 
 @dataclass(frozen=True, eq=False)
@@ -200,6 +208,10 @@ def prepare(model: Model) -> Prepared:
     opens = _open_choices(model, shaft)
     open_idx = {o.index for o in opens}
     fixed = [(j, b) for j, b in enumerate(shaft.bearings) if j not in open_idx]
+    # a heat balance gives every variant its own temperatures: no fixed plan then
+    plans = tuple(plan_row(params, duty, model.life, model.lubrication)
+                  if j not in open_idx and not error and thermal is None else None
+                  for j, params in enumerate(preps))
     return Prepared(
         model=model, shaft=shaft, case_ids=tuple(c.id for c in model.cases),
         el_force=F, el_moment=M, fx_elements=F[:, :, 0].sum(axis=0), supports=tuple(supports),
@@ -210,7 +222,7 @@ def prepare(model: Model) -> Prepared:
         duty=duty,
         slopes=np.array([b.kind.weibull_slope for b in shaft.bearings], dtype=float),
         reliability=float(model.life.target_reliability), error=error, gear_index=gears,
-        open_seats=opens, thermal=thermal)
+        open_seats=opens, thermal=thermal, plans=plans)
 
 
 def _open_choices(model: Model, shaft: Shaft) -> tuple[OpenChoice, ...]:
@@ -426,45 +438,78 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
                 dest[s_i] = -kk * U[dof]
     # --- global balance of every unit column (force, moment about x = 0): the nodal
     # loads and the support reactions as point loads in the x-y plane (fe.balance)
+    # (planar_balance: global_balance without its passes over the zero components)
     n_items = n + len(prep.supports)
-    Fc = np.zeros((3, b, nc, n_items))                   # components first: cheap views
-    Mc = np.zeros((3, b, nc, n_items))
-    Fc[1, :, :, :n] = Fu[0::2].T
-    Fc[1, :, :, n:] = Rf.T
-    Mc[2, :, :, :n] = Fu[1::2].T
-    Mc[2, :, :, n:] = Rm.T
+    Fy = np.empty((b, nc, n_items))
+    Mz = np.empty((b, nc, n_items))
+    Fy[:, :, :n] = Fu[0::2].T
+    Fy[:, :, n:] = Rf.T
+    Mz[:, :, :n] = Fu[1::2].T
+    Mz[:, :, n:] = Rm.T
     xk = np.concatenate([x, x[:, sup_nodes]], axis=1)[:, None, :]   # (b, 1, k)
-    _, _, rel = global_balance(xk, np.moveaxis(Fc, 0, -1), np.moveaxis(Mc, 0, -1))
+    rel = planar_balance(xk, Fy, Mz)
     worst = rel.max(axis=1) if nc else np.zeros(b)
     tol = model.solver.residual_tolerance
     for i in np.flatnonzero(~(worst <= tol) & (reason == "")):
         reason[i] = (f"NumericalError: equilibrium residual {worst[i]:.3g} of the applied "
                      f"load exceeds the tolerance {tol:.1g}")
 
-    def combine(Z: Array) -> Array:
-        """(r, nc, b) unit-column values -> (r, 2m, b) case values of both planes."""
-        out_ = np.zeros((Z.shape[0], 2 * m, b))
-        tmp = np.empty_like(out_)
-        for c in range(nc):   # the same sum, term by term, without a temporary per term
-            np.multiply(Z[:, c][:, None, :], coef[c][None, :, None], out=tmp)
-            out_ += tmp
+    # --- case values of both planes from the unit columns: value[k] = sum_c Z[c]*coef[c, k],
+    # summed term by term in the order c = 0, 1, ..., one output at a time so that its
+    # (2m, b) block and the term stay in cache. A term whose coefficients in one plane
+    # are all 0 adds nothing there and one whose coefficients are all 1 adds Z itself
+    # (the shaft weight): exact, the same values up to the sign of a zero, which no
+    # result reads (|R|, |u| and |phi| are taken of them).
+    tmp = np.empty((2 * m, b))
+    halves = (slice(0, m), slice(m, 2 * m))
+    terms = [(c, h, bool(np.all(coef[c, h] == 1.0))) for c in range(nc) for h in halves
+             if np.any(coef[c, h] != 0.0)]
+
+    def combine(Z: Array, out_: Array) -> Array:
+        """(nc, b) unit-column values of one output -> ``out_`` (2m, b) case values."""
+        started = [False, False]
+        for c, h, one in terms:
+            k = 0 if h.start == 0 else 1
+            dest = out_[h]
+            if not started[k]:
+                started[k] = True
+                if one:
+                    dest[...] = Z[c][None, :]
+                else:
+                    np.multiply(coef[c, h][:, None], Z[c][None, :], out=dest)
+            elif one:
+                dest += Z[c][None, :]
+            else:
+                t = tmp[h]
+                np.multiply(coef[c, h][:, None], Z[c][None, :], out=t)
+                dest += t
+        for k, h in enumerate(halves):
+            if not started[k]:
+                out_[h] = 0.0
         return out_
 
-    Rcase = combine(Rf)                                  # (n_sup, 2m, b)
     ry = np.zeros((nb, m, b))
     rz = np.zeros((nb, m, b))
+    block = np.empty((2 * m, b))
     for s_i, (j, _, _) in enumerate(prep.supports):
-        ry[j] = Rcase[s_i, :m]
-        rz[j] = Rcase[s_i, m:]
+        combine(Rf[s_i], block)
+        ry[j] = block[:m]
+        rz[j] = block[m:]
     Fr = np.hypot(ry, rz)                                # (nb, m, b)
     Ka = prep.fx_elements[:, None] + (mass_total * prep.gravity[0])[None, :]  # (m, b)
     Fa = _axial(shaft, Ka, Fr)                           # (nb, m, b)
     # --- deflections and slopes at the bearing and element nodes, largest over cases
     nodes = np.concatenate([bnode, enode])
-    Ud = combine(U[2 * nodes])
-    Us = combine(U[2 * nodes + 1])
-    defl = np.hypot(Ud[:, :m], Ud[:, m:]).max(axis=1)   # (nb + ne, b)
-    slope = np.hypot(Us[:, :m], Us[:, m:]).max(axis=1)
+    defl = np.empty((nodes.size, b))                     # (nb + ne, b)
+    slope = np.empty((nodes.size, b))
+    hyp = np.empty((m, b))
+    for r, nd in enumerate(nodes):
+        for dof, largest in ((2 * nd, defl), (2 * nd + 1, slope)):
+            if rigid[dof]:          # a rigid support's DOF: u = 0 in every column
+                largest[r] = 0.0
+                continue
+            combine(U[dof], block)
+            _largest_hypot(block[:m], block[m:], largest[r], hyp)
     res = BatchArrays.empty(b, nb, ne, len(prep.open_seats))
     res.reason[:] = reason
     res.deflection_mm[:] = defl[:nb].T
@@ -484,13 +529,41 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
         ok_rows = ok_rows[(failed[ok_rows] == "") & ~res.thermal.runaway[ok_rows]]
     if ok_rows.size:
         C = geom.bearing_C_N[rows]
-        _lives(prep, np.moveaxis(Fr, 2, 0), np.moveaxis(Fa, 2, 0), C, ok_rows, res, temps)
+        # (nb, b, m), C-contiguous: one bearing's spectra are rows of a (b, m) block
+        _lives(prep, np.ascontiguousarray(np.moveaxis(Fr, 2, 1)),
+               np.ascontiguousarray(np.moveaxis(Fa, 2, 1)), C, ok_rows, res, temps)
     bad_rows = np.flatnonzero(res.reason != "")
     if bad_rows.size:
         for name in ("Fr_max_N", "Fa_max_N", "deflection_mm", "slope_rad",
                      "el_deflection_mm", "el_slope_rad"):
             getattr(res, name)[bad_rows] = np.nan
     out.put(rows, res)
+
+
+#: Squared norms within this relative distance of the largest count as a tie.
+_TIE = 1e-12
+
+
+def _largest_hypot(a: Array, b: Array, out: Array, work: Array) -> None:
+    """``out[v] = max_k hypot(a[k, v], b[k, v])`` with one hypot per column, bit for bit.
+
+    hypot is the costly pass; the largest is where a^2 + b^2 is largest: computed in
+    floating point that sum is within about 2.2e-16 of the exact one, so a column whose
+    largest sum is ahead of every other case by more than 1e-12 (relative) has its
+    largest hypot (an error below one ulp) at that case. Other columns (near ties,
+    zeros, tiny or non-finite values) take the hypot of every case. ``work``: (m, b).
+    """
+    np.multiply(a, a, out=work)
+    work += b * b
+    k = np.argmax(work, axis=0)
+    cols = np.arange(a.shape[1])
+    top = work[k, cols]
+    single = (work >= top * (1.0 - _TIE)).sum(axis=0) == 1
+    single &= top >= 1e-280                     # normal numbers: the error bound holds
+    np.hypot(a[k, cols], b[k, cols], out=out)
+    rest = np.flatnonzero(~single)
+    if rest.size:
+        out[rest] = np.hypot(a[:, rest], b[:, rest]).max(axis=0)
 
 
 def _axial(shaft: Shaft, Ka: Array, Fr: Array) -> Array:
@@ -504,49 +577,62 @@ def _axial(shaft: Shaft, Ka: Array, Fr: Array) -> Array:
 # ------------------------------------------------------------------------------ lives
 def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp],
            res: BatchArrays, temps: Array | None = None) -> None:
-    """Life verdict of every bearing by :func:`shaftsys.bearings.kernel.evaluate`.
+    """Life verdict of every bearing by the life chain of :mod:`shaftsys.bearings.kernel`.
 
-    Fr, Fa (b, nb, m) [N] and C (b, nb) [N] of the variants ``rows`` (positions in
-    ``res``); a variant with a user error gets its reason (that of its first bearing
-    in model order with one) and no life results. One kernel call per group of bearings
-    of one kind (:attr:`Prepared.kind_groups`) covers all their (variant, bearing) rows:
-    the fixed cost is paid once per group and chunk, and each call takes the kernel's
-    one-kind paths. ``temps`` (b, m) [degC]: per variant the case temperatures of the
-    heat balance (``None``: the model's).
+    Fr, Fa (nb, b, m) [N] and C (b, nb) [N] of a chunk; ``rows``: the variants to
+    evaluate (positions in the chunk and in ``res``). A variant with a user error gets
+    its reason (that of its first bearing in model order with one) and no life results.
+    ``temps`` (b, m) [degC]: per variant of the chunk the case temperatures of the heat
+    balance (``None``: the model's).
+
+    A bearing with a plan (:attr:`Prepared.plans`, built by
+    :func:`~shaftsys.bearings.kernel.plan_row`: everything that does not depend on the
+    loads, once per study) goes through :func:`~shaftsys.bearings.kernel.evaluate_planned`
+    for all variants at once. The variants a plan does not cover (a load-dependent user
+    error is possible) and the bearings without a plan go through
+    :func:`~shaftsys.bearings.kernel.evaluate`, one call per group of bearings of one
+    kind (:attr:`Prepared.kind_groups`) over their (variant, bearing) rows. Both give
+    the same bits for a row.
     """
     b = rows.size
     nb = len(prep.bearings)
-    model = prep.model
-    m = Fr.shape[2]
     bad = np.zeros((b, nb), dtype=bool)
     errors: dict[tuple[int, int], object] = {}
     L90 = np.full((b, nb), np.inf)
     a1 = np.ones((b, nb))
+    fall = np.zeros(b, dtype=bool)
+    planned: set[int] = set()
+    every = rows.size == Fr.shape[1]
+    for j, plan in enumerate(prep.plans):
+        if plan is None:
+            continue
+        planned.add(j)
+        pl = evaluate_planned(plan, Fr[j] if every else Fr[j][rows],
+                              Fa[j] if every else Fa[j][rows], C[rows, j])
+        fall |= pl.fallback
+        res.Lnm_h[rows, j] = pl.Lnm_h
+        res.margin[rows, j] = pl.margin
+        res.life_ratio[rows, j] = pl.life_ratio
+        res.s0[rows, j] = pl.s0
+        res.life_ok[rows, j] = pl.life_ok
+        res.static_ok[rows, j] = pl.static_ok
+        res.ok[rows, j] = pl.ok
+        L90[:, j] = pl.Lnm_h
+        a1[:, j] = plan.a1
+    again = np.flatnonzero(fall)
     for group in prep.kind_groups:
-        g = len(group)
-        cols = np.asarray(group, dtype=np.intp)
-        which = np.tile(cols, b)                      # row r = (variant r // g, bearing)
-        params = replace(prep.stacked.take(which), C_N=C[rows][:, cols].reshape(-1))
-        duty = prep.duty if temps is None else replace(
-            prep.duty, temperature_C=np.repeat(temps[rows], g, axis=0))
-        la = evaluate(params, Fr[rows][:, cols].reshape(-1, m),
-                      Fa[rows][:, cols].reshape(-1, m), duty, model.life,
-                      model.lubrication, per_case=False)
-        failed = ~la.valid
-        for r in np.flatnonzero(failed):
-            errors[(int(r) // g, int(group[int(r) % g]))] = la.errors[int(r)]
-        bad[:, cols] = failed.reshape(b, g)
-        res.Lnm_h[rows[:, None], cols] = la.Lnm_h.reshape(b, g)
-        res.margin[rows[:, None], cols] = la.margin.reshape(b, g)
-        res.life_ratio[rows[:, None], cols] = la.life_ratio.reshape(b, g)
-        res.s0[rows[:, None], cols] = la.s0.reshape(b, g)
-        res.life_ok[rows[:, None], cols] = la.life_ok.reshape(b, g)
-        res.static_ok[rows[:, None], cols] = la.static_ok.reshape(b, g)
-        res.ok[rows[:, None], cols] = la.ok.reshape(b, g)
-        L90[:, cols] = la.Lnm_h.reshape(b, g)
-        a1[:, cols] = la.a1.reshape(b, g)
-    for k, oc in enumerate(prep.open_seats):
-        _choose_open(prep, oc, k, Fr, Fa, rows, res, L90, a1)
+        rest = tuple(j for j in group if j not in planned)
+        if rest:
+            _evaluate_group(prep, rest, Fr, Fa, C, np.arange(b), rows, res, bad, errors,
+                            L90, a1, temps)
+        done = tuple(j for j in group if j in planned)
+        if done and again.size:
+            _evaluate_group(prep, done, Fr, Fa, C, again, rows, res, bad, errors, L90, a1,
+                            temps)
+    if prep.open_seats:
+        Frv, Fav = np.moveaxis(Fr, 0, 1), np.moveaxis(Fa, 0, 1)   # (b, nb, m)
+        for k, oc in enumerate(prep.open_seats):
+            _choose_open(prep, oc, k, Frv, Fav, rows, res, L90, a1)
     failed_v = bad.any(axis=1)
     for i in np.flatnonzero(failed_v):
         first = int(np.argmax(bad[i]))
@@ -564,6 +650,43 @@ def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp
         for name in ("life_ok", "static_ok", "ok"):
             getattr(res, name)[badv] = False
         res.limiting[badv] = -1
+
+
+def _evaluate_group(prep: Prepared, group: tuple[int, ...], Fr: Array, Fa: Array, C: Array,
+                    sub: NDArray[np.intp], rows: NDArray[np.intp], res: BatchArrays,
+                    bad: NDArray[np.bool_], errors: dict[tuple[int, int], object],
+                    L90: Array, a1: Array, temps: Array | None = None) -> None:
+    """The general life chain for bearings ``group`` (one kind) of the variants ``sub``
+    (positions in ``rows``): one :func:`evaluate` call over their (variant, bearing) rows
+    (``temps``: the chunk's heat-balance temperatures per variant, or ``None``).
+    """
+    g = len(group)
+    cols = np.asarray(group, dtype=np.intp)
+    model = prep.model
+    m = Fr.shape[2]
+    nv = sub.size
+    which = np.tile(cols, nv)                      # row r = (variant r // g, bearing)
+    at_chunk = rows[sub]
+    params = replace(prep.stacked.take(which), C_N=C[at_chunk][:, cols].reshape(-1))
+    duty = prep.duty if temps is None else replace(
+        prep.duty, temperature_C=np.repeat(temps[at_chunk], g, axis=0))
+    la = evaluate(params, np.moveaxis(Fr[cols][:, at_chunk], 0, 1).reshape(-1, m),
+                  np.moveaxis(Fa[cols][:, at_chunk], 0, 1).reshape(-1, m), duty,
+                  model.life, model.lubrication, per_case=False)
+    failed = ~la.valid
+    for r in np.flatnonzero(failed):
+        errors[(int(sub[int(r) // g]), int(group[int(r) % g]))] = la.errors[int(r)]
+    bad[sub[:, None], cols] = failed.reshape(nv, g)
+    at = at_chunk[:, None]
+    res.Lnm_h[at, cols] = la.Lnm_h.reshape(nv, g)
+    res.margin[at, cols] = la.margin.reshape(nv, g)
+    res.life_ratio[at, cols] = la.life_ratio.reshape(nv, g)
+    res.s0[at, cols] = la.s0.reshape(nv, g)
+    res.life_ok[at, cols] = la.life_ok.reshape(nv, g)
+    res.static_ok[at, cols] = la.static_ok.reshape(nv, g)
+    res.ok[at, cols] = la.ok.reshape(nv, g)
+    L90[sub[:, None], cols] = la.Lnm_h.reshape(nv, g)
+    a1[sub[:, None], cols] = la.a1.reshape(nv, g)
 
 
 #: Largest (variant x candidate x case) block the choice evaluates at once.
