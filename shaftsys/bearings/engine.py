@@ -150,7 +150,10 @@ class BearingLife:
     ``reliability``, ``reliability_method``, ``life_basis``, ``target_h``,
     ``C_required_N``, ``margin`` (C/C_req), ``life_ratio`` (margin^p = Lnm_h/target_h),
     ``s0``, ``s0_min``, ``s0_case``, ``cycles_of_duty``, ``warnings``, ``f0_estimated``,
-    ``Cu_N``, ``Cu_estimated``, ``application_factor``, ``life_ok``, ``static_ok``, ``ok``.
+    ``Cu_N``, ``Cu_estimated``, ``application_factor``, ``life_ok``, ``static_ok``, ``ok``,
+    ``speed_ratio`` (largest running |n| / limiting speed, NaN without one or without a
+    running case), ``min_load_ratio`` (smallest running P / (0.01 C ball, 0.02 C
+    roller), NaN without a running case; common practice, no source).
     """
 
     bearing_id: str
@@ -200,6 +203,8 @@ class BearingLife:
     life_ok: bool
     static_ok: bool
     ok: bool
+    speed_ratio: float = math.nan
+    min_load_ratio: float = math.nan
 
     def to_dict(self) -> dict[str, Any]:
         """JSON-ready plain types; non-finite numbers (inf, nan) become ``None``."""
@@ -255,6 +260,8 @@ class BearingLife:
             "life_ok": self.life_ok,
             "static_ok": self.static_ok,
             "ok": self.ok,
+            "speed_ratio": _num(self.speed_ratio),
+            "min_load_ratio": _num(self.min_load_ratio),
             "static_only_cases": [{"case": c, "reason": r} for c, r in self.static_only_cases],
             "warnings": list(self.warnings),
             "cases": cases,
@@ -419,4 +426,6 @@ def evaluate_bearing(
         life_ok=life_ok,
         static_ok=static_ok,
         ok=life_ok and static_ok,
+        speed_ratio=num(np.broadcast_to(la.speed_ratio, (1,))),
+        min_load_ratio=num(np.broadcast_to(la.min_load_ratio, (1,))),
     )
