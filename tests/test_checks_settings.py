@@ -423,6 +423,8 @@ def test_tables_and_report_show_the_failing_speed_check() -> None:
     part = html.split('id="operating-limits"')[1]
     assert "1500 rpm" in part and "1000 rpm" in part and ">1.5<" in part
     assert "LIMIT OR TARGET MISSED" in html
+    # the inputs that decide the verdicts list the modes of the checks
+    assert "limiting-speed check</dt><dd>required" in html
     assert "limiting speed of bearing &#x27;A&#x27;" in html
 
 

@@ -228,6 +228,43 @@ def _inputs(result: Result) -> str:
         ("use modified life", "yes" if life.use_modified_life else "no"),
         ("life basis of the verdicts", ", ".join(basis) or "-"),
     ]
+    ck = m.checks
+    overrides = [f"{bid}: " + ", ".join(f"{k} {v}" for k, v in (
+        ("slope", o.slope_rad), ("speed", o.speed), ("min load", o.min_load))
+        if v is not None) for bid, o in ck.bearings.items()]
+    overrides += [f"{gid}: " + ", ".join(f"{k} {v}" for k, v in (
+        ("slope", g.slope_rad), ("deflection mm", g.deflection_mm),
+        ("deflection / module", g.deflection_per_module)) if v is not None)
+        for gid, g in ck.gears.items()]
+    targets = [f"machine {format_value(ck.system_life_target_h)} h"] \
+        if ck.system_life_target_h is not None else []
+    if ck.shaft_system_life_target_h is not None:
+        targets.append(f"every shaft {format_value(ck.shaft_system_life_target_h)} h")
+    targets += [f"shaft {sid} {format_value(v)} h" for sid, v in ck.shaft_targets_h.items()]
+    settings += [
+        ("limiting-speed check", ck.speed),
+        ("minimum-load check (0.01 C ball, 0.02 C roller)", ck.min_load),
+        ("fatigue criterion", ck.fatigue_criterion),
+        ("required fatigue / yield safety [-]",
+         f"{format_value(ck.fatigue_safety)} / {format_value(ck.yield_safety)}"),
+        ("bearing slope limits by type [rad]", ", ".join(
+            f"{k} {format_value(v)}" for k, v in ck.bearing_slope_by_type.items())
+         or "typical range of each type"),
+        ("gear limits", "; ".join(x for x in (
+            f"slope {format_value(ck.gear_slope_rad)} rad"
+            if ck.gear_slope_rad is not None else "",
+            f"deflection {format_value(ck.gear_deflection_mm)} mm"
+            if ck.gear_deflection_mm is not None else "",
+            f"deflection {format_value(ck.gear_deflection_per_module)} x module"
+            if ck.gear_deflection_per_module is not None else "") if x)
+         or "default (Shigley Table 7-2)"),
+        ("system-life targets", ", ".join(targets) or "none (system life is information)"),
+        ("system life stated at", "90 %" if ck.system_reliability == "90_percent"
+         else "the target reliability"),
+        ("Weibull slopes of the system life (ball / roller)",
+         f"{format_value(ck.weibull_slope_ball, 4)} / {format_value(ck.weibull_slope_roller, 4)}"),
+        ("per-item check settings", "; ".join(overrides) or "none"),
+    ]
     lub = m.lubrication
     if lub is None:
         settings.append(("lubrication", "not given (verdict on a1*L10)"))
