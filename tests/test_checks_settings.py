@@ -208,6 +208,19 @@ def test_per_item_overrides_win(tmp_path: Path) -> None:
     assert g["verdict"] == "fail" and code == 1
 
 
+def test_model_wide_gear_slope_is_named_even_at_the_default_value(tmp_path: Path) -> None:
+    """checks.gear_slope: 0.0005 (the default's value) is still the model's rule; 0.00001
+    rad passes at mid-span, where the slope is 0 by symmetry (Roark, centre load).
+    """
+    for value, rule in (("0.0005", "checks.gear_slope"), ("0.00001", "checks.gear_slope")):
+        checks = f"checks: {{speed: advisory, min_load: advisory, gear_slope: {value}}}\n"
+        code, data, _ = run(tmp_path, model_text(checks))
+        assert code == 0 and data is not None
+        g = data["shaft_checks"]["gears"][0]
+        assert g["slope_rule"] == rule
+        assert g["slope_limit_rad"] == pytest.approx(float(value))
+
+
 def test_default_gear_deflection_by_module(tmp_path: Path) -> None:
     """Module 3 mm: diametral pitch 25.4/3 = 8.47 <= 10, so 0.010 in = 0.254 mm (Shigley
     9th ed. Table 7-2, from memory; the limit module's own test inverts P = 25.4/m).
@@ -217,6 +230,7 @@ def test_default_gear_deflection_by_module(tmp_path: Path) -> None:
     g = data["shaft_checks"]["gears"][0]
     assert g["deflection_limit_mm"] == pytest.approx(0.010 * 25.4)
     assert "diametral pitch" in g["deflection_rule"]
+    assert g["slope_rule"].startswith("default 0.0005 rad")
 
 
 # ------------------------------------------------------------------ fatigue settings

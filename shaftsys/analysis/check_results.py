@@ -72,6 +72,8 @@ class ShaftCheckSettings:
         (``None`` = Shigley's table by the diametral pitch).
     gear_deflection_limits_mm: gear id -> allowable deflection [mm].
     gear_deflection_per_module_by_gear: gear id -> fraction of the module [-].
+    gear_slope_from_model: ``gear_slope_limit_rad`` was set in the model file
+        (``checks.gear_slope``; names the rule in the output).
     """
 
     bearing_slope_limits_rad: Mapping[str, float] = field(default_factory=dict)
@@ -91,6 +93,7 @@ class ShaftCheckSettings:
     gear_deflection_per_module: float | None = None
     gear_deflection_limits_mm: Mapping[str, float] = field(default_factory=dict)
     gear_deflection_per_module_by_gear: Mapping[str, float] = field(default_factory=dict)
+    gear_slope_from_model: bool = False
 
     def __post_init__(self) -> None:
         if self.criterion not in tuple(c.value for c in FatigueCriterion):

@@ -202,6 +202,7 @@ def settings_from_model(model: Model) -> ShaftCheckSettings:
                               else SPUR_GEAR_SLOPE_LIMIT_RAD),
         gear_slope_limits_rad={k: v.slope_rad for k, v in c.gears.items()
                                if v.slope_rad is not None},
+        gear_slope_from_model=c.gear_slope_rad is not None,
         gear_deflection_limit_mm=c.gear_deflection_mm,
         gear_deflection_per_module=c.gear_deflection_per_module,
         gear_deflection_limits_mm={k: v.deflection_mm for k, v in c.gears.items()
@@ -253,10 +254,12 @@ def gear_limits(el: Gear | BevelGear, st: ShaftCheckSettings
     module = el.normal_module_mm if isinstance(el, Gear) else None
     if el.id in st.gear_slope_limits_rad:
         slim, srule = float(st.gear_slope_limits_rad[el.id]), f"checks.gears.{el.id}.slope"
-    elif st.gear_slope_limit_rad != SPUR_GEAR_SLOPE_LIMIT_RAD:
+    elif st.gear_slope_from_model:
         slim, srule = st.gear_slope_limit_rad, "checks.gear_slope"
-    else:
+    elif st.gear_slope_limit_rad == SPUR_GEAR_SLOPE_LIMIT_RAD:
         slim, srule = st.gear_slope_limit_rad, "default 0.0005 rad (uncrowned spur gear)"
+    else:
+        slim, srule = st.gear_slope_limit_rad, "settings: gear_slope_limit_rad"
     fraction = st.gear_deflection_per_module_by_gear.get(el.id)
     frac_key = f"checks.gears.{el.id}.deflection_per_module"
     if fraction is None and el.id not in st.gear_deflection_limits_mm:
