@@ -45,9 +45,10 @@ def recording(hours: float = 2.0, rate_hz: float = 20.0, seed: int = 7
     ramp = (tc >= 0.4) & (tc < 6.4)
     speed[ramp] = RATED_RPM * (tc[ramp] - 0.4) / 6.0
     torque[ramp] = 105.0
-    # overhauling leg: the load drives the motor for 90 s
+    # overhauling leg: the loaded downhill leg drives the motor for 90 s at about 6.4 kW
+    # (a lighter one would leave the output bearings below their minimum load)
     over = (tc > 900.0) & (tc < 990.0)
-    torque[over] = -18.0 + rng.normal(0.0, 2.0, int(over.sum()))
+    torque[over] = -42.0 + rng.normal(0.0, 2.0, int(over.sum()))
     # stop: 2 min standstill at the end of each half-hour (brake holds, small torque)
     stop = tc > cycle - 120.0
     speed[stop] = 0.0

@@ -476,8 +476,14 @@ def _walk(node: Any, here: str = "") -> list[tuple[str, dict[str, Any]]]:
 
 
 def _excused(item: dict[str, Any], key: str) -> bool:
-    """A ``not evaluated`` that does not count: fatigue that is not required."""
-    return key == "fatigue_verdict" and item.get("fatigue_required") is False
+    """A verdict that does not count: fatigue that is not required, and a bearing's
+    limiting-speed or minimum-load check that is advisory or could not be evaluated (no
+    limiting speed, no running case): ``counts`` false beside it.
+    """
+    if key == "fatigue_verdict" and item.get("fatigue_required") is False:
+        return True
+    return (key == "verdict" and item.get("check") in ("limiting_speed", "minimum_load")
+            and item.get("counts") is False)
 
 
 def result_contradictions(text: str, code: int) -> list[str]:

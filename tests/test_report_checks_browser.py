@@ -71,3 +71,31 @@ def test_failing_slope_and_fatigue_shown_with_numbers(tmp_path: Path) -> None:
             f"{format_value(checks.settings.required_fatigue_safety, 3)}") in tail
     assert f"{format_value(section.Se_MPa, 4)}" in tail
     assert "FAIL" in tail
+
+
+def test_failing_speed_check_shown_with_numbers(tmp_path: Path) -> None:
+    """A case at 1500 rpm on a bearing with a limiting speed of 1000 rpm (the model of
+    tests/test_checks_settings.py): the browser shows the limiting-speed row with the
+    speed, the limit, the ratio 1.5 (n / limit, common practice, no source) and FAIL,
+    and the headline names the check.
+    """
+    from tests.test_checks_settings import model_text
+
+    browser = _browser()
+    path = tmp_path / "speed.yaml"
+    path.write_text(model_text(), encoding="utf-8")
+    result = shaftsys.analyse(shaftsys.load_model(str(path)))
+    check = result.bearing("A").operating_check("limiting_speed")
+    assert check is not None and check.verdict == "fail"
+    assert check.ratio == pytest.approx(1500.0 / 1000.0)
+    page = tmp_path / "report.html"
+    page.write_text(render_report(result, date="2024-01-02"), encoding="utf-8")
+    dom = _run(browser, "--dump-dom", page.as_uri()).stdout
+    p = _Text()
+    p.feed(dom)
+    text = " ".join(" ".join(p.parts).split())
+    assert "Limiting speed and minimum load" in text
+    row = (f"s/A limiting speed {check.case} {format_value(check.value, 5)} rpm "
+           f"{format_value(check.limit, 5)} rpm {format_value(check.ratio, 3)} required FAIL")
+    assert row in text
+    assert "limiting speed of bearing 'A'" in text

@@ -62,6 +62,18 @@ class ShaftCheckSettings:
     rotary_inertia: include the shaft's distributed rotary inertia rho*I in the bending modes.
     max_element_mm: element length for the modal mesh [mm] (``None`` = the model's solver
         setting).
+    bearing_type_slope_limits_rad: bearing type value -> allowable slope [rad] (below a
+        per-bearing limit, above the type's common-practice range).
+    gear_slope_limits_rad: gear id -> allowable slope [rad] (replaces
+        ``gear_slope_limit_rad`` at that gear).
+    gear_deflection_limit_mm: allowable deflection at every gear [mm] (``None`` = the
+        rule: per module, or Shigley's table).
+    gear_deflection_per_module: allowable deflection = this x the normal module [-]
+        (``None`` = Shigley's table by the diametral pitch).
+    gear_deflection_limits_mm: gear id -> allowable deflection [mm].
+    gear_deflection_per_module_by_gear: gear id -> fraction of the module [-].
+    gear_slope_from_model: ``gear_slope_limit_rad`` was set in the model file
+        (``checks.gear_slope``; names the rule in the output).
     """
 
     bearing_slope_limits_rad: Mapping[str, float] = field(default_factory=dict)
@@ -75,11 +87,18 @@ class ShaftCheckSettings:
     required_yield_safety: float = DEFAULT_REQUIRED_YIELD_SAFETY
     rotary_inertia: bool = False
     max_element_mm: float | None = None
+    bearing_type_slope_limits_rad: Mapping[str, float] = field(default_factory=dict)
+    gear_slope_limits_rad: Mapping[str, float] = field(default_factory=dict)
+    gear_deflection_limit_mm: float | None = None
+    gear_deflection_per_module: float | None = None
+    gear_deflection_limits_mm: Mapping[str, float] = field(default_factory=dict)
+    gear_deflection_per_module_by_gear: Mapping[str, float] = field(default_factory=dict)
+    gear_slope_from_model: bool = False
 
     def __post_init__(self) -> None:
-        if self.criterion not in (FatigueCriterion.GOODMAN, FatigueCriterion.ASME_ELLIPTIC):
-            raise ValueError(f"unknown fatigue criterion {self.criterion!r}; "
-                             "expected 'goodman' or 'asme_elliptic'")
+        if self.criterion not in tuple(c.value for c in FatigueCriterion):
+            raise ValueError(f"unknown fatigue criterion {self.criterion!r}; expected one "
+                             f"of {[c.value for c in FatigueCriterion]}")
         if self.fatigue_cases not in _FATIGUE_CASES:
             raise ValueError(f"unknown fatigue_cases {self.fatigue_cases!r}; "
                              f"expected one of {_FATIGUE_CASES}")
@@ -91,9 +110,16 @@ class ShaftCheckSettings:
             v = getattr(self, name)
             if not (math.isfinite(v) and v > 0.0):
                 raise ValueError(f"{name} = {v!r}; expected a positive number")
-        for bid, v in self.bearing_slope_limits_rad.items():
-            if not (math.isfinite(v) and v > 0.0):
-                raise ValueError(f"slope limit of bearing {bid!r} = {v!r}; expected > 0 rad")
+        for name in ("bearing_slope_limits_rad", "bearing_type_slope_limits_rad",
+                     "gear_slope_limits_rad", "gear_deflection_limits_mm",
+                     "gear_deflection_per_module_by_gear"):
+            for key, v in getattr(self, name).items():
+                if not (math.isfinite(v) and v > 0.0):
+                    raise ValueError(f"{name}[{key!r}] = {v!r}; expected a positive number")
+        for name in ("gear_deflection_limit_mm", "gear_deflection_per_module"):
+            v = getattr(self, name)
+            if v is not None and not (math.isfinite(v) and v > 0.0):
+                raise ValueError(f"{name} = {v!r}; expected a positive number")
 
 
 # ----------------------------------------------------------------------------- results
@@ -128,6 +154,8 @@ class DeflectionCheck:
     source: where the limits come from.
     cases: per-case deflection and slope.
     ok: no case exceeds a limit.
+    slope_rule: which rule gave the slope limit (the model file's key or the default).
+    deflection_rule: which rule gave the deflection limit (gears), else ``None``.
     """
 
     id: str
@@ -140,6 +168,8 @@ class DeflectionCheck:
     source: str
     cases: tuple[CaseDeflection, ...]
     ok: bool
+    slope_rule: str = ""
+    deflection_rule: str | None = None
 
     @property
     def verdict(self) -> str:
@@ -157,7 +187,8 @@ class DeflectionCheck:
                 "slope_limit_low_rad": self.slope_limit_low_rad,
                 "deflection_limit_mm": self.deflection_limit_mm, "source": self.source,
                 "cases": [c.to_dict() for c in self.cases], "ok": self.ok,
-                "verdict": self.verdict}
+                "verdict": self.verdict, "slope_rule": self.slope_rule,
+                "deflection_rule": self.deflection_rule}
 
 
 @dataclass(frozen=True)
@@ -373,7 +404,13 @@ class ShaftChecks:
                          "fatigue_cases": st.fatigue_cases,
                          "critical_speed_margin": st.critical_speed_margin,
                          "required_fatigue_safety": st.required_fatigue_safety,
-                         "required_yield_safety": st.required_yield_safety},
+                         "required_yield_safety": st.required_yield_safety,
+                         "gear_slope_limit_rad": st.gear_slope_limit_rad,
+                         "gear_deflection_limit_mm": st.gear_deflection_limit_mm,
+                         "gear_deflection_per_module": st.gear_deflection_per_module,
+                         "bearing_type_slope_limits_rad":
+                             dict(st.bearing_type_slope_limits_rad),
+                         "size_factor": "Shigley eq. 6-20 (rotating round bar)"},
         }
 
 

@@ -12,9 +12,17 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from shaftsys.analysis.results import BearingResult
-from shaftsys.bearings.engine import LoadSpectrum, evaluate_bearing, system_life
-from shaftsys.model import CaseKind, Model
+from shaftsys.analysis.results import (
+    LIMITING_SPEED,
+    MINIMUM_LOAD,
+    BearingResult,
+    OperatingCheck,
+    SystemLife,
+)
+from shaftsys.bearings.engine import LoadSpectrum, evaluate_bearing
+from shaftsys.bearings.static import MIN_LOAD_FRACTION_BALL, MIN_LOAD_FRACTION_ROLLER
+from shaftsys.bearings.system import system_life
+from shaftsys.model import CaseKind, CheckSettings, Model
 
 
 def spectrum_of(model: Model, result: BearingResult,
@@ -48,6 +56,45 @@ def _temperature(typed: float, case: str, temperatures: dict[str, float] | None)
     return value if math.isfinite(value) else typed
 
 
+def operating_checks(model: Model, b: BearingResult) -> tuple[OperatingCheck, ...]:
+    """The limiting-speed and minimum-load checks of an evaluated bearing over its
+    running (dynamic) cases, in the modes the model's ``checks:`` section sets.
+
+    Speed: largest running |n| against the maker's limiting speed (passes at n <= limit;
+    not evaluated without a limiting speed). Minimum load: smallest running equivalent
+    load P = X Fr + Y Fa against f*C with f = 0.01 ball, 0.02 roller (passes at
+    P >= f*C; common practice, no source). No running case: neither is evaluated.
+    """
+    life = b.life
+    if life is None:
+        return ()
+    bid = b.bearing.id
+    dyn = np.asarray(life.dynamic, dtype=bool)
+    speed_mode = model.checks.mode("speed", bid)
+    load_mode = model.checks.mode("min_load", bid)
+    if not np.any(dyn):
+        why = "no running case (no case enters the fatigue spectrum)"
+        return (OperatingCheck(LIMITING_SPEED, None, b.bearing.limiting_speed_rpm, None,
+                               None, speed_mode, why),
+                OperatingCheck(MINIMUM_LOAD, None, None, None, None, load_mode, why))
+    speeds = np.array([abs(ld.speed_rpm) for ld in b.loads], dtype=float)
+    k = int(np.argmax(np.where(dyn, speeds, -np.inf)))
+    n_max = float(speeds[k])
+    lim = b.bearing.limiting_speed_rpm
+    speed = (OperatingCheck(LIMITING_SPEED, n_max, None, None, life.case_ids[k], speed_mode,
+                            "no limiting speed given")
+             if lim is None else
+             OperatingCheck(LIMITING_SPEED, n_max, lim, n_max / lim, life.case_ids[k],
+                            speed_mode))
+    P = np.asarray(life.P_N, dtype=float)
+    j = int(np.argmin(np.where(dyn, P, np.inf)))
+    frac = MIN_LOAD_FRACTION_ROLLER if b.bearing.kind.is_roller else MIN_LOAD_FRACTION_BALL
+    p_min = frac * b.bearing.C_N
+    load = OperatingCheck(MINIMUM_LOAD, float(P[j]), p_min, float(P[j]) / p_min,
+                          life.case_ids[j], load_mode)
+    return speed, load
+
+
 @dataclass(frozen=True, eq=False)
 class Lives:
     """Every bearing's life verdict and the system lives of each shaft and the machine.
@@ -62,6 +109,8 @@ class Lives:
     shaft_system: dict[str, tuple[float | None, str | None]]
     system_life_h: float | None
     limiting_bearing: str | None
+    shaft_lives: dict[str, SystemLife] | None = None
+    machine: SystemLife | None = None
 
 
 def evaluate_lives(model: Model, bearings: tuple[BearingResult, ...],
@@ -69,32 +118,57 @@ def evaluate_lives(model: Model, bearings: tuple[BearingResult, ...],
     """Life verdict of every bearing from its solved loads, and the system lives.
 
     System life combines the bearings' lives at 90 % reliability on the verdict's basis
-    (basic L10 when the verdict uses a1*L10, aISO*L10 when it uses Lnm) and is stated
-    at the model's default target reliability. A support still open (no catalogue row
-    qualified) has no bearing to evaluate: its life stays ``None`` (not evaluated).
+    (basic L10 when the verdict uses a1*L10, aISO*L10 when it uses Lnm) with the Weibull
+    slopes of ``model.checks`` (Lundberg-Palmgren 10/9 ball, 9/8 roller by default); it
+    is stated at the model's target reliability (``system_life_h``) and, in
+    ``shaft_lives``/``machine``, also at 90 % with the target and the basis of its
+    verdict. Each bearing also gets its limiting-speed and minimum-load checks. A
+    support still open (no catalogue row qualified) has no bearing to evaluate: its
+    life stays ``None`` (not evaluated).
     ``temperatures``: case id -> operating temperature [degC] from the heat balance.
     """
     still_open = {o.bearing_id for o in model.open_seats}
-    done = tuple(b if b.bearing.id in still_open else
-                 replace(b, life=evaluate_bearing(b.bearing, spectrum_of(model, b, temperatures),
-                                                  model.life, model.lubrication))
-                 for b in bearings)
+    evaluated = tuple(
+        b if b.bearing.id in still_open else
+        replace(b, life=evaluate_bearing(b.bearing, spectrum_of(model, b, temperatures),
+                                         model.life, model.lubrication))
+        for b in bearings)
+    done = tuple(replace(b, operating=operating_checks(model, b)) for b in evaluated)
     per_shaft: dict[str, tuple[float | None, str | None]] = {}
+    shaft_lives: dict[str, SystemLife] = {}
     all_l90: list[float] = []
-    all_kinds: list[str] = []
+    all_slopes: list[float] = []
     all_ids: list[str] = []
+    cs = model.checks
     reliability = model.life.target_reliability
     for s in model.shafts:
         mine = [b for b in done if b.shaft_id == s.id]
         l90 = [_life90_h(b) for b in mine]
-        kinds = [b.bearing.kind.value for b in mine]
-        life_h, idx = _system(l90, kinds, reliability)
-        per_shaft[s.id] = (life_h, None if idx is None else mine[idx].bearing.id)
+        slopes = [cs.weibull_slope(b.bearing.kind.is_roller) for b in mine]
+        ids = [b.bearing.id for b in mine]
+        shaft_lives[s.id] = _system_life(l90, slopes, ids, reliability,
+                                         cs.shaft_target_h(s.id), cs)
+        life_h, idx = _system(l90, slopes, reliability)
+        per_shaft[s.id] = (life_h, None if idx is None else ids[idx])
         all_l90 += l90
-        all_kinds += kinds
-        all_ids += [b.bearing.id for b in mine]
-    life_h, idx = _system(all_l90, all_kinds, reliability)
-    return Lives(done, per_shaft, life_h, None if idx is None else all_ids[idx])
+        all_slopes += slopes
+        all_ids += ids
+    life_h, idx = _system(all_l90, all_slopes, reliability)
+    machine = _system_life(all_l90, all_slopes, all_ids, reliability,
+                           cs.system_life_target_h, cs)
+    return Lives(done, per_shaft, life_h, None if idx is None else all_ids[idx],
+                 shaft_lives, machine)
+
+
+def _system_life(l90: list[float], slopes: list[float], ids: list[str],
+                 reliability: float, target_h: float | None, cs: CheckSettings
+                 ) -> SystemLife:
+    """The system life of some bearings at the target reliability and at 90 %."""
+    at_target, idx = _system(l90, slopes, reliability)
+    at_90, _ = _system(l90, slopes, 0.9)
+    return SystemLife(at_target, at_90, reliability, cs.system_reliability, target_h,
+                      None if idx is None else ids[idx], cs.weibull_slope_ball,
+                      cs.weibull_slope_roller)
 
 
 def _life90_h(b: BearingResult) -> float:
@@ -108,10 +182,10 @@ def _life90_h(b: BearingResult) -> float:
     return float(b.life.Lnm_h / b.life.a1)
 
 
-def _system(lives: list[float], kinds: list[str], reliability: float
+def _system(lives: list[float], slopes: list[float], reliability: float
             ) -> tuple[float | None, int | None]:
     """System life [h] and the index of the limiting bearing; ``None`` when a bearing
-    was not evaluated (NaN life).
+    was not evaluated (NaN life). ``slopes``: the Weibull slope of each bearing.
     """
     if any(math.isnan(v) for v in lives):
         return None, None
@@ -119,7 +193,7 @@ def _system(lives: list[float], kinds: list[str], reliability: float
     if not finite:
         return math.inf, None
     life, idx = system_life(np.array([lives[i] for i in finite]),
-                            [kinds[i] for i in finite], reliability)
+                            np.array([slopes[i] for i in finite]), reliability)
     return float(life), (None if idx is None else finite[idx])
 
 

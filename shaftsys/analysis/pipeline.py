@@ -53,6 +53,7 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
     bearings = solved.bearings
     system_life_h: float | None = None
     limiting: str | None = None
+    machine_system = None
     thermal = evaluate_thermal(model, bearings)
     warnings = solved.warnings + (tuple(thermal_notes(thermal)) if thermal else ())
     # a case without a steady temperature leaves the lives unevaluated (not a pass)
@@ -61,14 +62,17 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
                                thermal.life_temperatures() if thermal else None)
         bearings = lives.bearings
         system_life_h, limiting = lives.system_life_h, lives.limiting_bearing
-        shafts = tuple(s.with_system_life(*lives.shaft_system[s.shaft.id]) for s in shafts)
+        machine_system = lives.machine
+        shaft_lives = lives.shaft_lives or {}
+        shafts = tuple(s.with_system_life(*lives.shaft_system[s.shaft.id],
+                                          shaft_lives.get(s.shaft.id)) for s in shafts)
     checks = check_shaft_results(model, shafts) if with_shaft_checks else None
     internal = internal_results(bearings) if with_life else None
     return Result(model=model, shafts=shafts, bearings=bearings,
                   system_life_h=system_life_h, limiting_bearing=limiting,
                   warnings=(*model.warnings, *warnings, *_rating_slips(model, bearings)),
                   checks=checks, flows=solved.flows, selection=selection, thermal=thermal,
-                  internal=internal or None)
+                  internal=internal or None, system=machine_system)
 
 
 def _rating_slips(model: Model, bearings: Any) -> list[str]:

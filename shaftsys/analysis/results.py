@@ -146,12 +146,15 @@ class ShaftResult:
     condition_estimate: float
     system_life_h: float | None = None
     limiting_bearing: str | None = None
+    system: SystemLife | None = None
 
-    def with_system_life(self, life_h: float | None, limiting: str | None) -> ShaftResult:
+    def with_system_life(self, life_h: float | None, limiting: str | None,
+                         system: SystemLife | None = None) -> ShaftResult:
         """The same shaft result with its bearings' system life [h] (built by the
         pipeline before the :class:`Result`).
         """
-        return replace(self, system_life_h=life_h, limiting_bearing=limiting)
+        return replace(self, system_life_h=life_h, limiting_bearing=limiting,
+                       system=system)
 
     def case(self, case_id: str) -> CaseSolution:
         """The solution of one case."""
@@ -161,26 +164,164 @@ class ShaftResult:
         raise KeyError(case_id)
 
 
+#: The operating checks of a bearing (names in the JSON ``check`` key).
+LIMITING_SPEED = "limiting_speed"
+MINIMUM_LOAD = "minimum_load"
+
+
+@dataclass(frozen=True)
+class OperatingCheck:
+    """The limiting-speed or minimum-load check of one bearing over its running cases.
+
+    Attributes
+    ----------
+    check: :data:`LIMITING_SPEED` or :data:`MINIMUM_LOAD`.
+    value: largest running |n| [rpm], or smallest running equivalent load P [N].
+    limit: the bearing's limiting speed [rpm], or the minimum load f*C [N] (f = 0.01
+        ball, 0.02 roller; common practice, no source); ``None`` when unknown.
+    ratio: value/limit (speed: passes at <= 1) or value/limit (load: passes at >= 1).
+    case: the case of ``value``, or ``None``.
+    mode: ``required`` (decides the support's verdict) or ``advisory``.
+    reason: why the check was not evaluated (no limiting speed, no running case), or
+        ``None``.
+    """
+
+    check: str
+    value: float | None
+    limit: float | None
+    ratio: float | None
+    case: str | None
+    mode: str
+    reason: str | None = None
+
+    @property
+    def verdict(self) -> str:
+        """``pass``, ``fail`` or ``not evaluated`` (see :attr:`reason`)."""
+        if self.reason is not None or self.ratio is None:
+            return NOT_EVALUATED
+        passed = self.ratio <= 1.0 if self.check == LIMITING_SPEED else self.ratio >= 1.0
+        return PASS if passed else FAIL
+
+    @property
+    def counts(self) -> bool:
+        """The check decides the support's verdict: required and evaluated (a bearing
+        without a limiting speed, or without a running case, is not judged by it).
+        """
+        return self.mode == "required" and self.reason is None
+
+    @property
+    def unit(self) -> str:
+        """Unit of ``value`` and ``limit``."""
+        return "rpm" if self.check == LIMITING_SPEED else "N"
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready values (units in the keys)."""
+        u = self.unit
+        return {"check": self.check, "case": self.case, f"value_{u}": self.value,
+                f"limit_{u}": self.limit, "ratio": self.ratio, "mode": self.mode,
+                "counts": self.counts, "reason": self.reason,
+                "ok": self.verdict == PASS, "verdict": self.verdict}
+
+
 @dataclass(frozen=True, eq=False)
 class BearingResult:
-    """One support: its loads in every case and its life verdict."""
+    """One support: its loads in every case, its life verdict and its operating checks
+    (limiting speed, minimum load).
+    """
 
     shaft_id: str
     bearing: Bearing
     loads: tuple[BearingCaseLoad, ...]
     life: BearingLife | None = None
+    operating: tuple[OperatingCheck, ...] = ()
 
     @property
     def verdict(self) -> str:
-        """``"pass"``, ``"fail"`` or ``"not evaluated"`` (no life was computed)."""
+        """``"pass"``, ``"fail"`` (life, static safety, or a required operating check
+        failed) or ``"not evaluated"`` (no life was computed).
+        """
         if self.life is None:
             return NOT_EVALUATED
-        return PASS if self.life.ok else FAIL
+        if not self.life.ok:
+            return FAIL
+        return FAIL if any(c.counts and c.verdict == FAIL for c in self.operating) else PASS
 
     @property
     def ok(self) -> bool:
-        """The support was evaluated and meets its targets (life and static safety)."""
+        """The support was evaluated and meets its targets (life, static safety and the
+        required operating checks).
+        """
         return self.verdict == PASS
+
+    def operating_check(self, check: str) -> OperatingCheck | None:
+        """The operating check named ``check``, or ``None``."""
+        return next((c for c in self.operating if c.check == check), None)
+
+
+@dataclass(frozen=True)
+class SystemLife:
+    """The system life of a group of bearings (a shaft's, or the machine's).
+
+    Attributes
+    ----------
+    life_target_reliability_h: at the model's target reliability [h] (``inf`` when no
+        bearing wears, ``None`` when a bearing was not evaluated).
+    life_90_h: at 90 % reliability [h].
+    target_reliability: the model's target reliability [-].
+    stated_at: ``target`` or ``90_percent``: which of the two the verdict uses.
+    target_h: the target [h], or ``None`` (then information, no verdict).
+    limiting_bearing: the bearing with the largest share of the failure probability.
+    weibull_slope_ball, weibull_slope_roller: the slopes used [-].
+    """
+
+    life_target_reliability_h: float | None
+    life_90_h: float | None
+    target_reliability: float
+    stated_at: str
+    target_h: float | None
+    limiting_bearing: str | None
+    weibull_slope_ball: float
+    weibull_slope_roller: float
+
+    @property
+    def life_h(self) -> float | None:
+        """The life the verdict compares with the target [h]."""
+        return self.life_90_h if self.stated_at == "90_percent" \
+            else self.life_target_reliability_h
+
+    @property
+    def reliability(self) -> float:
+        """The reliability at which :attr:`life_h` is stated [-]."""
+        return 0.9 if self.stated_at == "90_percent" else self.target_reliability
+
+    @property
+    def verdict(self) -> str | None:
+        """``pass``/``fail`` against the target, ``not evaluated`` when a bearing was
+        not, ``None`` when no target is set (information only).
+        """
+        if self.target_h is None:
+            return None
+        if self.life_h is None:
+            return NOT_EVALUATED
+        return PASS if self.life_h >= self.target_h else FAIL
+
+    def to_dict(self) -> dict[str, Any]:
+        """The keys added to a JSON ``system`` entry (units in the keys)."""
+        out: dict[str, Any] = {
+            "life_target_reliability_h": self.life_target_reliability_h,
+            "life_90_percent_h": self.life_90_h,
+            "target_reliability": self.target_reliability,
+            "stated_at": self.stated_at,
+            "stated_reliability": self.reliability,
+            "verdict_life_h": self.life_h,
+            "target_h": self.target_h,
+            "weibull_slope_ball": self.weibull_slope_ball,
+            "weibull_slope_roller": self.weibull_slope_roller,
+        }
+        if self.verdict is not None:
+            out["ok"] = self.verdict == PASS
+            out["verdict"] = self.verdict
+        return out
 
 
 @dataclass(frozen=True, eq=False)
@@ -201,14 +342,25 @@ class Result:
     #: the reduction of the model's recording (``recording:``) that made its duty cases,
     #: an ``analysis.duty.DutyReduction`` (typed Any: that module builds on this one)
     duty_reduction: Any = None
+    system: SystemLife | None = None
+
+    def system_lives(self) -> list[tuple[str, SystemLife]]:
+        """(label, system life) of every shaft and of the machine that has one."""
+        out = [(f"shaft '{s.shaft.id}'", s.system) for s in self.shafts
+               if s.system is not None]
+        if self.system is not None:
+            out.append(("the machine", self.system))
+        return out
 
     @property
     def verdict(self) -> str:
         """``"pass"`` only when every bearing and every shaft check was evaluated and
         passed; ``"fail"`` when one was evaluated and failed; else ``"not evaluated"``.
-        The heat balance's checks (when the model has heat-balance data) count too.
+        The heat balance's checks (when the model has heat-balance data) and the system
+        lives that have a target count too.
         """
         parts = [b.verdict for b in self.bearings]
+        parts += [v for _, sl in self.system_lives() if (v := sl.verdict) is not None]
         if self.thermal is not None:
             parts.append(self.thermal.verdict)
         parts.append(NOT_EVALUATED if self.checks is None else
@@ -236,6 +388,12 @@ class Result:
                 out.append(f"life of bearing '{b.bearing.id}'")
             if not b.life.static_ok:
                 out.append(f"static safety of bearing '{b.bearing.id}'")
+            for c in b.operating:
+                if c.counts and c.verdict == FAIL:
+                    out.append(f"{c.check.replace('_', ' ')} of bearing '{b.bearing.id}'")
+        for label, sl in self.system_lives():
+            if sl.verdict == FAIL:
+                out.append(f"system life of {label}")
         if self.thermal is not None and self.thermal.verdict == FAIL:
             out.append("heat balance (operating temperature)")
         if self.checks is not None:
@@ -253,7 +411,16 @@ class Result:
             out.append("shaft checks")
         else:
             out.extend(self.checks.not_evaluated)
+        out += [f"system life of {label} (a bearing of it was not evaluated)"
+                for label, sl in self.system_lives() if sl.verdict == NOT_EVALUATED]
         return tuple(out)
+
+    @property
+    def advisory_failed(self) -> tuple[str, ...]:
+        """Advisory checks that fail (shown with their numbers, not deciding the run)."""
+        return tuple(f"{c.check.replace('_', ' ')} of bearing '{b.bearing.id}' (advisory)"
+                     for b in self.bearings for c in b.operating
+                     if c.mode == "advisory" and c.verdict == FAIL)
 
     def bearing(self, bearing_id: str) -> BearingResult:
         """The result of one bearing."""

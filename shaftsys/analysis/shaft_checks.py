@@ -82,6 +82,7 @@ from shaftsys.analysis.check_results import (
 from shaftsys.analysis.results import CaseSolution, Result, ShaftResult
 from shaftsys.analysis.solve import mesh_shaft
 from shaftsys.checks import (
+    SPUR_GEAR_SLOPE_LIMIT_RAD,
     Feature,
     LoadClasses,
     SectionCaseLoads,
@@ -132,7 +133,8 @@ _SEAT_TYPES = (Gear, BevelGear, Pulley, Sprocket, Coupling, LumpedMass)
 __all__ = ["DEFAULT_CRITICAL_SPEED_MARGIN", "DEFAULT_GEAR_DEFLECTION_LIMIT_MM",
            "DEFAULT_REQUIRED_FATIGUE_SAFETY", "DEFAULT_REQUIRED_YIELD_SAFETY",
            "CaseDeflection", "DeflectionCheck", "SectionCheck", "ShaftCheck", "ShaftCheckSettings",
-           "ShaftChecks", "check_shaft_results", "check_shafts", "critical_speeds_rpm"]
+           "ShaftChecks", "check_shaft_results", "check_shafts", "critical_speeds_rpm",
+           "gear_limits", "settings_from_model"]
 
 
 # ----------------------------------------------------------------------------- entry
@@ -144,7 +146,8 @@ def check_shafts(result: Result, settings: ShaftCheckSettings | None = None) -> 
     result:
         A solved model (:func:`shaftsys.analysis.analyse`).
     settings:
-        Options; ``None`` = defaults.
+        Options; ``None`` = the model's ``checks:`` settings
+        (:func:`settings_from_model`).
 
     Returns
     -------
@@ -165,7 +168,7 @@ def check_shaft_results(model: Model, solved: tuple[ShaftResult, ...],
     """:func:`check_shafts` of solved shafts (what the pipeline calls before the
     :class:`~shaftsys.analysis.results.Result` exists).
     """
-    st = settings or ShaftCheckSettings()
+    st = settings or settings_from_model(model)
     known = {b.id for _, b in model.bearings()}
     unknown = sorted(set(st.bearing_slope_limits_rad) - known)
     if unknown:
@@ -186,14 +189,47 @@ def _node_index(sol: CaseSolution, x_mm: float) -> int:
     return int(np.argmin(np.abs(sol.node_x_mm - x_mm)))
 
 
+def settings_from_model(model: Model) -> ShaftCheckSettings:
+    """The shaft-check settings the model file's ``checks:`` section gives
+    (:class:`~shaftsys.model.CheckSettings`; defaults where it is silent).
+    """
+    c = model.checks
+    return ShaftCheckSettings(
+        bearing_slope_limits_rad={k: v.slope_rad for k, v in c.bearings.items()
+                                  if v.slope_rad is not None},
+        bearing_type_slope_limits_rad=dict(c.bearing_slope_by_type),
+        gear_slope_limit_rad=(c.gear_slope_rad if c.gear_slope_rad is not None
+                              else SPUR_GEAR_SLOPE_LIMIT_RAD),
+        gear_slope_limits_rad={k: v.slope_rad for k, v in c.gears.items()
+                               if v.slope_rad is not None},
+        gear_slope_from_model=c.gear_slope_rad is not None,
+        gear_deflection_limit_mm=c.gear_deflection_mm,
+        gear_deflection_per_module=c.gear_deflection_per_module,
+        gear_deflection_limits_mm={k: v.deflection_mm for k, v in c.gears.items()
+                                   if v.deflection_mm is not None},
+        gear_deflection_per_module_by_gear={
+            k: v.deflection_per_module for k, v in c.gears.items()
+            if v.deflection_per_module is not None},
+        criterion=c.fatigue_criterion,
+        required_fatigue_safety=c.fatigue_safety,
+        required_yield_safety=c.yield_safety,
+    )
+
+
 def _bearing_checks(sr: ShaftResult, st: ShaftCheckSettings) -> list[DeflectionCheck]:
     out = []
     for b in sr.shaft.bearings:
         if b.id in st.bearing_slope_limits_rad:
             v = float(st.bearing_slope_limits_rad[b.id])
             lim = SlopeLimit(v, v, "user setting")
+            rule = f"checks.bearings.{b.id}.slope"
+        elif b.kind.value in st.bearing_type_slope_limits_rad:
+            v = float(st.bearing_type_slope_limits_rad[b.kind.value])
+            lim = SlopeLimit(v, v, "user setting")
+            rule = f"checks.bearing_slope.{b.kind.value}"
         else:
             lim = bearing_slope_limit(b.kind)
+            rule = f"default for {b.kind.value.replace('_', ' ')} bearings"
         cases = []
         for sol in sr.cases:
             i = _node_index(sol, b.support_x_mm)
@@ -203,8 +239,55 @@ def _bearing_checks(sr: ShaftResult, st: ShaftCheckSettings) -> list[DeflectionC
         ok = all(c.status != "exceeded" for c in cases)
         out.append(DeflectionCheck(b.id, sr.shaft.id, "bearing", b.support_x_mm,
                                    lim.high_rad, lim.low_rad, None, lim.source,
-                                   tuple(cases), ok))
+                                   tuple(cases), ok, slope_rule=rule))
     return out
+
+
+def gear_limits(el: Gear | BevelGear, st: ShaftCheckSettings
+                ) -> tuple[float, str, float, str, str]:
+    """Slope limit [rad], its rule, deflection limit [mm], its rule and the source text
+    of one gear, in the order: the gear's own setting, the model-wide setting, the
+    default (slope 0.0005 rad and Shigley's deflection table by the diametral pitch
+    P = 25.4/m, Table 7-2, from memory; 0.13 mm without a module, common practice).
+    A fraction of the module on a gear without one falls back to that default.
+    """
+    module = el.normal_module_mm if isinstance(el, Gear) else None
+    if el.id in st.gear_slope_limits_rad:
+        slim, srule = float(st.gear_slope_limits_rad[el.id]), f"checks.gears.{el.id}.slope"
+    elif st.gear_slope_from_model:
+        slim, srule = st.gear_slope_limit_rad, "checks.gear_slope"
+    elif st.gear_slope_limit_rad == SPUR_GEAR_SLOPE_LIMIT_RAD:
+        slim, srule = st.gear_slope_limit_rad, "default 0.0005 rad (uncrowned spur gear)"
+    else:
+        slim, srule = st.gear_slope_limit_rad, "settings: gear_slope_limit_rad"
+    fraction = st.gear_deflection_per_module_by_gear.get(el.id)
+    frac_key = f"checks.gears.{el.id}.deflection_per_module"
+    if fraction is None and el.id not in st.gear_deflection_limits_mm:
+        fraction, frac_key = st.gear_deflection_per_module, "checks.gear_deflection_per_module"
+    if el.id in st.gear_deflection_limits_mm:
+        dlim = float(st.gear_deflection_limits_mm[el.id])
+        drule = f"checks.gears.{el.id}.deflection"
+    elif fraction is not None and module is not None:
+        dlim = fraction * module
+        drule = f"{frac_key}: {fraction:g} x normal module {module:g} mm"
+    elif st.gear_deflection_limit_mm is not None and fraction is None:
+        dlim, drule = st.gear_deflection_limit_mm, "checks.gear_deflection"
+    elif module is not None:
+        dlim = gear_deflection_limit_mm(module)
+        drule = (f"default by diametral pitch P = 25.4/m = {25.4 / module:.3g} 1/in "
+                 "(Shigley 9th ed. Table 7-2)")
+    else:
+        dlim = st.default_gear_deflection_limit_mm
+        drule = (f"default {dlim:g} mm (no module given" +
+                 (", so no fraction of it" if fraction is not None else "") + f"; {_CP})")
+    user = srule.startswith("checks") or drule.startswith("checks")
+    if user:
+        src = "model file (checks)"
+    elif module is not None:
+        src = "Shigley 9th ed. Table 7-2, module-based deflection"
+    else:
+        src = f"slope: Shigley 9th ed. Table 7-2; deflection: {_CP}"
+    return slim, srule, dlim, drule, src
 
 
 def _gear_checks(sr: ShaftResult, st: ShaftCheckSettings) -> list[DeflectionCheck]:
@@ -212,13 +295,7 @@ def _gear_checks(sr: ShaftResult, st: ShaftCheckSettings) -> list[DeflectionChec
     for el in sr.shaft.elements:
         if not isinstance(el, Gear | BevelGear):
             continue
-        if isinstance(el, Gear) and el.normal_module_mm is not None:
-            dlim = gear_deflection_limit_mm(el.normal_module_mm)
-            src = "Shigley 9th ed. Table 7-2, module-based deflection"
-        else:
-            dlim = st.default_gear_deflection_limit_mm
-            src = f"slope: Shigley 9th ed. Table 7-2; deflection: {_CP}"
-        slim = st.gear_slope_limit_rad
+        slim, srule, dlim, drule, src = gear_limits(el, st)
         cases = []
         for sol in sr.cases:
             i = _node_index(sol, el.x_mm)
@@ -228,7 +305,8 @@ def _gear_checks(sr: ShaftResult, st: ShaftCheckSettings) -> list[DeflectionChec
             cases.append(CaseDeflection(sol.case, d, s, status))
         ok = all(c.status == "ok" for c in cases)
         out.append(DeflectionCheck(el.id, sr.shaft.id, "gear", el.x_mm, slim, slim, dlim,
-                                   src, tuple(cases), ok))
+                                   src, tuple(cases), ok, slope_rule=srule,
+                                   deflection_rule=drule))
     return out
 
 

@@ -151,7 +151,10 @@ class BearingLife:
     ``reliability``, ``reliability_method``, ``life_basis``, ``target_h``,
     ``C_required_N``, ``margin`` (C/C_req), ``life_ratio`` (margin^p = Lnm_h/target_h),
     ``s0``, ``s0_min``, ``s0_case``, ``cycles_of_duty``, ``warnings``, ``f0_estimated``,
-    ``Cu_N``, ``Cu_estimated``, ``application_factor``, ``life_ok``, ``static_ok``, ``ok``.
+    ``Cu_N``, ``Cu_estimated``, ``application_factor``, ``life_ok``, ``static_ok``, ``ok``,
+    ``speed_ratio`` (largest running |n| / limiting speed, NaN without one or without a
+    running case), ``min_load_ratio`` (smallest running P / (0.01 C ball, 0.02 C
+    roller), NaN without a running case; common practice, no source).
     """
 
     bearing_id: str
@@ -205,6 +208,8 @@ class BearingLife:
     #: entry; NaN elsewhere), ``ec_Cu_over_P`` (the aISO argument; NaN without it),
     #: ``damage_fraction`` (share of the spectrum's Palmgren-Miner damage; NaN static)
     case_terms: Mapping[str, FloatArray] = field(default_factory=dict)
+    speed_ratio: float = math.nan
+    min_load_ratio: float = math.nan
 
     def to_dict(self) -> dict[str, Any]:
         """JSON-ready plain types; non-finite numbers (inf, nan) become ``None``."""
@@ -265,6 +270,8 @@ class BearingLife:
             "life_ok": self.life_ok,
             "static_ok": self.static_ok,
             "ok": self.ok,
+            "speed_ratio": _num(self.speed_ratio),
+            "min_load_ratio": _num(self.min_load_ratio),
             "static_only_cases": [{"case": c, "reason": r} for c, r in self.static_only_cases],
             "warnings": list(self.warnings),
             "cases": cases,
@@ -430,6 +437,8 @@ def evaluate_bearing(
         static_ok=static_ok,
         ok=life_ok and static_ok,
         case_terms=_case_terms(bearing, sp, la),
+        speed_ratio=num(np.broadcast_to(la.speed_ratio, (1,))),
+        min_load_ratio=num(np.broadcast_to(la.min_load_ratio, (1,))),
     )
 
 

@@ -6,6 +6,7 @@ core receives only checked, converted, frozen values.
 
 from __future__ import annotations
 
+import difflib
 import hashlib
 import itertools
 import math
@@ -53,6 +54,7 @@ from shaftsys.model import (
     Unbalance,
 )
 from shaftsys.model.catalogue import Catalogue
+from shaftsys.model.checks import BearingCheckOverride, CheckSettings, GearCheckOverride
 from shaftsys.model.interior_rules import INTERIOR_KINDS, estimate_interior, interior_problems
 from shaftsys.model.selection import Objective, OpenSeat, SelectionSettings
 
@@ -139,6 +141,8 @@ def _build_model(raw: LocatedDict, file: str | None, top: Where) -> Model:
     solver = _read_solver(top, raw.get("solver"))
     checks = (read_section(top, raw["checks"], S.CHECKS, "checks")
               if raw.get("checks") is not None else {"fatigue": "required"})
+    check_settings = (_read_checks(top.child("checks", raw["checks"]), checks, shafts)
+                      if raw.get("checks") is not None else CheckSettings())
     gravity = values["gravity"] if values["gravity"] is not None else (0.0, -9.80665, 0.0)
     links = _read_links(Where(file, "links", values["links"]), values["links"], shafts)
     cases, in_hours = _read_cases(Where(file, "cases", values["cases"]), values["cases"],
@@ -160,6 +164,7 @@ def _build_model(raw: LocatedDict, file: str | None, top: Where) -> Model:
         open_seats=tuple(seats.found),
         selection=selection,
         fatigue_required=checks["fatigue"] == "required",
+        checks=check_settings,
         thermal=read_thermal(top, raw.get("thermal"), lubrication,
                              {b.id for s in shafts for b in s.bearings}),
     )
@@ -189,6 +194,80 @@ def _build_model(raw: LocatedDict, file: str | None, top: Where) -> Model:
             raise locate_error(exc, model) from None
     _check_mesh_size(top, raw, shafts, solver)
     return model
+
+
+def _read_checks(where: Where, values: dict[str, Any], shafts: list[Shaft]
+                 ) -> CheckSettings:
+    """The ``checks:`` section (already read against ``S.CHECKS``) as
+    :class:`CheckSettings`: nested sections read, every id checked against the model.
+    """
+    bearing_ids = [b.id for s in shafts for b in s.bearings]
+    gear_ids = [e.id for s in shafts for e in s.elements if isinstance(e, Gear | BevelGear)]
+    shaft_ids = [s.id for s in shafts]
+    by_type: dict[str, float] = {}
+    if values["bearing_slope"] is not None:
+        slopes = read_section(where, values["bearing_slope"], S.CHECKS_BEARING_SLOPE,
+                              "bearing_slope")
+        by_type = {k: v for k, v in slopes.items() if v is not None}
+    if values["gear_deflection"] is not None and values["gear_deflection_per_module"] \
+            is not None:
+        raise where.error("gear_deflection_per_module", "both 'gear_deflection' and "
+                          "'gear_deflection_per_module' are given",
+                          "one of them (a value, or a fraction of the module)")
+
+    def per_id(key: str, known: list[str], what: str, fields: dict[str, S.Field]
+               ) -> dict[str, dict[str, Any]]:
+        raw = values[key]
+        if raw is None:
+            return {}
+        here = where.child(key, raw)
+        out: dict[str, dict[str, Any]] = {}
+        for ident, item in raw.items():
+            if str(ident) not in known:
+                close = difflib.get_close_matches(str(ident)[:S.MAX_TEXT], known, n=1,
+                                                  cutoff=0.6)
+                hint = f"; did you mean '{close[0]}'?" if close else ""
+                shown = ident if len(str(ident)) <= 40 else str(ident)[:40] + "..."
+                raise here.error(ident, f"'{shown}' is not a {what} of the model{hint}",
+                                 f"one of the {what} ids: " + (", ".join(known) or "none"))
+            out[str(ident)] = read_section(here, item, fields, ident)
+        return out
+
+    bearings = {k: BearingCheckOverride(v["slope"], v["speed"], v["min_load"])
+                for k, v in per_id("bearings", bearing_ids, "bearing",
+                                   S.CHECKS_BEARING).items()}
+    gear_values = per_id("gears", gear_ids, "gear", S.CHECKS_GEAR)
+    modules = {e.id: e.normal_module_mm for s in shafts for e in s.elements
+               if isinstance(e, Gear)}
+    for gid, v in gear_values.items():
+        here = where.child("gears", values["gears"]).child(gid, values["gears"][gid])
+        if v["deflection"] is not None and v["deflection_per_module"] is not None:
+            raise here.error("deflection_per_module", "both 'deflection' and "
+                             "'deflection_per_module' are given",
+                             "one of them (a value, or a fraction of the module)")
+        if v["deflection_per_module"] is not None and modules.get(gid) is None:
+            raise here.error("deflection_per_module", f"gear '{gid}' has no module to take "
+                             "a fraction of", f"a 'module' on gear '{gid}', or "
+                             "'deflection' (a length)")
+    gears = {k: GearCheckOverride(v["slope"], v["deflection"], v["deflection_per_module"])
+             for k, v in gear_values.items()}
+    shaft_targets = {k: v["system_life_target"]
+                     for k, v in per_id("shafts", shaft_ids, "shaft", S.CHECKS_SHAFT).items()
+                     if v["system_life_target"] is not None}
+    sl = (read_section(where, values["system_life"], S.CHECKS_SYSTEM_LIFE, "system_life")
+          if values["system_life"] is not None
+          else {k: f.default for k, f in S.CHECKS_SYSTEM_LIFE.items()})
+    return CheckSettings(
+        bearing_slope_by_type=by_type, bearings=bearings,
+        gear_slope_rad=values["gear_slope"], gear_deflection_mm=values["gear_deflection"],
+        gear_deflection_per_module=values["gear_deflection_per_module"], gears=gears,
+        fatigue_safety=values["fatigue_safety"], yield_safety=values["yield_safety"],
+        fatigue_criterion=values["fatigue_criterion"], speed=values["speed"],
+        min_load=values["min_load"], system_life_target_h=sl["target"],
+        shaft_system_life_target_h=sl["shaft_target"], shaft_targets_h=shaft_targets,
+        weibull_slope_ball=sl["weibull_slope_ball"],
+        weibull_slope_roller=sl["weibull_slope_roller"],
+        system_reliability=sl["reliability"])
 
 
 def _check_mesh_size(top: Where, raw: LocatedDict, shafts: list[Shaft],

@@ -38,7 +38,9 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         "not_evaluated": list(result.not_evaluated),
         "failed_checks": list(result.failed_checks),
         "marginal": list(result.checks.marginal) if result.checks is not None else [],
-        "checks_required": {"fatigue": model.fatigue_required},
+        "checks_required": {"fatigue": model.fatigue_required,
+                            "speed": model.checks.speed == "required",
+                            "min_load": model.checks.min_load == "required"},
         "warnings": list(result.warnings),
     }
     for s in result.shafts:
@@ -56,7 +58,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
                  "residual_relative": max(c.residual_relative, c.nodal_residual_relative)}
                 for c in s.cases
             ],
-            "system": {"life_h": s.system_life_h, "limiting_bearing": s.limiting_bearing},
+            "system": {"life_h": s.system_life_h, "limiting_bearing": s.limiting_bearing,
+                       **(s.system.to_dict() if s.system is not None else {})},
             "elements": _element_forces(s),
         }
         if checks is not None:
@@ -92,6 +95,8 @@ def result_to_dict(result: Result) -> dict[str, Any]:
             item["thermal"] = result.thermal.bearing_cases(br.id)
         if result.internal is not None and br.id in result.internal:
             item["internal"] = result.internal[br.id]
+        if b.operating:
+            item["operating"] = [c.to_dict() for c in b.operating]
         item["ok"] = b.ok
         item["verdict"] = b.verdict
         if result.selection is not None and br.id in seat_ids:
@@ -114,7 +119,9 @@ def result_to_dict(result: Result) -> dict[str, Any]:
 
         data["duty_reduction"] = reduction_dict(result.duty_reduction)
     data["system"] = {"life_h": result.system_life_h,
-                      "limiting_bearing": result.limiting_bearing}
+                      "limiting_bearing": result.limiting_bearing,
+                      **(result.system.to_dict() if result.system is not None else {})}
+    data["advisory_failed"] = list(result.advisory_failed)
     for entry, life_h in [(e["system"], s.system_life_h)
                           for e, s in zip(data["shafts"], result.shafts, strict=True)] + [
             (data["system"], result.system_life_h)]:

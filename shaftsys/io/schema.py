@@ -46,6 +46,9 @@ def _field(f: S.Field) -> dict[str, Any]:
                "description": f.doc}
     elif f.kind == "map":
         out = {"$ref": f"#/$defs/{f.of}", "description": f.doc}
+    elif f.kind == "idmap":
+        out = {"type": "object", "additionalProperties": {"$ref": f"#/$defs/{f.of}"},
+               "description": f.doc}
     elif f.kind == "list":
         out = {"type": "array", "items": {"$ref": f"#/$defs/{f.of}"}, "description": f.doc}
     else:
@@ -57,7 +60,7 @@ def _field(f: S.Field) -> dict[str, Any]:
         out.update(bounds)
     if f.kind == "list" and f.max_items is not None:
         out["maxItems"] = f.max_items
-    if f.default is not None and f.kind not in {"list", "map"}:
+    if f.default is not None and f.kind not in {"list", "map", "idmap"}:
         out["default"] = list(f.default) if isinstance(f.default, tuple) else f.default
     return out
 

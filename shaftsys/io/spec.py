@@ -26,6 +26,13 @@ from shaftsys.io.quantities import (
     to_internal,
 )
 from shaftsys.io.yamlsource import LocatedDict, LocatedList
+from shaftsys.model.checks import (
+    CHECK_MODES,
+    FATIGUE_CRITERIA,
+    SYSTEM_RELIABILITY_CHOICES,
+    WEIBULL_SLOPE_BALL,
+    WEIBULL_SLOPE_ROLLER,
+)
 from shaftsys.model.selection import Objective, SelectionSettings
 
 
@@ -37,7 +44,7 @@ class Field:
     ``choice`` (with ``choices``), ``choices`` (a non-empty list of distinct values from
     ``choices``), ``quantities`` (a non-empty list of quantities of ``dim``), ``vector``
     (three quantities of ``dim``), ``list`` (of mappings ``of``), ``map`` (mapping
-    ``of``), ``any``.
+    ``of``), ``idmap`` (a mapping of ids, each to a mapping ``of``), ``any``.
     """
 
     kind: str
@@ -489,11 +496,87 @@ SOLVER = {
     "shaft_weight": F("bool", "include the shaft's own weight", default=True),
 }
 
+#: Largest slope limit a model file may set [rad] (about 29 deg: beyond it the beam
+#: model's small-slope assumption is meaningless; common practice, no source).
+MAX_SLOPE_LIMIT_RAD = 0.5
+
 CHECKS = {
     "fatigue": F("choice", "fatigue and first-cycle yield of the shafts (needs Su and Sy "
                  "of every shaft material): required, or not_required (then a shaft "
                  "without Su, Sy is reported as not evaluated but does not fail the run)",
                  default="required", choices=("required", "not_required")),
+    "fatigue_criterion": F("choice", "fatigue criterion on the von Mises stresses: "
+                           "goodman (DE-Goodman), asme_elliptic (DE-ASME elliptic), "
+                           "gerber (DE-Gerber)", default="goodman",
+                           choices=FATIGUE_CRITERIA),
+    "fatigue_safety": F("number", "required fatigue safety factor of every shaft section",
+                        default=1.5, positive=True, maximum=100.0),
+    "yield_safety": F("number", "required first-cycle yield safety factor of every shaft "
+                      "section", default=1.2, positive=True, maximum=100.0),
+    "bearing_slope": F("map", "allowable slope [rad] at bearings by type, replacing the "
+                       "type's typical range", of="checks_bearing_slope"),
+    "gear_slope": F("number", "allowable slope at every gear [rad] (default 0.0005 rad, "
+                    "uncrowned spur gears)", positive=True, maximum=MAX_SLOPE_LIMIT_RAD),
+    "gear_deflection": F("quantity", "allowable deflection at every gear (default: by the "
+                         "module, or 'gear_deflection_per_module')", dim="length",
+                         positive=True, maximum=MAX_DIAMETER_MM),
+    "gear_deflection_per_module": F("number", "allowable deflection at every gear as this "
+                                    "fraction of its normal module (instead of "
+                                    "'gear_deflection')", positive=True, maximum=10.0),
+    "speed": F("choice", "limiting-speed check of the bearings: required (a running case "
+               "above a bearing's limiting speed fails the support) or advisory",
+               default="required", choices=CHECK_MODES),
+    "min_load": F("choice", "minimum-load check of the bearings (P >= 0.01 C ball, 0.02 C "
+                  "roller in every running case): required or advisory",
+                  default="required", choices=CHECK_MODES),
+    "system_life": F("map", "targets and basis of the system lives (the bearings of a "
+                     "shaft, of the machine, surviving together)", of="checks_system_life"),
+    "bearings": F("idmap", "bearing id -> settings of that bearing's checks",
+                  of="checks_bearing"),
+    "gears": F("idmap", "gear id -> limits at that gear", of="checks_gear"),
+    "shafts": F("idmap", "shaft id -> targets of that shaft", of="checks_shaft"),
+}
+
+#: ``checks.bearing_slope``: one allowable slope [rad] per bearing type.
+CHECKS_BEARING_SLOPE = {
+    t: F("number", f"allowable slope at a {t.replace('_', ' ')} bearing [rad]",
+         positive=True, maximum=MAX_SLOPE_LIMIT_RAD) for t in BEARING_TYPES
+}
+
+CHECKS_BEARING = {
+    "slope": F("number", "allowable slope at this bearing [rad]", positive=True,
+               maximum=MAX_SLOPE_LIMIT_RAD),
+    "speed": F("choice", "limiting-speed check of this bearing", choices=CHECK_MODES),
+    "min_load": F("choice", "minimum-load check of this bearing", choices=CHECK_MODES),
+}
+
+CHECKS_GEAR = {
+    "slope": F("number", "allowable slope at this gear [rad]", positive=True,
+               maximum=MAX_SLOPE_LIMIT_RAD),
+    "deflection": F("quantity", "allowable deflection at this gear", dim="length",
+                    positive=True, maximum=MAX_DIAMETER_MM),
+    "deflection_per_module": F("number", "allowable deflection at this gear as a fraction "
+                               "of its normal module", positive=True, maximum=10.0),
+}
+
+CHECKS_SHAFT = {
+    "system_life_target": F("quantity", "target of this shaft's system life", dim="time",
+                            positive=True),
+}
+
+CHECKS_SYSTEM_LIFE = {
+    "target": F("quantity", "target of the machine's system life (without it the system "
+                "life is information only)", dim="time", positive=True),
+    "shaft_target": F("quantity", "target of every shaft's system life (per shaft: "
+                      "checks.shafts.<id>.system_life_target)", dim="time", positive=True),
+    "reliability": F("choice", "system life stated at the target reliability "
+                     "(life.reliability) or at 90 %", default="target",
+                     choices=SYSTEM_RELIABILITY_CHOICES),
+    "weibull_slope_ball": F("number", "Weibull slope of ball bearings in the system life",
+                            default=WEIBULL_SLOPE_BALL, above=0.0, maximum=10.0),
+    "weibull_slope_roller": F("number", "Weibull slope of roller bearings in the system "
+                              "life", default=WEIBULL_SLOPE_ROLLER, above=0.0,
+                              maximum=10.0),
 }
 
 MODEL = {
@@ -509,8 +592,9 @@ MODEL = {
                max_items=MAX_SHAFTS),
     "cases": F("list", "the operating cases", required=True, of="case",
                max_items=MAX_CASES),
-    "checks": F("map", "which shaft checks are required (a required check that cannot be "
-                "evaluated fails the run)", of="checks"),
+    "checks": F("map", "limits and targets of the checks, and which are required (a "
+                "required check that fails or cannot be evaluated fails the run)",
+                of="checks"),
     "units": F("any", "default units of bare numbers: 'internal' (N, mm, N*mm, MPa, rpm, W, "
                "h, mm^2/s, degC, deg, kg...) or a mapping such as {length: mm, force: kN, "
                "power: kW}; without it every dimensional value needs its unit"),
@@ -631,6 +715,11 @@ SECTIONS: dict[str, dict[str, Field]] = {
     "life": LIFE,
     "solver": SOLVER,
     "checks": CHECKS,
+    "checks_bearing_slope": CHECKS_BEARING_SLOPE,
+    "checks_bearing": CHECKS_BEARING,
+    "checks_gear": CHECKS_GEAR,
+    "checks_shaft": CHECKS_SHAFT,
+    "checks_system_life": CHECKS_SYSTEM_LIFE,
     "study": STUDY,
     "study_vary": STUDY_VARY,
     "study_limit": STUDY_LIMIT,
@@ -921,7 +1010,7 @@ def read_value(where: Where, key: str | int, raw: Any, spec: Field) -> Any:
             except QuantityProblem as exc:
                 raise inner.error(i, exc.message, exc.expected) from None
         return tuple(out)
-    if kind == "map":
+    if kind in {"map", "idmap"}:
         return require_mapping(where, key, raw)
     if kind == "list":
         items = require_list(where, key, raw)

@@ -9,6 +9,7 @@ from shaftsys.model.bearing import (
     SetArrangement,
 )
 from shaftsys.model.case import Case, CaseKind, Drive, ElementLoad
+from shaftsys.model.checks import BearingCheckOverride, CheckSettings, GearCheckOverride
 from shaftsys.model.elements import (
     BevelGear,
     Coupling,
@@ -25,8 +26,33 @@ from shaftsys.model.machine import Link, Model, SolverSettings
 from shaftsys.model.shaft import Material, Shaft, Step
 
 __all__ = [
-    "AxialRole", "Bearing", "BearingKind", "BevelGear", "Case", "CaseKind", "Coupling",
-    "Drive", "Element", "ElementBase", "ElementLoad", "Gear", "LifeSettings",
-    "Link", "Lubrication", "LumpedMass", "Material", "Model", "ProcessLoad", "Pulley",
-    "SetArrangement", "Shaft", "SolverSettings", "Sprocket", "Step", "Unbalance",
+    "AxialRole",
+    "Bearing",
+    "BearingCheckOverride",
+    "BearingKind",
+    "BevelGear",
+    "Case",
+    "CaseKind",
+    "CheckSettings",
+    "Coupling",
+    "Drive",
+    "Element",
+    "ElementBase",
+    "ElementLoad",
+    "Gear",
+    "GearCheckOverride",
+    "LifeSettings",
+    "Link",
+    "Lubrication",
+    "LumpedMass",
+    "Material",
+    "Model",
+    "ProcessLoad",
+    "Pulley",
+    "SetArrangement",
+    "Shaft",
+    "SolverSettings",
+    "Sprocket",
+    "Step",
+    "Unbalance",
 ]

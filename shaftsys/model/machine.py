@@ -6,6 +6,7 @@ from dataclasses import dataclass, field
 
 from shaftsys.model.bearing import Bearing, LifeSettings, Lubrication
 from shaftsys.model.case import Case
+from shaftsys.model.checks import CheckSettings
 from shaftsys.model.selection import OpenSeat, SelectionSettings
 from shaftsys.model.shaft import Shaft
 from shaftsys.model.thermal import HeatBalance
@@ -80,6 +81,7 @@ class Model:
         cannot be evaluated (material without Su, Sy) fails the run as "not evaluated".
     thermal: heat-balance data of the housing (friction and operating temperature per
         case), or ``None``.
+    checks: limits and targets of the checks (the model file's ``checks:`` section).
     warnings: what the loader found plausible but suspicious (a value that looks like a
         unit slip), each naming file, line, field and the value as read.
     """
@@ -100,6 +102,7 @@ class Model:
     fatigue_required: bool = True
     thermal: HeatBalance | None = None
     warnings: tuple[str, ...] = ()
+    checks: CheckSettings = field(default_factory=CheckSettings)
 
     def shaft(self, shaft_id: str) -> Shaft:
         """The shaft with this id."""

@@ -228,6 +228,43 @@ def _inputs(result: Result) -> str:
         ("use modified life", "yes" if life.use_modified_life else "no"),
         ("life basis of the verdicts", ", ".join(basis) or "-"),
     ]
+    ck = m.checks
+    overrides = [f"{bid}: " + ", ".join(f"{k} {v}" for k, v in (
+        ("slope", o.slope_rad), ("speed", o.speed), ("min load", o.min_load))
+        if v is not None) for bid, o in ck.bearings.items()]
+    overrides += [f"{gid}: " + ", ".join(f"{k} {v}" for k, v in (
+        ("slope", g.slope_rad), ("deflection mm", g.deflection_mm),
+        ("deflection / module", g.deflection_per_module)) if v is not None)
+        for gid, g in ck.gears.items()]
+    targets = [f"machine {format_value(ck.system_life_target_h)} h"] \
+        if ck.system_life_target_h is not None else []
+    if ck.shaft_system_life_target_h is not None:
+        targets.append(f"every shaft {format_value(ck.shaft_system_life_target_h)} h")
+    targets += [f"shaft {sid} {format_value(v)} h" for sid, v in ck.shaft_targets_h.items()]
+    settings += [
+        ("limiting-speed check", ck.speed),
+        ("minimum-load check (0.01 C ball, 0.02 C roller)", ck.min_load),
+        ("fatigue criterion", ck.fatigue_criterion),
+        ("required fatigue / yield safety [-]",
+         f"{format_value(ck.fatigue_safety)} / {format_value(ck.yield_safety)}"),
+        ("bearing slope limits by type [rad]", ", ".join(
+            f"{k} {format_value(v)}" for k, v in ck.bearing_slope_by_type.items())
+         or "typical range of each type"),
+        ("gear limits", "; ".join(x for x in (
+            f"slope {format_value(ck.gear_slope_rad)} rad"
+            if ck.gear_slope_rad is not None else "",
+            f"deflection {format_value(ck.gear_deflection_mm)} mm"
+            if ck.gear_deflection_mm is not None else "",
+            f"deflection {format_value(ck.gear_deflection_per_module)} x module"
+            if ck.gear_deflection_per_module is not None else "") if x)
+         or "default (Shigley Table 7-2)"),
+        ("system-life targets", ", ".join(targets) or "none (system life is information)"),
+        ("system life stated at", "90 %" if ck.system_reliability == "90_percent"
+         else "the target reliability"),
+        ("Weibull slopes of the system life (ball / roller)",
+         f"{format_value(ck.weibull_slope_ball, 4)} / {format_value(ck.weibull_slope_roller, 4)}"),
+        ("per-item check settings", "; ".join(overrides) or "none"),
+    ]
     lub = m.lubrication
     if lub is None:
         settings.append(("lubrication", "not given (verdict on a1*L10)"))
@@ -297,10 +334,17 @@ def _summary(result: Result) -> str:
     unit = "h" if m.duration_in_hours else "share"
     sys_line = (f"System life of the machine: {format_value(result.system_life_h, 3)} h at "
                 f"the target reliability, limited by {result.limiting_bearing or '-'}.")
-    if result.system_life_h is not None and result.system_life_h < m.life.target_life_h:
+    judged = [(label, sl) for label, sl in result.system_lives() if sl.verdict is not None]
+    if judged:
+        sys_line += " System-life targets set in the model (checks.system_life): " + "; ".join(
+            f"{label} {format_value(sl.life_h, 3)} h at reliability {sl.reliability:g} "
+            f"against {format_value(sl.target_h, 3)} h: {sl.verdict.upper()}"
+            for label, sl in judged if sl.verdict is not None) + "."
+    elif result.system_life_h is not None and result.system_life_h < m.life.target_life_h:
         sys_line += (f" It is below the {format_value(m.life.target_life_h, 3)} h target: "
                      "information, not a criterion of the verdict, which checks each "
-                     "support's own life against its own target.")
+                     "support's own life against its own target (a system-life target "
+                     "in checks.system_life makes it one).")
     return (f'<section id="summary"><h2>{SECTION_TITLES[2]}</h2>'
             + _table(["shaft", "length mm", "material", "steps", "bearings", "elements",
                       "system life h", "limiting"], srows, (0, 2, 4, 5, 7))
@@ -426,6 +470,7 @@ def _verdicts(result: Result) -> str:
                          '<span class="stamp bad">NOT EVALUATED</span>'])
     table = _table(["support", "worst case", "Pm N", "Lnm h", "target h", "C req N",
                     "C/C req", "s0 / min", "life reserve", "verdict"], rows, 2)
+    table += _operating_table(result) + _system_life_table(result)
     legend = ("Life reserve gauge: bar length is log10(Lnm/target) from 0.1x (left edge) "
               "to 100x (right edge); the dark tick is the target (1x). Pink zone = short "
               "of the target.")
@@ -442,11 +487,52 @@ def _verdicts(result: Result) -> str:
     missing = "".join(f"<li>{_e(m)}</li>" for m in result.not_evaluated)
     if missing:
         head += f'<p class="note">Not evaluated (not a pass):</p><ul>{missing}</ul>'
+    if result.advisory_failed:
+        head += ('<p class="note">Advisory checks that fail (shown, not deciding the '
+                 f'verdict): {_e("; ".join(result.advisory_failed))}</p>')
     if result.checks is not None and result.checks.marginal:
         head += ('<p class="note">Marginal (within the limit, in its caution band): '
                  f'{_e("; ".join(result.checks.marginal))}</p>')
     return (f'<section id="verdicts"><h2>{SECTION_TITLES[5]}</h2>{head}{table}'
             f'<p class="note">{_e(legend)}</p></section>')
+
+
+def _operating_table(result: Result) -> str:
+    """Limiting speed and minimum load of every bearing with their numbers."""
+    rows = []
+    for b in result.bearings:
+        for c in b.operating:
+            word = c.verdict if c.reason is not None or c.mode == "required" \
+                else f"{c.verdict} (advisory)"
+            rows.append([_e(f"{b.shaft_id}/{b.bearing.id}"), _e(c.check.replace("_", " ")),
+                         _e(c.case or "-"),
+                         _n(c.value, 5) + f" {c.unit}" if c.value is not None else "-",
+                         _n(c.limit, 5) + f" {c.unit}" if c.limit is not None else "-",
+                         _n(c.ratio, 3), _e(c.reason or c.mode),
+                         _status_word(word) if c.counts or c.verdict != "not evaluated"
+                         else _e(word)])
+    if not rows:
+        return ""
+    return ('<h3 id="operating-limits">Limiting speed and minimum load</h3>'
+            + _table(["support", "check", "case", "value", "limit", "ratio", "mode",
+                      "verdict"], rows, (0, 1, 2, 6))
+            + '<p class="note">Speed: the largest running |n| against the limiting speed '
+            "given for the bearing (passes at ratio &lt;= 1). Minimum load: the smallest "
+            "running equivalent load P against 0.01 C (ball) or 0.02 C (roller) (passes "
+            "at ratio &gt;= 1; common practice - the bearing maker's minimum load "
+            "governs). Advisory checks are shown but do not decide the verdict.</p>")
+
+
+def _system_life_table(result: Result) -> str:
+    """The system lives that have a target, with their verdicts."""
+    rows = [[_e(label), _n(sl.reliability, 4), _n(sl.life_h, 5), _n(sl.target_h, 5),
+             _e(sl.limiting_bearing or "-"), _status_word(sl.verdict)]
+            for label, sl in result.system_lives() if sl.verdict is not None]
+    if not rows:
+        return ""
+    return ('<h3 id="system-life-targets">System life targets</h3>'
+            + _table(["system", "reliability", "system life h", "target h", "limiting",
+                      "verdict"], rows, (0, 4)))
 
 
 def _bearing_loads_table(b: BearingResult) -> str:
@@ -644,7 +730,8 @@ def _fatigue_section(result: Result) -> str:
     if checks is None:
         return ""
     st = checks.settings
-    crit = {"goodman": "DE-Goodman", "asme_elliptic": "DE-ASME elliptic"}.get(
+    crit = {"goodman": "DE-Goodman", "asme_elliptic": "DE-ASME elliptic",
+            "gerber": "DE-Gerber"}.get(
         st.criterion, st.criterion)
     parts = [f'<section id="fatigue"><h2>{SHAFT_CHECK_TITLES[2]}</h2>']
     for sc in checks.shafts:

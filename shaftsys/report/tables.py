@@ -114,14 +114,21 @@ def verdict_table(result: Result) -> str:
     lines = ["Bearing life verdicts", format_table(headers, rows, "lllrrrrrrrrl")]
     lines.append(f"life basis: {', '.join(sorted(basis))}; reliability method: "
                  f"{', '.join(sorted(method))}")
+    operating = operating_table(result)
+    if operating:
+        lines += ["", operating]
     if result.limiting_bearing:
         lines.append(f"system life: {sig(result.system_life_h)} h, limited by "
                      f"{result.limiting_bearing}")
         target = result.model.life.target_life_h
-        if result.system_life_h is not None and result.system_life_h < target:
+        judged = [sl for _, sl in result.system_lives() if sl.verdict is not None]
+        if not judged and result.system_life_h is not None and result.system_life_h < target:
             lines.append(f"  the system life (all supports surviving together) is below "
                          f"the {sig(target)} h target: information, not a criterion; each "
                          "support's verdict is its own life against its own target")
+    system = system_life_table(result)
+    if system:
+        lines += [system]
     failing = [b.bearing.id for b in result.bearings if b.verdict == "fail"]
     missing = [b.bearing.id for b in result.bearings if b.life is None]
     if failing:
@@ -133,6 +140,46 @@ def verdict_table(result: Result) -> str:
     return "\n".join(lines)
 
 
+def operating_table(result: Result) -> str:
+    """Limiting speed and minimum load of every bearing: the running case that decides,
+    value, limit, ratio, mode (required or advisory) and verdict. Empty when no bearing
+    has these checks.
+    """
+    rows = []
+    for b in result.bearings:
+        for c in b.operating:
+            word = c.verdict.upper()
+            if c.mode == "advisory" and c.reason is None:
+                word += " (advisory)"
+            rows.append([f"{b.shaft_id}/{b.bearing.id}", c.check.replace("_", " "),
+                         c.case or "-", f"{sig(c.value, 4)} {c.unit}" if c.value is not None
+                         else "-", f"{sig(c.limit, 4)} {c.unit}" if c.limit is not None
+                         else "-", _num(c.ratio, 2), c.reason or c.mode, word])
+    if not rows:
+        return ""
+    return ("Limiting speed and minimum load (running cases; speed passes at n <= limit, "
+            "load at P >= 0.01 C ball, 0.02 C roller)\n"
+            + format_table(["bearing", "check", "case", "value", "limit", "ratio", "mode",
+                            "verdict"], rows, "lllrrrll"))
+
+
+def system_life_table(result: Result) -> str:
+    """The system lives that have a target: life at the stated reliability against the
+    target, with the verdict. Empty when no target is set.
+    """
+    rows = []
+    for label, sl in result.system_lives():
+        if sl.verdict is None:
+            continue
+        rows.append([label, f"{sl.reliability:g}", sig_apart(sl.life_h, sl.target_h),
+                     sig(sl.target_h), sl.limiting_bearing or "-", sl.verdict.upper()])
+    if not rows:
+        return ""
+    return ("System life targets (bearings of a shaft / of the machine surviving together)"
+            "\n" + format_table(["system", "reliability", "life h", "target h", "limiting",
+                                  "verdict"], rows, "lrrrll"))
+
+
 def overall_verdict(result: Result) -> str:
     """The run's verdict over every required check, and what is missing or marginal."""
     verdict = result.verdict
@@ -142,7 +189,9 @@ def overall_verdict(result: Result) -> str:
         lines = ["VERDICT: FAIL (a target or limit is missed)"]
     else:
         lines = ["VERDICT: NOT EVALUATED (not a pass)"]
+    lines += [f"  failed: {m}" for m in result.failed_checks]
     lines += [f"  not evaluated: {m}" for m in result.not_evaluated]
+    lines += [f"  advisory, not deciding the verdict: {m}" for m in result.advisory_failed]
     if result.checks is not None:
         lines += [f"  marginal: {m}" for m in result.checks.marginal]
     return "\n".join(lines)

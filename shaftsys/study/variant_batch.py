@@ -220,7 +220,8 @@ def prepare(model: Model) -> Prepared:
         kind_groups=tuple(tuple(j for j, b in fixed if b.kind is kind)
                           for kind in dict.fromkeys(b.kind for _, b in fixed)),
         duty=duty,
-        slopes=np.array([b.kind.weibull_slope for b in shaft.bearings], dtype=float),
+        slopes=np.array([model.checks.weibull_slope(b.kind.is_roller)
+                         for b in shaft.bearings], dtype=float),
         reliability=float(model.life.target_reliability), error=error, gear_index=gears,
         open_seats=opens, thermal=thermal, plans=plans)
 
