@@ -395,3 +395,49 @@ def test_settings_are_frozen():
     st = ShaftCheckSettings()
     with pytest.raises(dataclasses.FrozenInstanceError):
         st.criterion = "asme_elliptic"  # type: ignore[misc]
+
+
+def test_modes_in_the_results_second_critical_shape_and_estimates():
+    """The checks carry the first three bending criticals with their mode shapes and the
+    classical estimates. Pinned-pinned uniform shaft (Rao; Blevins table 8-1, from
+    memory): omega_k = k^2 omega_1, shapes sin(k pi x/L); Rayleigh above and Dunkerley
+    below the first (Shigley 9th ed., critical speeds: the static-deflection estimate
+    bounds from above, Dunkerley's from below); margins are n_crit / n_max."""
+    result = analyse(load_model_text(_uniform_yaml(speed_rpm=1000.0)), with_life=False)
+    sc = result.checks.shafts[0].to_dict()
+    w1 = _rpm(_omega_ss_uniform())
+    crit = sc["critical_speeds_rpm"]
+    assert crit[0] == pytest.approx(w1, rel=1e-4)
+    assert sc["second_critical_rpm"] == crit[1] == pytest.approx(4 * w1, rel=1e-3)
+    assert crit[2] == pytest.approx(9 * w1, rel=3e-3)
+    assert sc["critical_speed_margins"] == pytest.approx([c / 1000.0 for c in crit])
+    modes = sc["modes"]
+    assert modes["rayleigh_rpm"] > crit[0] > modes["dunkerley_rpm"]
+    assert modes["rayleigh_rpm"] == pytest.approx(crit[0], rel=2e-3)
+    for k, shape in enumerate(modes["shapes"][:2], start=1):
+        x = np.asarray(shape["x_mm"]) / 1000.0
+        y = np.asarray(shape["deflection"])
+        ref = np.sin(k * math.pi * x)
+        ref = ref / ref[np.argmax(np.abs(ref))]
+        assert np.max(np.abs(y - ref)) < 1e-3 * k
+
+
+def test_per_plane_slopes_at_the_bearings_follow_the_load_plane():
+    """A centre load F in +y on the pinned-pinned uniform shaft: slope at the supports
+    F L^2 / (16 E I) in the x-y plane (Roark, simply supported beam, centre load), with
+    dv/dx > 0 at the left end and < 0 at the right, and nothing in the x-z plane; the
+    resultants are the hypot of the plane values."""
+    F = 1000.0
+    yaml_text = _uniform_yaml(disc_at_mm=500.0, disc_kg=0.0, unit_load_N=F)
+    result = analyse(load_model_text(yaml_text), with_life=False)
+    I_mm4 = math.pi * 40.0**4 / 64.0
+    theta = F * 1000.0**2 / (16.0 * 210_000.0 * I_mm4)
+    data = result.checks.to_dict()
+    by_id = {b["id"]: b for b in data["bearings"]}
+    for bid, sign in (("A", 1.0), ("B", -1.0)):
+        c = by_id[bid]["cases"][0]
+        assert c["slope_xy_rad"] == pytest.approx(sign * theta, rel=1e-6)
+        assert abs(c["slope_xz_rad"]) < 1e-12 * theta
+        assert c["slope_rad"] == pytest.approx(math.hypot(c["slope_xy_rad"],
+                                                          c["slope_xz_rad"]), rel=1e-12)
+        assert abs(c["deflection_y_mm"]) < 1e-9 and abs(c["deflection_z_mm"]) < 1e-9

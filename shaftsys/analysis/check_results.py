@@ -125,17 +125,27 @@ class ShaftCheckSettings:
 # ----------------------------------------------------------------------------- results
 @dataclass(frozen=True)
 class CaseDeflection:
-    """Deflection [mm] and slope [rad] at one station in one case."""
+    """Deflection [mm] and slope [rad] at one station in one case: the resultants and,
+    per plane, v = uy, w = uz [mm] and dv/dx = rz, dw/dx = -ry [rad] (NaN: not given).
+    """
 
     case: str
     deflection_mm: float
     slope_rad: float
     status: str
+    deflection_y_mm: float = math.nan
+    deflection_z_mm: float = math.nan
+    slope_xy_rad: float = math.nan
+    slope_xz_rad: float = math.nan
 
     def to_dict(self) -> dict[str, Any]:
         """JSON-ready values."""
         return {"case": self.case, "deflection_mm": self.deflection_mm,
-                "slope_rad": self.slope_rad, "status": self.status}
+                "slope_rad": self.slope_rad, "status": self.status,
+                "deflection_y_mm": _finite(self.deflection_y_mm),
+                "deflection_z_mm": _finite(self.deflection_z_mm),
+                "slope_xy_rad": _finite(self.slope_xy_rad),
+                "slope_xz_rad": _finite(self.slope_xz_rad)}
 
 
 @dataclass(frozen=True)
@@ -271,6 +281,9 @@ class ShaftCheck:
     notes: tuple[str, ...]
     fatigue_not_evaluated: str | None = None
     fatigue_required: bool = True
+    #: the shaft's modes (an ``analysis.modes.ShaftModes``; Any: that module builds on
+    #: the solve, which builds on this one), ``None`` when not computed
+    modes: Any = None
 
     @property
     def critical_speed_verdict(self) -> str:
@@ -328,7 +341,20 @@ class ShaftCheck:
                 "critical_speed_verdict": self.critical_speed_verdict,
                 "fatigue_verdict": self.fatigue_verdict,
                 "fatigue_required": self.fatigue_required,
-                "fatigue_not_evaluated_reason": self.fatigue_not_evaluated}
+                "fatigue_not_evaluated_reason": self.fatigue_not_evaluated,
+                **self._modes_dict()}
+
+    def _modes_dict(self) -> dict[str, Any]:
+        """The modes (``modes``), the list of bending criticals and their margins to the
+        top speed (``critical_speeds_rpm``, ``critical_speed_margins``: n_crit / n_max).
+        """
+        if self.modes is None:
+            return {}
+        crit = [float(v) for v in self.modes.bending_rpm]
+        margins = [v / self.max_speed_rpm if self.max_speed_rpm > 0 else None for v in crit]
+        return {"critical_speeds_rpm": crit,
+                "second_critical_rpm": crit[1] if len(crit) > 1 else None,
+                "critical_speed_margins": margins, "modes": self.modes.to_dict()}
 
 
 @dataclass(frozen=True)

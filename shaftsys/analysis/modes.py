@@ -60,7 +60,8 @@ class ShaftModes:
         def num(v: float) -> float | None:
             return float(v) if math.isfinite(v) else None
 
-        return {"bending_rpm": [num(v) for v in self.bending_rpm],
+        return {"method": "finite-element eigen-solution of the non-rotating shaft",
+                "bending_rpm": [num(v) for v in self.bending_rpm],
                 "torsional_rpm": [num(v) for v in self.torsional_rpm],
                 "rayleigh_rpm": num(self.rayleigh_rpm),
                 "dunkerley_rpm": num(self.dunkerley_rpm),
@@ -75,10 +76,11 @@ def _to_rpm(omega_rad_s: float) -> float:
 
 
 def shaft_modes(shaft: Shaft, model: Model, *, max_element_mm: float | None = None,
-                rotary_inertia: bool = False, n_modes: int = MODES_KEPT) -> ShaftModes:
+                rotary_inertia: bool = False, n_modes: int = MODES_KEPT,
+                estimates: bool = True) -> ShaftModes:
     """The lowest ``n_modes`` bending and torsional modes of ``shaft`` with the classical
     estimates (mesh: ``max_element_mm`` or the model's solver setting, at most
-    :data:`MODAL_MAX_ELEMENTS` elements).
+    :data:`MODAL_MAX_ELEMENTS` elements; ``estimates=False`` leaves them ``nan``).
     """
     h = max_element_mm or model.solver.max_element_mm
     h = max(h, shaft.length_mm / MODAL_MAX_ELEMENTS)
@@ -108,12 +110,13 @@ def shaft_modes(shaft: Shaft, model: Model, *, max_element_mm: float | None = No
     shapes = bend.shapes[0::2, b_idx[:n_modes]].T
     peak = np.take_along_axis(shapes, np.argmax(np.abs(shapes), axis=1)[:, None], axis=1)
     shapes = shapes / np.where(peak == 0.0, 1.0, peak)
-    K, M, rigid = bending_matrices(sm.mesh, supports, point_mass_kg=mass,
-                                   point_inertia_kgm2=dia,
-                                   shear=model.solver.shear_deformation,
-                                   rotary_inertia=rotary_inertia, label=label)
-    rayleigh, dunkerley = (classical_estimates(K, M, rigid) if len(supports) >= 1
-                           else (math.nan, math.nan))
+    rayleigh, dunkerley = math.nan, math.nan
+    if estimates and supports:
+        K, M, rigid = bending_matrices(sm.mesh, supports, point_mass_kg=mass,
+                                       point_inertia_kgm2=dia,
+                                       shear=model.solver.shear_deformation,
+                                       rotary_inertia=rotary_inertia, label=label)
+        rayleigh, dunkerley = classical_estimates(K, M, rigid)
     return ShaftModes(shaft.id, tuple(float(v) for v in b_rpm[:n_modes]),
                       tuple(float(v) for v in t_rpm[:n_modes]), sm.mesh.x_mm.copy(),
                       shapes, _to_rpm(rayleigh), _to_rpm(dunkerley))

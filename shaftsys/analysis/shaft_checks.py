@@ -65,7 +65,6 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from numpy.typing import NDArray
 
 from shaftsys.analysis.check_results import (
     DEFAULT_CRITICAL_SPEED_MARGIN,
@@ -79,8 +78,8 @@ from shaftsys.analysis.check_results import (
     ShaftChecks,
     ShaftCheckSettings,
 )
+from shaftsys.analysis.modes import MODAL_MAX_ELEMENTS, shaft_modes
 from shaftsys.analysis.results import CaseSolution, Result, ShaftResult
-from shaftsys.analysis.solve import mesh_shaft
 from shaftsys.checks import (
     SPUR_GEAR_SLOPE_LIMIT_RAD,
     Feature,
@@ -97,10 +96,7 @@ from shaftsys.checks import (
     slope_status,
     yield_safety_factor,
 )
-from shaftsys.fe.modal import bending_modes, torsion_modes
-from shaftsys.fe.solve import Support
 from shaftsys.model import (
-    BearingKind,
     BevelGear,
     CaseKind,
     Coupling,
@@ -114,10 +110,6 @@ from shaftsys.model import (
 
 log = logging.getLogger(__name__)
 
-#: Most beam elements of the modal mesh of one shaft: the dense eigenproblem grows with
-#: the cube of the nodes (seconds at 2000 elements), while the first bending mode of
-#: the cubic elements meets its closed form to 1e-4 with 100 (tests/test_shaft_checks.py).
-MODAL_MAX_ELEMENTS = 300
 
 _CP = "common practice, no source"
 #: Sharp-shoulder fillet r/d assumed when no fillet is given (Shigley 9th ed. Table 7-1).
@@ -130,11 +122,24 @@ _SURFACE = {"forged": "as_forged"}
 _KEYWAY = {"profile": Feature.KEYSEAT_END_MILL, "sled_runner": Feature.KEYSEAT_SLED_RUNNER}
 _SEAT_TYPES = (Gear, BevelGear, Pulley, Sprocket, Coupling, LumpedMass)
 
-__all__ = ["DEFAULT_CRITICAL_SPEED_MARGIN", "DEFAULT_GEAR_DEFLECTION_LIMIT_MM",
-           "DEFAULT_REQUIRED_FATIGUE_SAFETY", "DEFAULT_REQUIRED_YIELD_SAFETY",
-           "CaseDeflection", "DeflectionCheck", "SectionCheck", "ShaftCheck", "ShaftCheckSettings",
-           "ShaftChecks", "check_shaft_results", "check_shafts", "critical_speeds_rpm",
-           "gear_limits", "settings_from_model"]
+__all__ = [
+    "DEFAULT_CRITICAL_SPEED_MARGIN",
+    "DEFAULT_GEAR_DEFLECTION_LIMIT_MM",
+    "DEFAULT_REQUIRED_FATIGUE_SAFETY",
+    "DEFAULT_REQUIRED_YIELD_SAFETY",
+    "MODAL_MAX_ELEMENTS",
+    "CaseDeflection",
+    "DeflectionCheck",
+    "SectionCheck",
+    "ShaftCheck",
+    "ShaftCheckSettings",
+    "ShaftChecks",
+    "check_shaft_results",
+    "check_shafts",
+    "critical_speeds_rpm",
+    "gear_limits",
+    "settings_from_model",
+]
 
 
 # ----------------------------------------------------------------------------- entry
@@ -216,6 +221,14 @@ def settings_from_model(model: Model) -> ShaftCheckSettings:
     )
 
 
+def _case_deflection(sol: CaseSolution, i: int, status: str) -> CaseDeflection:
+    """Resultant and per-plane deflection and slope at node ``i`` of one case."""
+    u = sol.displacement[i]
+    return CaseDeflection(sol.case, float(sol.deflection_mm[i]), float(sol.slope_rad[i]),
+                          status, deflection_y_mm=float(u[1]), deflection_z_mm=float(u[2]),
+                          slope_xy_rad=float(u[5]), slope_xz_rad=float(-u[4]))
+
+
 def _bearing_checks(sr: ShaftResult, st: ShaftCheckSettings) -> list[DeflectionCheck]:
     out = []
     for b in sr.shaft.bearings:
@@ -233,9 +246,8 @@ def _bearing_checks(sr: ShaftResult, st: ShaftCheckSettings) -> list[DeflectionC
         cases = []
         for sol in sr.cases:
             i = _node_index(sol, b.support_x_mm)
-            d = float(sol.deflection_mm[i])
             s = float(sol.slope_rad[i])
-            cases.append(CaseDeflection(sol.case, d, s, slope_status(s, lim)))
+            cases.append(_case_deflection(sol, i, slope_status(s, lim)))
         ok = all(c.status != "exceeded" for c in cases)
         out.append(DeflectionCheck(b.id, sr.shaft.id, "bearing", b.support_x_mm,
                                    lim.high_rad, lim.low_rad, None, lim.source,
@@ -302,7 +314,7 @@ def _gear_checks(sr: ShaftResult, st: ShaftCheckSettings) -> list[DeflectionChec
             d = float(sol.deflection_mm[i])
             s = float(sol.slope_rad[i])
             status = "ok" if (s <= slim and d <= dlim) else "exceeded"
-            cases.append(CaseDeflection(sol.case, d, s, status))
+            cases.append(_case_deflection(sol, i, status))
         ok = all(c.status == "ok" for c in cases)
         out.append(DeflectionCheck(el.id, sr.shaft.id, "gear", el.x_mm, slim, slim, dlim,
                                    src, tuple(cases), ok, slope_rule=srule,
@@ -330,49 +342,24 @@ def critical_speeds_rpm(shaft: Shaft, model: Model, *, max_element_mm: float | N
     -------
     tuple of float
         (bending, torsion) as speeds 60 f [rpm]; ``inf`` when there is no such mode.
+        The modes themselves: :func:`shaftsys.analysis.modes.shaft_modes`.
     """
-    h = max_element_mm or model.solver.max_element_mm
-    # the dense eigenproblem grows with the cube of the nodes: a long shaft gets at most
-    # MODAL_MAX_ELEMENTS elements (cubic beam elements converge fast in the first modes)
-    h = max(h, shaft.length_mm / MODAL_MAX_ELEMENTS)
-    sm = mesh_shaft(shaft, h)
-    n = sm.mesh.n_nodes
-    mass = np.zeros(n)
-    dia = np.zeros(n)
-    polar = np.zeros(n)
-    for el in shaft.elements:
-        k = sm.element_nodes[el.id]
-        mass[k] += el.mass_kg
-        dia[k] += el.diametral_inertia_kgm2
-        polar[k] += el.polar_inertia_kgm2
-    supports = [Support(sm.bearing_nodes[b.id],
-                        b.radial_stiffness_N_mm if b.radial_stiffness_N_mm else math.inf,
-                        b.tilt_stiffness_Nmm_rad)
-                for b in shaft.bearings if b.kind is not BearingKind.THRUST_BALL]
-    bend = bending_modes(sm.mesh, supports, point_mass_kg=mass, point_inertia_kgm2=dia,
-                         shear=model.solver.shear_deformation, rotary_inertia=rotary_inertia,
-                         n_modes=min(4, 2 * n - 2 * len(supports)),
-                         label=f"shaft '{shaft.id}', bending modes")
-    tors = torsion_modes(sm.mesh, (), polar_inertia_kgm2=polar, n_modes=min(2, n),
-                         label=f"shaft '{shaft.id}', torsion modes")
-    return _first_nonzero(bend.rpm), _first_nonzero(tors.rpm[1:])
+    m = shaft_modes(shaft, model, max_element_mm=max_element_mm,
+                    rotary_inertia=rotary_inertia, n_modes=1, estimates=False)
+    return _first(m.bending_rpm), _first(m.torsional_rpm)
 
 
-def _first_nonzero(rpm: NDArray[np.float64]) -> float:
-    """The first frequency above the rigid-body noise [rpm]."""
-    if rpm.size == 0:
-        return math.inf
-    scale = float(np.max(rpm))
-    nonzero = rpm[rpm > 1e-6 * scale] if scale > 0 else rpm[:0]
-    return float(nonzero[0]) if nonzero.size else math.inf
+def _first(rpm: tuple[float, ...]) -> float:
+    return rpm[0] if rpm else math.inf
 
 
 def _shaft_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings) -> ShaftCheck:
     shaft = sr.shaft
     notes: list[str] = ["critical speeds of the non-rotating shaft: gyroscopic effects and "
                         "speed-dependent bearing stiffness are left out"]
-    f_bend, f_tors = critical_speeds_rpm(shaft, model, max_element_mm=st.max_element_mm,
-                                         rotary_inertia=st.rotary_inertia)
+    modes = shaft_modes(shaft, model, max_element_mm=st.max_element_mm,
+                        rotary_inertia=st.rotary_inertia)
+    f_bend, f_tors = _first(modes.bending_rpm), _first(modes.torsional_rpm)
     kinds = {c.id: c.kind for c in model.cases}
     speeds = [abs(cs.speed_rpm) for cs in sr.cases
               if kinds[cs.case] in (CaseKind.DUTY, CaseKind.PEAK)]
@@ -403,7 +390,8 @@ def _shaft_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings) -> Shaft
         max_speed_rpm=n_max, critical_speed_ok=crit_ok, supercritical=supercritical,
         sections=tuple(sections), min_fatigue_safety=n_f, min_yield_safety=n_y,
         fatigue_ok=skipped is None and all(s.ok for s in sections), notes=tuple(notes),
-        fatigue_not_evaluated=skipped, fatigue_required=model.fatigue_required)
+        fatigue_not_evaluated=skipped, fatigue_required=model.fatigue_required,
+        modes=modes)
 
 
 # ----------------------------------------------------------------------------- fatigue

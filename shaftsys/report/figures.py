@@ -31,7 +31,8 @@ if TYPE_CHECKING:
     from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
-__all__ = ["deflection_lines", "diagrams", "load_life_chart", "shaft_drawing", "to_svg"]
+__all__ = ["deflection_lines", "diagrams", "load_life_chart", "mode_shapes", "shaft_drawing",
+           "to_svg"]
 
 #: Colours of the report's own palette (ink, steel, accent, muted, warm, cool).
 INK = "#1d2630"
@@ -428,4 +429,24 @@ def deflection_lines(shaft_result: ShaftResult, limits: Sequence[Any] = ()) -> F
     axes[-1].set_xlabel(f"x [mm] along shaft {shaft_result.shaft.id}")
     axes[0].set_title(f"Shaft {shaft_result.shaft.id}: deflection and slope in the x-y "
                       "and x-z planes; red bars = limits at bearings and gears", fontsize=9)
+    return fig
+
+
+def mode_shapes(shaft_id: str, modes: Any) -> Figure:
+    """The bending mode shapes of one shaft (an ``analysis.modes.ShaftModes``): one line
+    per mode over x [mm], largest deflection scaled to 1, labelled with its critical
+    speed [rpm]. Nothing is solved here.
+    """
+    fig, (ax,) = _new_figure(8.0, 3.0)
+    colours = (ACCENT, COOL, WARM)
+    for k, rpm in enumerate(modes.bending_rpm):
+        ax.plot(modes.node_x_mm, modes.bending_shapes[k], lw=1.4,
+                color=colours[k % len(colours)], label=f"mode {k + 1}: {rpm:,.0f} rpm")
+    ax.axhline(0.0, color=MUTED, lw=0.6)
+    ax.set_xlabel(f"x [mm] along shaft {shaft_id}")
+    ax.set_ylabel("deflection (scaled)")
+    ax.grid(True, lw=0.3, alpha=0.5)
+    ax.legend(fontsize=7, loc="best")
+    ax.set_title(f"Shaft {shaft_id}: bending mode shapes of the non-rotating shaft",
+                 fontsize=9)
     return fig

@@ -695,8 +695,10 @@ def _deflection_section(result: Result, ctx: _Render) -> str:
     return "".join(parts)
 
 
-def _critical_speed_section(result: Result) -> str:
-    """First bending and torsional critical speed per shaft, margin to each case."""
+def _critical_speed_section(result: Result, ctx: _Render | None = None) -> str:
+    """Bending criticals (first three) and first torsional per shaft with the classical
+    estimates, margin of each case, and a figure of the bending mode shapes.
+    """
     checks = result.checks
     if checks is None:
         return ""
@@ -712,15 +714,39 @@ def _critical_speed_section(result: Result) -> str:
                          _n(sc.first_torsional_rpm, 5)])
     table = _table(["shaft", "case", "speed rpm", "1st bending rpm",
                     "1st bending / speed", "1st torsional rpm"], rows, 2)
+    mode_rows = []
+    for sc in checks.shafts:
+        m = sc.modes
+        if m is None:
+            continue
+        crit = list(m.bending_rpm) + [math.nan] * (3 - len(m.bending_rpm))
+        mode_rows.append([_e(sc.id), *(_n(v, 5) for v in crit[:3]),
+                          _n(m.rayleigh_rpm, 5), _n(m.dunkerley_rpm, 5),
+                          *(_n(v / sc.max_speed_rpm if sc.max_speed_rpm > 0 else math.inf, 3)
+                            for v in crit[:2])])
+    modes_table = "" if not mode_rows else _table(
+        ["shaft", "1st bending rpm", "2nd bending rpm", "3rd bending rpm",
+         "Rayleigh rpm (upper)", "Dunkerley rpm (lower)", "1st / top speed",
+         "2nd / top speed"], mode_rows, 1)
     verdicts = "".join(
         f"<li>shaft {_e(sc.id)}: largest speed {_n(sc.max_speed_rpm, 5)} rpm, first "
         f"bending critical {_n(sc.first_critical_rpm, 5)} rpm - required: at least "
         f"{_n(need, 3)} x the largest speed (or below it / {_n(need, 3)}) "
         f"{_status_word(sc.critical_speed_verdict)}</li>" for sc in checks.shafts)
+    figs = ""
+    if ctx is not None:
+        from shaftsys.report.figures import mode_shapes
+
+        figs = "".join(_figure(mode_shapes(sc.id, sc.modes), f"Bending mode shapes of shaft "
+                               f"{sc.id} (largest deflection scaled to 1)", ctx)
+                       for sc in checks.shafts if sc.modes is not None and sc.modes.bending_rpm)
     return (f'<section id="critical"><h2>{SHAFT_CHECK_TITLES[1]}</h2>{table}<ul>{verdicts}'
-            '</ul><p class="note">Bending critical from the modal analysis of the beam '
-            "model (bearings as rigid supports unless a radial stiffness is given); the "
-            "second mode and the mode shapes are not part of the stored results.</p>"
+            f"</ul>{modes_table}{figs}"
+            '<p class="note">Bending criticals from the modal analysis of the beam model '
+            "of the non-rotating shaft (bearings as rigid supports unless a radial "
+            "stiffness is given; no gyroscopic effects). Rayleigh's estimate uses the "
+            "static deflection under a uniform lateral acceleration (an upper bound of the "
+            "first critical), Dunkerley's the sum over all modes (a lower bound).</p>"
             "</section>")
 
 
@@ -781,7 +807,7 @@ def shaft_check_sections(result: Result, ctx: _Render | None = None) -> str:
     sections (empty parts when the result has no shaft checks).
     """
     c = _Render(_no_step) if ctx is None else ctx
-    return "".join([_deflection_section(result, c), _critical_speed_section(result),
+    return "".join([_deflection_section(result, c), _critical_speed_section(result, c),
                     _fatigue_section(result), _static_section(result),
                     _gear_sheets(result), _pulley_sheets(result)])
 
