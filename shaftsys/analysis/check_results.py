@@ -13,6 +13,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from shaftsys.checks import SPUR_GEAR_SLOPE_LIMIT_RAD, FatigueCriterion
+from shaftsys.checks.fatigue import FatigueCheck
 
 #: Gear deflection limit when no module is known [mm] (common practice, no source).
 DEFAULT_GEAR_DEFLECTION_LIMIT_MM = 0.13
@@ -231,6 +232,13 @@ class SectionCheck:
     n_yield: float
     ok: bool
     notes: tuple[str, ...] = ()
+    #: the whole chain behind n_fatigue (loads, notch, Marin, stresses; the sheet's
+    #: numbers), ``None`` when not kept
+    trace: FatigueCheck | None = None
+    #: largest von Mises stress of any single case [MPa] (behind n_yield)
+    sigma_max_MPa: float = math.nan
+    #: the shaft step the section's diameter comes from (0-based)
+    step: int | None = None
 
     @property
     def verdict(self) -> str:

@@ -556,4 +556,5 @@ def _section_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings, sec: _
         r_mm=sec.r_mm if sec.feature is Feature.SHOULDER else notch.r_mm,
         Kt=notch.Kt, Kts=notch.Kts, Kf=notch.Kf, Kfs=notch.Kfs, Se_MPa=marin.Se_MPa,
         sigma_a_MPa=chk.stresses.sigma_vm_a_MPa, sigma_m_MPa=chk.stresses.sigma_vm_m_MPa,
-        n_fatigue=chk.n_fatigue, n_yield=n_y, ok=ok, notes=notes)
+        n_fatigue=chk.n_fatigue, n_yield=n_y, ok=ok, notes=notes, trace=chk,
+        sigma_max_MPa=sig_max, step=sec.step)

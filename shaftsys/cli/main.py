@@ -132,7 +132,8 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
     c.add_argument("--loads-only", action="store_true",
                    help="print only the reaction table")
     c.add_argument("--explain", metavar="ID",
-                   help="print the calculation sheet of one bearing, gear or belt pulley, "
+                   help="print the calculation sheet of one bearing, gear or belt pulley "
+                   "(with its slope check), or of the fatigue section SHAFT@X (x in mm), "
                    "formula by formula")
     handlers["check"] = _check
 
@@ -430,13 +431,16 @@ def _check(args: argparse.Namespace) -> int:
     gears = [e.id for sr in result.shafts for e in sr.shaft.elements if isinstance(e, Gear)]
     pulleys = [e.id for sr in result.shafts for e in sr.shaft.elements
                if isinstance(e, Pulley)]
-    if args.explain and args.explain not in {b.bearing.id for b in result.bearings} | set(
-            gears) | set(pulleys):
-        raise ModelError(f"no bearing, gear or pulley '{args.explain}' in the model",
-                         field="--explain",
+    section = _section_of(result, args.explain) if args.explain else None
+    if args.explain and section is None and args.explain not in {
+            b.bearing.id for b in result.bearings} | set(gears) | set(pulleys):
+        raise ModelError(f"no bearing, gear, pulley or fatigue section '{args.explain}' in "
+                         "the model", field="--explain",
                          expected="one of: " + ", ".join([b.bearing.id
                                                           for b in result.bearings]
-                                                         + gears + pulleys))
+                                                         + gears + pulleys)
+                         + ", or SHAFT@X for the fatigue section at x mm, e.g. "
+                         + _section_example(result))
     if args.json != "-":
         _json_out(args, result)
     out = sys.stderr if args.json == "-" else sys.stdout
@@ -478,11 +482,17 @@ def _check(args: argparse.Namespace) -> int:
     if args.json == "-":
         _json_out(args, result)
     if args.explain:
-        from shaftsys.report.calcsheet import explain_bearing, explain_gear, explain_pulley
+        from shaftsys.report import calcsheet as cs
 
-        sheet = (explain_gear if args.explain in gears else
-                 explain_pulley if args.explain in pulleys else explain_bearing)
-        print(sheet(result, args.explain), file=out)
+        if section is not None:
+            text = cs.explain_section(result, *section)
+        else:
+            sheet = (cs.explain_gear if args.explain in gears else
+                     cs.explain_pulley if args.explain in pulleys else cs.explain_bearing)
+            text = sheet(result, args.explain)
+            if result.checks is not None and args.explain not in pulleys:
+                text += "\n\n" + cs.explain_deflection(result, args.explain)
+        print(text, file=out)
     return _verdict_code(result)
 
 
@@ -594,6 +604,30 @@ def _plot(args: argparse.Namespace) -> int:
     if not args.quiet:
         print(f"wrote {args.output}")
     return _verdict_code(result)
+
+
+def _section_of(result: Any, text: str) -> tuple[str, float] | None:
+    """``SHAFT@X`` naming a fatigue section of the result (within 0.5 mm), else None."""
+    shaft, at, x = text.partition("@")
+    if not at or result.checks is None:
+        return None
+    try:
+        x_mm = float(x.removesuffix("mm").strip())
+    except ValueError:
+        return None
+    if shaft not in {s.id for s in result.checks.shafts}:
+        return None
+    sc = result.checks.shaft(shaft)
+    return (shaft, x_mm) if any(abs(s.x_mm - x_mm) <= 0.5 for s in sc.sections) else None
+
+
+def _section_example(result: Any) -> str:
+    """A valid ``SHAFT@X`` of the result (for the message), or a generic one."""
+    if result.checks is not None:
+        for sc in result.checks.shafts:
+            if sc.sections:
+                return f"{sc.id}@{sc.sections[0].x_mm:g}"
+    return "input@50"
 
 
 def _element_loads_figure(result: Any, args: argparse.Namespace) -> Any:

@@ -23,8 +23,8 @@ from shaftsys.bearings.static import static_factors
 from shaftsys.model import AxialRole
 from shaftsys.units import MEGA_REVOLUTIONS
 
-__all__ = ["explain_bearing", "explain_bearing_html", "explain_gear", "explain_pulley",
-           "format_value"]
+__all__ = ["explain_bearing", "explain_bearing_html", "explain_deflection", "explain_gear",
+           "explain_pulley", "explain_section", "format_value"]
 
 _RULE = "-" * 78
 
@@ -452,4 +452,118 @@ def explain_pulley(result: Result, pulley_id: str) -> str:
                        f"{format_value(a2)} deg) = ({format_value(hy)}, {format_value(hz)}) N"
                        f", |F| = {format_value(math.hypot(hy, hz))} N; applied by the solve:"
                        f" ({format_value(float(F[1]))}, {format_value(float(F[2]))}) N")
+    return "\n".join(out)
+
+
+def explain_section(result: Result, shaft_id: str, x_mm: float) -> str:
+    """Calculation sheet of one fatigue section: the loads at the section (alternating and
+    mean parts), the notch chain Kt -> q -> Kf = 1 + q (Kt - 1), the Marin chain
+    Se = ka kb kc kd ke Se', the stresses sigma = Kf 32 M/(pi d^3), tau = Kfs 16 T/(pi d^3)
+    (hollow: d^4 - di^4), their von Mises combination, the criterion with its numbers and
+    the first-cycle yield (Shigley, shafts and fatigue; the criterion of the settings).
+
+    ``x_mm``: the section's station (the nearest section within 0.5 mm). Units: N*mm, N,
+    mm, MPa. Raises ``KeyError`` for an unknown shaft or a station without a section.
+    """
+    if result.checks is None:
+        raise KeyError(shaft_id)
+    sc = result.checks.shaft(shaft_id)
+    near = [s for s in sc.sections if abs(s.x_mm - x_mm) <= 0.5]
+    if not near:
+        raise KeyError(f"{shaft_id}@{x_mm:g}")
+    shaft = next(s.shaft for s in result.shafts if s.shaft.id == shaft_id)
+    mat = shaft.material
+    out = [f"CALCULATION SHEET - fatigue sections of shaft {shaft_id} at x = "
+           f"{format_value(near[0].x_mm)} mm",
+           "Shaft fatigue and first-cycle yield (Shigley, Mechanical Engineering Design, "
+           "fatigue failure and shafts).",
+           f"Material {mat.name if hasattr(mat, 'name') else ''}: Sut = "
+           f"{format_value(mat.Su_MPa)} MPa, Sy = {format_value(mat.Sy_MPa)} MPa"]
+    criterion = result.checks.settings.criterion
+    for sec in near:
+        t = sec.trace
+        step = shaft.steps[sec.step] if sec.step is not None else None
+        src = (f" (model line {step.line})" if step is not None and step.line is not None
+               else "")
+        out.append("")
+        out.append(f"feature {sec.feature}: d = {format_value(sec.d_mm)} mm{src}"
+                   + (f", D = {format_value(sec.D_mm)} mm" if sec.D_mm else "")
+                   + (f", r = {format_value(sec.r_mm)} mm" if sec.r_mm else ""))
+        if t is None:
+            out.append("  (no trace kept for this section)")
+            continue
+        L, nt, mf, st = t.loads, t.notch, t.marin, t.stresses
+        out += [f"  loads ({L.rule} rule): Ma = {format_value(L.M_a_Nmm)} N*mm, Mm = "
+                f"{format_value(L.M_m_Nmm)} N*mm, Ta = {format_value(L.T_a_Nmm)} N*mm, Tm = "
+                f"{format_value(L.T_m_Nmm)} N*mm, Fa = {format_value(L.F_a_N)} N, Fm = "
+                f"{format_value(L.F_m_N)} N",
+                f"  notch: Kt = {format_value(nt.Kt)}, q = {format_value(nt.q)} -> Kf = 1 + "
+                f"q (Kt - 1) = {format_value(nt.Kf)}; Kts = {format_value(nt.Kts)}, qs = "
+                f"{format_value(nt.qs)} -> Kfs = {format_value(nt.Kfs)}",
+                f"  endurance: Se' = {format_value(mf.Se_prime_MPa)} MPa; ka = "
+                f"{format_value(mf.ka)} ({mf.finish}), kb = {format_value(mf.kb)} (d = "
+                f"{format_value(mf.d_mm)} mm), kc = {format_value(mf.kc)}, kd = "
+                f"{format_value(mf.kd)} ({format_value(mf.temperature_C)} degC), ke = "
+                f"{format_value(mf.ke)} (R = {format_value(mf.reliability)}), kf = "
+                f"{format_value(mf.kf)} -> Se = {format_value(mf.Se_MPa)} MPa",
+                f"  stresses: sigma_a = Kf 32 Ma/(pi d^3) = {format_value(st.sigma_b_a_MPa)}"
+                f" MPa, sigma_m = {format_value(st.sigma_b_m_MPa)} MPa, tau_a = Kfs 16 Ta/"
+                f"(pi d^3) = {format_value(st.tau_a_MPa)} MPa, tau_m = "
+                f"{format_value(st.tau_m_MPa)} MPa"
+                + (f" (bore {format_value(st.bore_mm)} mm)" if st.bore_mm else ""),
+                f"  von Mises: sigma_a' = sqrt((sigma_a + sigma_ax,a/0.85)^2 + 3 tau_a^2) = "
+                f"{format_value(st.sigma_vm_a_MPa)} MPa, sigma_m' = "
+                f"{format_value(st.sigma_vm_m_MPa)} MPa"]
+        sa, sm = st.sigma_vm_a_MPa, st.sigma_vm_m_MPa
+        if str(criterion) == "goodman":
+            out.append(f"  DE-Goodman: 1/n = sa'/Se + sm'/Sut = {format_value(sa)}/"
+                       f"{format_value(mf.Se_MPa)} + {format_value(sm)}/"
+                       f"{format_value(mf.Sut_MPa)} -> n_f = {format_value(sec.n_fatigue)}")
+        elif str(criterion) == "asme_elliptic":
+            out.append(f"  DE-ASME elliptic: n = 1/sqrt((sa'/Se)^2 + (sm'/Sy)^2) with sa' = "
+                       f"{format_value(sa)}, sm' = {format_value(sm)} -> n_f = "
+                       f"{format_value(sec.n_fatigue)}")
+        else:
+            out.append(f"  {criterion}: sa' = {format_value(sa)}, sm' = {format_value(sm)}, "
+                       f"Se = {format_value(mf.Se_MPa)}, Sut = {format_value(mf.Sut_MPa)} "
+                       f"-> n_f = {format_value(sec.n_fatigue)}")
+        need = result.checks.settings
+        out += [f"  yield: n_y = Sy / sigma'_max = {format_value(mat.Sy_MPa)} / "
+                f"{format_value(sec.sigma_max_MPa)} = {format_value(sec.n_yield)} (largest "
+                "single case)",
+                f"  required: n_f >= {format_value(need.required_fatigue_safety)}, n_y >= "
+                f"{format_value(need.required_yield_safety)} -> {sec.verdict.upper()}"]
+        out += [f"  note: {n}" for n in sec.notes]
+    return "\n".join(out)
+
+
+def explain_deflection(result: Result, item_id: str) -> str:
+    """Sheet of the slope (and, for gears, deflection) check at one bearing or gear: per
+    case the plane values from the solve, the resultants, the limit and the rule that set
+    it. Raises ``KeyError`` for an id without such a check.
+    """
+    if result.checks is None:
+        raise KeyError(item_id)
+    chk = next((c for c in (*result.checks.bearings, *result.checks.gears)
+                if c.id == item_id), None)
+    if chk is None:
+        raise KeyError(item_id)
+    out = [f"SLOPE AND DEFLECTION at {chk.kind} {chk.id} (shaft {chk.shaft}, x = "
+           f"{format_value(chk.x_mm)} mm)",
+           f"  slope limit {format_value(chk.slope_limit_rad)} rad"
+           + (f" (ok up to {format_value(chk.slope_limit_low_rad)} rad)"
+              if chk.slope_limit_low_rad != chk.slope_limit_rad else "")
+           + (f", deflection limit {format_value(chk.deflection_limit_mm)} mm"
+              if chk.deflection_limit_mm is not None else "")
+           + f"; source: {chk.source}",
+           f"  rule: slope {chk.slope_rule}"
+           + (f"; deflection {chk.deflection_rule}" if chk.deflection_rule else "")]
+    for c in chk.cases:
+        out.append(f"  {c.case}: slope = sqrt(dv/dx^2 + dw/dx^2) = sqrt(("
+                   f"{format_value(c.slope_xy_rad)})^2 + ({format_value(c.slope_xz_rad)})^2)"
+                   f" = {format_value(c.slope_rad)} rad; deflection = sqrt(v^2 + w^2) = "
+                   f"sqrt(({format_value(c.deflection_y_mm)})^2 + ("
+                   f"{format_value(c.deflection_z_mm)})^2) = {format_value(c.deflection_mm)}"
+                   f" mm -> {c.status}")
+    out.append(f"  verdict: {chk.verdict.upper()}")
     return "\n".join(out)

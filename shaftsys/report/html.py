@@ -777,6 +777,14 @@ def _fatigue_section(result: Result) -> str:
                              "Kf / Kfs", "Se MPa", "sigma_a' MPa", "sigma_m' MPa",
                              f"n fatigue ({crit}) / req", "n yield / req", "verdict"],
                             rows, (1,)))
+        stations = sorted({x.x_mm for x in sc.sections})
+        if stations:
+            from shaftsys.report.calcsheet import explain_section
+
+            sheets = "".join(f'<pre class="calcsheet">{_e(explain_section(result, sc.id, x))}'
+                             "</pre>" for x in stations)
+            parts.append(f"<details><summary>Calculation sheets of the sections of shaft "
+                         f"{_e(sc.id)}</summary>{sheets}</details>")
     parts.append(f'<p class="note">Criterion {_e(crit)} on von Mises stresses (Shigley, '
                  "shaft design chapter); Se by the Marin factors; Kf = 1 + q (Kt - 1) "
                  "applied to alternating and mean stress; n yield is first-cycle yield "
