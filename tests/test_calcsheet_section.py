@@ -77,3 +77,22 @@ def test_slope_sheet_and_explain_option(result, capsys: pytest.CaptureFixture[st
     assert "DE-Goodman" in capsys.readouterr().out
     assert main(["check", str(REDUCER), "-q", "--explain", "output@336"]) == 2
     assert "SHAFT@X" in capsys.readouterr().err
+
+
+def test_bearing_sheet_states_the_operating_checks(result) -> None:  # type: ignore[no-untyped-def]
+    """The bearing sheet's verdict block carries the minimum-load check with its numbers:
+    the smallest running P against 0.01 C for a ball bearing (common practice, no
+    source), the mode (advisory here, by the demo's checks: section) and that it then
+    does not decide the support's verdict."""
+    from shaftsys.report.calcsheet import explain_bearing
+
+    br = result.bearing("in_B")
+    oc = br.operating_check("minimum_load")
+    sheet = explain_bearing(result, "in_B")
+    line = next(s for s in sheet.splitlines() if "smallest running P" in s)
+    assert f"(case {oc.case})" in line and "[advisory" in line
+    assert oc.limit == pytest.approx(0.01 * br.bearing.C_N, rel=1e-12)
+    m = re.search(r"= ([0-9.]+) N \(case [^)]*\) < ([0-9.]+) N", line)
+    assert m and float(m.group(1)) == pytest.approx(oc.value, rel=1e-5)
+    assert float(m.group(2)) == pytest.approx(oc.limit, rel=1e-5)
+    assert f"support in_B: {br.verdict.upper()}" in sheet

@@ -313,7 +313,22 @@ def explain_bearing(result: Result, bearing_id: str) -> str:
     sf, st = _distinct(life.s0, life.s0_min)
     add(f"   static: s0 = {sf} {'>=' if life.static_ok else '<'} "
         f"{st} -> {'PASS' if life.static_ok else 'FAIL'}")
-    add(f"   support {b.id}: {'PASS' if life.ok else 'FAIL'}")
+    for oc in br.operating:
+        if oc.check == "limiting_speed":
+            what = "speed:  largest running |n|"
+            rel = "<=" if oc.verdict == "pass" else ">"
+        else:
+            what = "load:   smallest running P (minimum load f*C, f = 0.01 ball, 0.02 roller;"\
+                " common practice, no source)"
+            rel = ">=" if oc.verdict == "pass" else "<"
+        if oc.reason is not None or oc.ratio is None:
+            add(f"   {what}: not evaluated ({oc.reason}) [{oc.mode}]")
+            continue
+        add(f"   {what} = {format_value(oc.value)} {oc.unit} (case {oc.case}) {rel} "
+            f"{format_value(oc.limit)} {oc.unit}, ratio {format_value(oc.ratio, 4)} -> "
+            f"{oc.verdict.upper()} [{oc.mode}"
+            + ("; does not decide the verdict" if not oc.counts else "") + "]")
+    add(f"   support {b.id}: {br.verdict.upper()}")
     if life.warnings:
         add("")
         add("Warnings")
