@@ -96,3 +96,26 @@ def test_bearing_sheet_states_the_operating_checks(result) -> None:  # type: ign
     assert m and float(m.group(1)) == pytest.approx(oc.value, rel=1e-5)
     assert float(m.group(2)) == pytest.approx(oc.limit, rel=1e-5)
     assert f"support in_B: {br.verdict.upper()}" in sheet
+
+
+def test_system_life_sheet_by_an_independent_root(result) -> None:  # type: ignore[no-untyped-def]
+    """Independent bearings in series: S_sys = prod 0.9^((L/L_i)^e_i) (the Weibull
+    product behind ISO 281's 90 % lives; Lundberg-Palmgren, from memory). From the
+    sheet's printed L_i and e_i, scipy's brentq solves sum (L/L_i)^e_i = ln R/ln 0.9
+    and must find the sheet's L (and the result's system life)."""
+    from scipy.optimize import brentq
+
+    from shaftsys.report.calcsheet import explain_system
+
+    sheet = explain_system(result)
+    block = sheet.split("the machine:")[1]
+    R = float(re.search(r"stated at R = ([0-9.]+)", block).group(1))
+    terms = [(float(a), float(b)) for a, b in
+             re.findall(r"= ([0-9.e+]+) h, e = ([0-9.]+), \(L/L_i\)", block)]
+    assert len(terms) == 6
+    target = math.log(R) / math.log(0.9)
+    L = brentq(lambda x: sum((x / Li) ** e for Li, e in terms) - target, 1.0, 1e9,
+               xtol=1e-6)
+    assert _num(block, "L =") == pytest.approx(L, rel=1e-5)
+    assert result.system_life_h == pytest.approx(L, rel=1e-5)
+    assert "information, not a criterion" in block or "target" in block

@@ -133,8 +133,8 @@ def _parser() -> tuple[argparse.ArgumentParser, dict[str, Handler]]:
                    help="print only the reaction table")
     c.add_argument("--explain", metavar="ID",
                    help="print the calculation sheet of one bearing, gear or belt pulley "
-                   "(with its slope check), or of the fatigue section SHAFT@X (x in mm), "
-                   "formula by formula")
+                   "(with its slope check), of the fatigue section SHAFT@X (x in mm), or "
+                   "'system-life', formula by formula")
     handlers["check"] = _check
 
     o = _command(sub, "choose", "choose every open support's bearing from a catalogue",
@@ -432,7 +432,8 @@ def _check(args: argparse.Namespace) -> int:
     pulleys = [e.id for sr in result.shafts for e in sr.shaft.elements
                if isinstance(e, Pulley)]
     section = _section_of(result, args.explain) if args.explain else None
-    if args.explain and section is None and args.explain not in {
+    if args.explain and section is None and args.explain != SYSTEM_SHEET and args.explain \
+            not in {
             b.bearing.id for b in result.bearings} | set(gears) | set(pulleys):
         raise ModelError(f"no bearing, gear, pulley or fatigue section '{args.explain}' in "
                          "the model", field="--explain",
@@ -440,7 +441,7 @@ def _check(args: argparse.Namespace) -> int:
                                                           for b in result.bearings]
                                                          + gears + pulleys)
                          + ", or SHAFT@X for the fatigue section at x mm, e.g. "
-                         + _section_example(result))
+                         + _section_example(result) + f", or {SYSTEM_SHEET}")
     if args.json != "-":
         _json_out(args, result)
     out = sys.stderr if args.json == "-" else sys.stdout
@@ -486,6 +487,8 @@ def _check(args: argparse.Namespace) -> int:
 
         if section is not None:
             text = cs.explain_section(result, *section)
+        elif args.explain == SYSTEM_SHEET:
+            text = cs.explain_system(result)
         else:
             sheet = (cs.explain_gear if args.explain in gears else
                      cs.explain_pulley if args.explain in pulleys else cs.explain_bearing)
@@ -604,6 +607,10 @@ def _plot(args: argparse.Namespace) -> int:
     if not args.quiet:
         print(f"wrote {args.output}")
     return _verdict_code(result)
+
+
+#: ``--explain`` value of the system-life sheet
+SYSTEM_SHEET = "system-life"
 
 
 def _section_of(result: Any, text: str) -> tuple[str, float] | None:

@@ -24,7 +24,7 @@ from shaftsys.model import AxialRole
 from shaftsys.units import MEGA_REVOLUTIONS
 
 __all__ = ["explain_bearing", "explain_bearing_html", "explain_deflection", "explain_gear",
-           "explain_pulley", "explain_section", "format_value"]
+           "explain_pulley", "explain_section", "explain_system", "format_value"]
 
 _RULE = "-" * 78
 
@@ -581,4 +581,57 @@ def explain_deflection(result: Result, item_id: str) -> str:
                    f"{format_value(c.deflection_z_mm)})^2) = {format_value(c.deflection_mm)}"
                    f" mm -> {c.status}")
     out.append(f"  verdict: {chk.verdict.upper()}")
+    return "\n".join(out)
+
+
+def explain_system(result: Result) -> str:
+    """Sheet of the system lives (each shaft's and the machine's): the bearings' lives at
+    90 % reliability on the verdict's basis (Lnm/a1), the Weibull combination of
+    independent bearings S_sys(L) = prod 0.9^((L/L_i)^e_i) (Lundberg-Palmgren dispersion,
+    e the Weibull slope of each type), the life at the stated reliability R from
+    sum (L/L_i)^e_i = ln R / ln 0.9, that sum recomputed at the reported life, and the
+    target with its verdict (information only without a target). Units: h.
+    """
+    import math as _m
+
+    out = ["SYSTEM LIFE (all supports of a group surviving together)",
+           "  S_sys(L) = prod_i 0.9^((L/L_i)^e_i), L_i = Lnm_i/a1 (90 % life on the "
+           "verdict basis); L at reliability R solves sum_i (L/L_i)^e_i = ln R/ln 0.9"]
+    by_shaft = {s.shaft.id: s for s in result.shafts}
+    groups = [(f"shaft {sid}", [b for b in result.bearings if b.shaft_id == sid],
+               s.system) for sid, s in by_shaft.items()]
+    groups.append(("the machine", list(result.bearings), result.system))
+    for label, bearings, sysl in groups:
+        if sysl is None:
+            continue
+        out.append("")
+        out.append(f"{label}: Weibull slopes ball {format_value(sysl.weibull_slope_ball)}, "
+                   f"roller {format_value(sysl.weibull_slope_roller)}; stated at "
+                   f"R = {format_value(sysl.reliability)} ({sysl.stated_at})")
+        L = sysl.life_h
+        total = 0.0
+        for b in bearings:
+            if b.life is None:
+                out.append(f"  {b.bearing.id}: not evaluated")
+                continue
+            Li = b.life.Lnm_h / b.life.a1
+            e = (sysl.weibull_slope_roller if b.bearing.kind.is_roller
+                 else sysl.weibull_slope_ball)
+            term = (L / Li) ** e if L is not None and _m.isfinite(L) and Li > 0 else 0.0
+            total += term
+            out.append(f"  {b.bearing.id}: L_i = {format_value(b.life.Lnm_h)} / "
+                       f"{format_value(b.life.a1)} = {format_value(Li)} h, e = "
+                       f"{format_value(e)}, (L/L_i)^e = {format_value(term)}")
+        if L is None:
+            out.append("  system life not evaluated (a bearing was not)")
+            continue
+        want = _m.log(sysl.reliability) / _m.log(0.9)
+        out.append(f"  L = {format_value(L)} h: sum = {format_value(total)} against "
+                   f"ln R/ln 0.9 = {format_value(want)}; limiting bearing "
+                   f"{sysl.limiting_bearing}")
+        if sysl.target_h is None:
+            out.append("  no target: information, not a criterion")
+        else:
+            out.append(f"  target {format_value(sysl.target_h)} h -> "
+                       f"{(sysl.verdict or '').upper()}")
     return "\n".join(out)
