@@ -43,14 +43,19 @@ def bearing_internal(b: BearingResult) -> dict[str, Any]:
     br = b.bearing
     g = br.interior
     assert g is not None
-    rows = row_geometries(br)
-    F = np.array([[ld.Fy_N, ld.Fz_N, ld.Fx_N, 0.0, 0.0] for ld in b.loads])
-    tilt = np.array([[0.0, 0.0, 0.0, ld.theta_y_rad, ld.theta_z_rad] for ld in b.loads])
-    fixed = np.array([False, False, False, True, True])
-    if all(r.alpha_deg == 0.0 for r in rows) and br.kind.is_roller:
-        fixed[2] = True  # a cylindrical roller bearing takes no thrust on its rollers
-        F[:, 2] = 0.0
-    u, iterations, residual = solve_displacement(rows, F, fixed, tilt)
+    state = b.interior_state
+    if state is not None:   # the nonlinear shaft solve: its rows and converged displacement
+        rows = list(state.rows)
+        u, iterations, residual = state.u, state.iterations, state.residual
+    else:
+        rows = row_geometries(br)
+        F = np.array([[ld.Fy_N, ld.Fz_N, ld.Fx_N, 0.0, 0.0] for ld in b.loads])
+        tilt = np.array([[0.0, 0.0, 0.0, ld.theta_y_rad, ld.theta_z_rad] for ld in b.loads])
+        fixed = np.array([False, False, False, True, True])
+        if all(r.alpha_deg == 0.0 for r in rows) and br.kind.is_roller:
+            fixed[2] = True  # a cylindrical roller bearing takes no thrust on its rollers
+            F[:, 2] = 0.0
+        u, iterations, residual = solve_displacement(rows, F, fixed, tilt)
     dists = [distribution(r, u) for r in rows]
     Q = np.concatenate([d.Q_N for d in dists], axis=1)
     K = np.sum(np.stack([d.K for d in dists]), axis=0)
@@ -94,6 +99,7 @@ def bearing_internal(b: BearingResult) -> dict[str, Any]:
         "stiffness_order": ["y_mm", "z_mm", "x_mm", "theta_y_rad", "theta_z_rad"],
         "element_angles_deg": [360.0 * j / g.Z for j in range(g.Z)] * len(rows),
         "newton_iterations": iterations, "newton_residual": residual,
+        "shaft_solve_stiffness": "nonlinear" if state is not None else "rigid",
         "roller_slices": ROLLER_SLICES if line else 1,
         "cases": cases,
     }

@@ -139,6 +139,9 @@ class ShaftResult:
     condition_estimate: float
     system_life_h: float | None = None
     limiting_bearing: str | None = None
+    #: how the nonlinear bearing solve went (``analysis.nonlinear.NonlinearInfo``), or
+    #: None when the shaft's supports were taken as typed
+    nonlinear: Any = None
 
     def with_system_life(self, life_h: float | None, limiting: str | None) -> ShaftResult:
         """The same shaft result with its bearings' system life [h] (built by the
@@ -162,6 +165,9 @@ class BearingResult:
     bearing: Bearing
     loads: tuple[BearingCaseLoad, ...]
     life: BearingLife | None = None
+    #: rows and converged ring displacement of a bearing in the nonlinear shaft solve
+    #: (``analysis.nonlinear.InteriorState``), else None
+    interior_state: Any = None
 
     @property
     def verdict(self) -> str:

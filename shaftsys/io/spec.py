@@ -487,6 +487,16 @@ SOLVER = {
     "residual_tolerance": F("number", "largest equilibrium residual", default=1e-9,
                             positive=True, maximum=1e-3),
     "shaft_weight": F("bool", "include the shaft's own weight", default=True),
+    "bearing_stiffness": F("choice", "rigid: supports as typed (rigid or linear springs); "
+                           "nonlinear: every bearing with an interior takes the tangent "
+                           "stiffness of its rolling-element loads, iterated per case until "
+                           "the reactions converge", default="rigid",
+                           choices=("rigid", "nonlinear")),
+    "nonlinear_tolerance": F("number", "convergence of the nonlinear bearing solve: largest "
+                             "out-of-balance force at the bearings / largest load",
+                             default=1e-8, positive=True, maximum=1e-2),
+    "nonlinear_max_iterations": F("int", "most Newton iterations of the nonlinear bearing "
+                                  "solve per case", default=60, minimum=1, maximum=10_000),
 }
 
 CHECKS = {

@@ -29,3 +29,21 @@ def internal_table(result: Result) -> str:
     title = ("Inside the bearings (rolling-element loads; reference life by the ISO/TS "
              "16281 approach against the ISO 281 L10)")
     return title + "\n" + format_table(headers, rows, "llrrrrrrr")
+
+
+def nonlinear_solve_lines(result: Result) -> str:
+    """One line per shaft solved with nonlinear bearing stiffness: its bearings, how
+    the thrust was shared, and the Newton iterations and residual of every case.
+    """
+    lines = []
+    for s in result.shafts:
+        info = s.nonlinear
+        if info is None:
+            continue
+        per_case = ", ".join(f"{c.case} {int(info.iterations[k])} it {info.residual[k]:.1e}"
+                             for k, c in enumerate(s.cases))
+        axial = ("thrust by displacement compatibility" if info.axial == "compatibility"
+                 else "thrust by the axial rule")
+        lines.append(f"Nonlinear bearing stiffness, shaft '{s.shaft.id}' (bearings "
+                     f"{', '.join(info.bearings)}; {axial}): {per_case}")
+    return "\n".join(lines)
