@@ -326,8 +326,11 @@ def solve_nonlinear(shaft: Shaft, mesh: Any, bearing_nodes: dict[str, int], rigi
         tilt = np.zeros((m, 5))
         tilt[:, 3] = -rigid.u_xz[2 * node + 1]
         tilt[:, 4] = rigid.u_xy[2 * node + 1]
-        fix = np.array([False, False, idx[2] < 0, True, True])
-        if idx[2] < 0:
+        # a preloaded pair starts where it was mounted (axial 0): each bearing alone
+        # under the rule's thrust would start from a lifted-off ring
+        preloaded = any(r.preload_mm > 0.0 for r in rows[b.id]) and b.pair is not None
+        fix = np.array([False, False, idx[2] < 0 or preloaded, True, True])
+        if idx[2] < 0 or preloaded:
             F0[:, 2] = 0.0
         u0, _, _ = solve_displacement(rows[b.id], F0, fix, tilt, check=False, max_iter=40)
         ok = idx >= 0
@@ -378,6 +381,9 @@ def solve_nonlinear(shaft: Shaft, mesh: Any, bearing_nodes: dict[str, int], rigi
     g, J, forces = evaluate(q)
     scale5 = np.array([1.0, 1.0, 1.0, 1.0 / R_ref, 1.0 / R_ref])
     f_start = np.max([np.abs(f * scale5).max(axis=1) for f in forces.values()], axis=0)
+    for b, _ in maps:   # a preload loads the bearing with no external load
+        f_mounted = sum(distribution(r, np.zeros((1, 5))).f for r in rows[b.id])
+        f_start = np.maximum(f_start, float(np.abs(f_mounted * scale5).max()))
     ref = np.maximum(np.maximum(np.abs(Fq * sc).max(axis=1, initial=0.0), f_start), 1e-9)
     U, R, _ = recover(q)
     Fq[:, nB:] = targets(forces, support_reactions(U, R))
@@ -410,8 +416,9 @@ def solve_nonlinear(shaft: Shaft, mesh: Any, bearing_nodes: dict[str, int], rigi
             k = int(bad[np.argmax(res[bad])]) if np.all(np.isfinite(res[bad])) else int(bad[0])
             raise NumericalError(
                 f"shaft '{shaft.id}', case '{case_ids[k]}': the nonlinear bearing solve "
-                f"did not converge in {it} Newton iterations (largest out-of-balance "
-                f"force {res[k]:.3g} of the load, tolerance {tol:.2g}): look for a bearing "
+                f"did not converge in {it} Newton iterations (residual {res[k]:.3g}: the "
+                f"largest out-of-balance force at the bearings relative to the largest "
+                f"load; tolerance {tol:.2g}): look for a bearing "
                 "with a large clearance or no load in this case, or raise "
                 "solver.nonlinear_max_iterations")
         passes += 1

@@ -320,8 +320,31 @@ def solve_displacement(rows: list[RowGeometry], F: FloatArray,
     worst = float(res.max()) if m else 0.0
     if check and worst > max(tol, 1e-6):
         raise NumericalError(f"the rolling-element load distribution did not converge "
-                             f"in {it} Newton steps (residual {worst:.2g})")
+                             f"in {it} Newton steps (residual {worst:.2g})"
+                             + _thrust_hint(rows, F, res, tol))
     return u, it, worst
+
+
+def _thrust_hint(rows: list[RowGeometry], F: FloatArray, res: FloatArray, tol: float
+                 ) -> str:
+    """Why tapered rows taking thrust one way have no equilibrium: each roller's load
+    leans by the contact angle, so Fa = tan(alpha) sum Q cos(alpha) >= Fr tan(alpha)
+    whatever the tilt (the limit of a load zone shrinking to one roller).
+    """
+    one_way = [r for r in rows if r.alpha_deg > 0.0 and r.line]  # fixed contact angle
+    if not one_way or len({r.side for r in one_way}) > 1:
+        return ""
+    t = math.tan(math.radians(min(r.alpha_deg for r in one_way)))
+    k = int(np.argmax(res))
+    Fr = float(np.hypot(F[k, 0], F[k, 1]))
+    Fa = float(one_way[0].side * F[k, 2])
+    if Fr > 0.0 and Fa < Fr * t:
+        return (f": a row with contact angle {min(r.alpha_deg for r in one_way):.3g} deg "
+                f"cannot carry its radial load with less thrust than Fr tan(alpha) (here "
+                f"Fa/Fr = {Fa / Fr:.3g} < {t:.3g}); the thrust of its adjusted partner is "
+                "missing (solver: {bearing_stiffness: nonlinear} shares an adjusted pair's "
+                "thrust by displacement compatibility)")
+    return ""
 
 
 def load_zone_factor(g: RowGeometry, u: FloatArray) -> FloatArray:
