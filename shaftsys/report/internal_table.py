@@ -46,4 +46,7 @@ def nonlinear_solve_lines(result: Result) -> str:
                  else "thrust by the axial rule")
         lines.append(f"Nonlinear bearing stiffness, shaft '{s.shaft.id}' (bearings "
                      f"{', '.join(info.bearings)}; {axial}): {per_case}")
+    if lines:
+        lines.append("(rigid rings and housing, aligned outer rings; an estimate that does not "
+                     "replace the bearing maker's calculation)")
     return "\n".join(lines)
