@@ -864,7 +864,8 @@ def _read_life(top: Where, raw: Any) -> LifeSettings:
                         reliability_method=v["reliability_method"],
                         application_factor=v["application_factor"],
                         min_speed_rpm=v["min_speed"], s0_min=v["s0_min"],
-                        use_modified_life=v["modified_life"])
+                        use_modified_life=v["modified_life"],
+                        from_element_loads=v["from_element_loads"])
 
 
 def _read_selection(top: Where, raw: Any) -> SelectionSettings:

@@ -477,6 +477,10 @@ LIFE = {
                    dim="speed", default=10.0, non_negative=True, maximum=MAX_SPEED_RPM),
     "s0_min": F("number", "required static safety for every bearing", positive=True),
     "modified_life": F("bool", "use Lnm when lubrication data is given", default=True),
+    "from_element_loads": F("bool", "the life verdict of a bearing with an interior uses "
+                            "its modified reference life from the rolling-element loads "
+                            "(a1 aISO times the ISO/TS 16281-style reference life) instead "
+                            "of the ISO 281 life", default=False),
 }
 
 SOLVER = {

@@ -28,7 +28,22 @@ def internal_table(result: Result) -> str:
                          sig(c["max_contact_pressure_MPa"], 4), sig(c["life_ratio"])])
     title = ("Inside the bearings (rolling-element loads; reference life by the ISO/TS "
              "16281 approach against the ISO 281 L10)")
-    return title + "\n" + format_table(headers, rows, "llrrrrrrr")
+    lives = []
+    for b in result.bearings:
+        data = (result.internal or {}).get(b.bearing.id)
+        if data is None or "modified_reference_life_h" not in data:
+            continue
+        basis = ("the verdict uses it" if data["verdict_basis"] == "element_loads"
+                 else "the verdict uses ISO 281")
+        lives.append(f"{b.shaft_id}/{b.bearing.id}: life from the element loads "
+                     f"(a1 aISO Lref) {_hours(data['modified_reference_life_h'])} beside "
+                     f"ISO 281 {_hours(data['iso281_life_h'])}, ratio "
+                     f"{sig(data['modified_life_ratio'])}; {basis}")
+    return "\n".join([title, format_table(headers, rows, "llrrrrrrr"), *lives])
+
+
+def _hours(value: float | None) -> str:
+    return "unbounded" if value is None or value == float("inf") else f"{sig(value)} h"
 
 
 def nonlinear_solve_lines(result: Result) -> str:
