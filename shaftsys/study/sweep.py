@@ -131,7 +131,9 @@ class Study:
                 and all(placeholders[o.bearing_id].pair is None
                         for o in self.model.open_seats)
                 and not any(getattr(e, "hubs_mm", ())  # a drum's hubs: loads off its station
-                            for e in self.model.shafts[0].elements))
+                            for e in self.model.shafts[0].elements)
+                # nonlinear bearing stiffness: the solve of analyse
+                and self.model.solver.bearing_stiffness != "nonlinear")
 
     def values_block(self, lo: int, hi: int) -> NDArray[np.float64]:
         """Values of variants ``lo..hi-1``, shape (hi - lo, n_quantities)."""
