@@ -65,6 +65,8 @@ FloatArray = NDArray[np.float64]
 #: Sign of each bearing displacement component against the shaft's degrees of freedom:
 #: (uy, uz, ux, theta_y, theta_z) against (v, w, ux, dw/dx, dv/dx); theta_y = -dw/dx.
 _SIGN = np.array([1.0, 1.0, 1.0, -1.0, 1.0])
+#: Newton steps of each bearing alone for the start (a start, not a solution).
+START_ITERATIONS = 8
 #: Most passes of the axial rule around the Newton solve (rule mode).
 MAX_AXIAL_PASSES = 30
 
@@ -78,6 +80,30 @@ def nonlinear_bearings(shaft: Shaft) -> list[Bearing]:
 def takes_thrust(rows: list[RowGeometry]) -> bool:
     """The rows carry thrust on their elements (not a cylindrical roller bearing)."""
     return not (rows[0].line and all(r.alpha_deg == 0.0 for r in rows))
+
+
+def _stribeck_start(rows: list[RowGeometry], F: FloatArray, fixed: NDArray[np.bool_],
+                    tilt: FloatArray) -> FloatArray:
+    """A start displacement (m, 5) of rows under the loads F (m, 5): the most loaded
+    element's approach by Stribeck's Qmax = 5 Fr / (Z cos a) plus half the clearance
+    along the radial load, and, for rows with a contact angle, the approach of every
+    element sharing the thrust, Fa / (Z sin a), along the thrust; the tilt as given.
+    """
+    r = rows[0]
+    n_rows = len(rows)
+    ca = max(math.cos(math.radians(r.alpha_deg)), 1e-3)
+    sa = math.sin(math.radians(r.alpha_deg))
+    Fr = np.hypot(F[:, 0], F[:, 1])
+    d_r = (5.0 * Fr / (n_rows * r.Z * ca) / r.K_N) ** (1.0 / r.n) / ca
+    d_r = d_r + 0.5 * r.clearance_mm
+    u = np.array(tilt, dtype=np.float64, copy=True)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        u[:, 0] = np.where(Fr > 0, F[:, 0] / Fr * d_r, 0.0)
+        u[:, 1] = np.where(Fr > 0, F[:, 1] / Fr * d_r, 0.0)
+    if not fixed[2] and sa > 0.0:
+        d_a = (np.abs(F[:, 2]) / (r.Z * sa) / r.K_N) ** (1.0 / r.n) / sa
+        u[:, 2] = np.sign(F[:, 2]) * d_a
+    return u
 
 
 @dataclass(frozen=True, eq=False)
@@ -259,10 +285,13 @@ def solve_nonlinear(shaft: Shaft, mesh: Any, bearing_nodes: dict[str, int], rigi
     K_II = K[Iarr][:, Iarr].tocsc()
     K_IB = K[Iarr][:, Barr].toarray()
     K_BB = K[Barr][:, Barr].toarray()
+    X = np.zeros((0, nB))
+    Y = np.zeros((0, m))
     try:
-        lu = splu(K_II)
-        X = lu.solve(K_IB) if Iarr.size else np.zeros((0, nB))
-        Y = lu.solve(F[Iarr]) if Iarr.size else np.zeros((0, m))
+        if Iarr.size:
+            lu = splu(K_II)
+            X = lu.solve(K_IB)
+            Y = lu.solve(F[Iarr])
     except RuntimeError as exc:  # a singular interior: the shaft is not held
         raise NumericalError(f"shaft '{shaft.id}': the shaft between its bearings cannot "
                              f"be condensed onto them for the nonlinear bearing solve "
@@ -316,25 +345,46 @@ def solve_nonlinear(shaft: Shaft, mesh: Any, bearing_nodes: dict[str, int], rigi
         else:
             Fr_rigid[b.id] = np.zeros(m)
     on_shaft, _ = axial_reactions(shaft.bearings, Ka, Fr_rigid)
-    q = np.zeros((m, nq))
+    scale5 = np.array([1.0, 1.0, 1.0, 1.0 / R_ref, 1.0 / R_ref])
+    starts: list[tuple[Bearing, NDArray[np.int64], FloatArray, FloatArray, NDArray[np.bool_]]]
+    starts = []
+    f_ref = np.zeros(m)
     for b, idx in maps:
         node = bearing_nodes[b.id]
         r = np.array([rigid.reaction(b.id, k) for k in range(m)])
         F0 = np.column_stack([-r[:, 0], -r[:, 1],
                               -np.broadcast_to(on_shaft[b.id], (m,)), np.zeros(m),
                               np.zeros(m)])
+        f_ref = np.maximum(f_ref, np.abs(F0 * scale5).max(axis=1))
+        # a preload loads the bearing with no external load
+        f_mounted = sum(distribution(r_, np.zeros((1, 5))).f for r_ in rows[b.id])
+        f_ref = np.maximum(f_ref, float(np.abs(f_mounted * scale5).max()))
         tilt = np.zeros((m, 5))
         tilt[:, 3] = -rigid.u_xz[2 * node + 1]
         tilt[:, 4] = rigid.u_xy[2 * node + 1]
         # a preloaded pair starts where it was mounted (axial 0): each bearing alone
         # under the rule's thrust would start from a lifted-off ring
-        preloaded = any(r.preload_mm > 0.0 for r in rows[b.id]) and b.pair is not None
+        preloaded = any(r_.preload_mm > 0.0 for r_ in rows[b.id]) and b.pair is not None
         fix = np.array([False, False, idx[2] < 0 or preloaded, True, True])
         if idx[2] < 0 or preloaded:
             F0[:, 2] = 0.0
-        u0, _, _ = solve_displacement(rows[b.id], F0, fix, tilt, check=False, max_iter=40)
-        ok = idx >= 0
-        q[:, idx[ok]] = u0[:, ok] * _SIGN[ok]
+        starts.append((b, idx, F0, tilt, fix))
+
+    def start(alone: bool) -> FloatArray:
+        """The start: each bearing's displacement under its rigid-support reaction at
+        the rigid slope, by Stribeck's Qmax = 5 Fr / (Z cos a) (and Fa / (Z sin a) for
+        thrust; common practice) or, ``alone``, by Newton steps of each bearing alone.
+        """
+        q = np.zeros((m, nq))
+        for b, idx, F0, tilt, fix in starts:
+            if alone:
+                u0, _, _ = solve_displacement(rows[b.id], F0, fix, tilt, tol=1e-3,
+                                              check=False, max_iter=START_ITERATIONS)
+            else:
+                u0 = _stribeck_start(rows[b.id], F0, fix, tilt)
+            ok = idx >= 0
+            q[:, idx[ok]] = u0[:, ok] * _SIGN[ok]
+        return q
 
     def targets(forces: dict[str, FloatArray], reac: tuple[FloatArray, FloatArray]
                 ) -> FloatArray:
@@ -376,64 +426,70 @@ def solve_nonlinear(shaft: Shaft, mesh: Any, bearing_nodes: dict[str, int], rigi
                     r_out[j, c] = R[dof] - springs[2 * i + c] * U[dof]
         return r_xy, r_xz
 
-    iterations = np.zeros(m, dtype=np.int64)
-    passes = np.zeros(m, dtype=np.int64)
-    g, J, forces = evaluate(q)
-    scale5 = np.array([1.0, 1.0, 1.0, 1.0 / R_ref, 1.0 / R_ref])
-    f_start = np.max([np.abs(f * scale5).max(axis=1) for f in forces.values()], axis=0)
-    for b, _ in maps:   # a preload loads the bearing with no external load
-        f_mounted = sum(distribution(r, np.zeros((1, 5))).f for r in rows[b.id])
-        f_start = np.maximum(f_start, float(np.abs(f_mounted * scale5).max()))
-    ref = np.maximum(np.maximum(np.abs(Fq * sc).max(axis=1, initial=0.0), f_start), 1e-9)
-    U, R, _ = recover(q)
-    Fq[:, nB:] = targets(forces, support_reactions(U, R))
-    for _pass in range(MAX_AXIAL_PASSES):
+    ref = np.maximum(np.maximum(np.abs(Fq * sc).max(axis=1, initial=0.0), f_ref), 1e-9)
+
+    def newton(q: FloatArray) -> tuple[FloatArray, FloatArray, NDArray[np.int64],
+                                       NDArray[np.int64]]:
+        """Newton from ``q`` (passes of the axial rule around it); NumericalError when
+        a case does not converge.
+        """
+        iterations = np.zeros(m, dtype=np.int64)
+        passes = np.zeros(m, dtype=np.int64)
         g, J, forces = evaluate(q)
-        res = np.abs(g * sc).max(axis=1) / ref
-        it = 0
-        while it < max_iter and np.any(res > tol):
-            it += 1
-            active = res > tol
-            iterations += active
-            diag = np.abs(np.diagonal(J, axis1=1, axis2=2)).max(axis=1)
-            reg = (1e-12 * diag + 1e-9)[:, None, None] * np.eye(nq)
-            step = np.linalg.solve(J + reg, -g[..., None])[..., 0]
-            step /= np.maximum(np.abs(step / limit).max(axis=1), 1.0)[:, None]
-            lam = np.ones(m)
-            for _ in range(30):
-                trial = q + lam[:, None] * step
-                gt, _, _ = evaluate(trial)
-                rt = np.abs(gt * sc).max(axis=1) / ref
-                better = (rt < res) | ~active
-                if np.all(better):
-                    break
-                lam = np.where(better, lam, 0.5 * lam)
-            q = np.where(active[:, None], trial, q)
+        U, R, _ = recover(q)
+        Fq[:, nB:] = targets(forces, support_reactions(U, R))
+        change = np.zeros(m)
+        for _pass in range(MAX_AXIAL_PASSES):
             g, J, forces = evaluate(q)
             res = np.abs(g * sc).max(axis=1) / ref
-        bad = np.flatnonzero(~(res <= tol))
-        if bad.size:
-            k = int(bad[np.argmax(res[bad])]) if np.all(np.isfinite(res[bad])) else int(bad[0])
-            raise NumericalError(
-                f"shaft '{shaft.id}', case '{case_ids[k]}': the nonlinear bearing solve "
-                f"did not converge in {it} Newton iterations (residual {res[k]:.3g}: the "
-                f"largest out-of-balance force at the bearings relative to the largest "
-                f"load; tolerance {tol:.2g}): look for a bearing "
-                "with a large clearance or no load in this case, or raise "
-                "solver.nonlinear_max_iterations")
-        passes += 1
-        U, R, _ = recover(q)
-        new = targets(forces, support_reactions(U, R))
-        change = np.abs(new - Fq[:, nB:]).max(axis=1, initial=0.0) / ref
-        Fq[:, nB:] = new
-        if not np.any(change > tol):
-            break
-    else:
+            it = 0
+            while it < max_iter and np.any(res > tol):
+                it += 1
+                active = res > tol
+                iterations += active
+                diag = np.abs(np.diagonal(J, axis1=1, axis2=2)).max(axis=1)
+                reg = (1e-12 * diag + 1e-9)[:, None, None] * np.eye(nq)
+                step = np.linalg.solve(J + reg, -g[..., None])[..., 0]
+                step /= np.maximum(np.abs(step / limit).max(axis=1), 1.0)[:, None]
+                lam = np.where(active, 1.0, 0.0)    # converged cases stay where they are
+                for _ in range(30):
+                    trial = q + lam[:, None] * step
+                    gt, Jt, ft = evaluate(trial)
+                    rt = np.abs(gt * sc).max(axis=1) / ref
+                    better = (rt < res) | ~active
+                    if np.all(better):
+                        break
+                    lam = np.where(better, lam, 0.5 * lam)
+                q, g, J, forces = trial, gt, Jt, ft
+                res = np.abs(g * sc).max(axis=1) / ref
+            bad = np.flatnonzero(~(res <= tol))
+            if bad.size:
+                k = (int(bad[np.argmax(res[bad])]) if np.all(np.isfinite(res[bad]))
+                     else int(bad[0]))
+                raise NumericalError(
+                    f"shaft '{shaft.id}', case '{case_ids[k]}': the nonlinear bearing solve "
+                    f"did not converge in {it} Newton iterations (residual {res[k]:.3g}: "
+                    f"the largest out-of-balance force at the bearings relative to the "
+                    f"largest load; tolerance {tol:.2g}): look for a bearing with a large "
+                    "clearance or no load in this case, or raise "
+                    "solver.nonlinear_max_iterations")
+            passes += 1
+            U, R, _ = recover(q)
+            new = targets(forces, support_reactions(U, R))
+            change = np.abs(new - Fq[:, nB:]).max(axis=1, initial=0.0) / ref
+            Fq[:, nB:] = new
+            if not np.any(change > tol):
+                return q, res, iterations, passes
         k = int(np.argmax(change))
         raise NumericalError(
             f"shaft '{shaft.id}', case '{case_ids[k]}': the thrusts of the axial rule did "
             f"not settle with the nonlinear bearings in {MAX_AXIAL_PASSES} passes (last "
             f"change {change[k]:.3g} of the load)")
+
+    try:   # the cheap start first; each bearing solved alone when that fails
+        q, res, iterations, passes = newton(start(alone=False))
+    except NumericalError:
+        q, res, iterations, passes = newton(start(alone=True))
     U, R, _ = recover(q)
     r_xy, r_xz = support_reactions(U, R)
     u_xy, u_xz = U[:2 * n], U[2 * n:4 * n]
