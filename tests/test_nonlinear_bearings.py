@@ -343,3 +343,20 @@ def test_json_reports_iterations_and_residual_per_case(tmp_path: Path) -> None:
     rigid = tmp_path / "rigid.json"
     main(["check", str(MODELS / "machine_clearance.yaml"), "--json", str(rigid), "--quiet"])
     assert "nonlinear_solve" not in json.loads(rigid.read_text())
+
+
+def test_a_failed_start_falls_back_to_each_bearing_alone(monkeypatch) -> None:
+    """Newton from a useless start (NaN) fails; the second start (each bearing solved
+    alone under its rigid-support reaction) reaches the same state (uniqueness of the
+    equilibrium of the shaft on its bearings)."""
+    model = load_model_text(THREE.format(bearings=BALLS))
+    ref = _reactions(solve_model(model))
+    monkeypatch.setattr(nonlinear, "_stribeck_start",
+                        lambda rows, F, fixed, tilt: np.full((F.shape[0], 5), np.nan))
+    alone = nonlinear.solve_displacement
+    calls = []
+    monkeypatch.setattr(nonlinear, "solve_displacement",
+                        lambda *a, **k: calls.append(1) or alone(*a, **k))
+    got = _reactions(solve_model(model))
+    assert len(calls) == 3                      # the second start: each bearing alone
+    np.testing.assert_allclose(got, ref, rtol=0, atol=1e-6 * np.abs(ref).max())
