@@ -12,7 +12,7 @@ from typing import Any
 
 import numpy as np
 
-from shaftsys.analysis.interior import internal_results
+from shaftsys.analysis.interior import element_load_verdicts, internal_results
 from shaftsys.analysis.life import evaluate_lives
 from shaftsys.analysis.results import Result
 from shaftsys.analysis.selection import choose_bearings
@@ -67,7 +67,10 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
         shafts = tuple(s.with_system_life(*lives.shaft_system[s.shaft.id],
                                           shaft_lives.get(s.shaft.id)) for s in shafts)
     checks = check_shaft_results(model, shafts) if with_shaft_checks else None
-    internal = internal_results(bearings) if with_life else None
+    from_loads = model.life.from_element_loads
+    internal = internal_results(bearings, from_loads) if with_life else None
+    if internal and from_loads:
+        bearings = element_load_verdicts(bearings, internal)
     return Result(model=model, shafts=shafts, bearings=bearings,
                   system_life_h=system_life_h, limiting_bearing=limiting,
                   warnings=(*model.warnings, *warnings, *_rating_slips(model, bearings)),

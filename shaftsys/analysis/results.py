@@ -147,6 +147,9 @@ class ShaftResult:
     system_life_h: float | None = None
     limiting_bearing: str | None = None
     system: SystemLife | None = None
+    #: how the nonlinear bearing solve went (``analysis.nonlinear.NonlinearInfo``), or
+    #: None when the shaft's supports were taken as typed
+    nonlinear: Any = None
 
     def with_system_life(self, life_h: float | None, limiting: str | None,
                          system: SystemLife | None = None) -> ShaftResult:
@@ -234,6 +237,9 @@ class BearingResult:
     loads: tuple[BearingCaseLoad, ...]
     life: BearingLife | None = None
     operating: tuple[OperatingCheck, ...] = ()
+    #: rows and converged ring displacement of a bearing in the nonlinear shaft solve
+    #: (``analysis.nonlinear.InteriorState``), else None
+    interior_state: Any = None
 
     @property
     def verdict(self) -> str:

@@ -19,6 +19,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from shaftsys.analysis.element_forces import element_loads, shaft_speed, vec3
+from shaftsys.analysis.nonlinear import NonlinearSolution, nonlinear_bearings, solve_nonlinear
 from shaftsys.analysis.results import (
     AppliedLoad,
     BearingCaseLoad,
@@ -172,13 +173,23 @@ def solve_model(model: Model) -> SolvedModel:
             warnings.extend(w)
         applied_by_shaft[shaft.id] = applied_all
     bendings: dict[str, Any] = {}
+    nonlinear = model.solver.bearing_stiffness == "nonlinear"
     for group in shaft_groups(model):
         if len(group) == 1:
             shaft = model.shaft(group[0])
-            bendings[shaft.id] = solve_shaft_bending(shaft, meshes[shaft.id], model,
-                                                     applied_by_shaft[shaft.id])
+            bending = solve_shaft_bending(shaft, meshes[shaft.id], model,
+                                          applied_by_shaft[shaft.id])
+            if nonlinear and nonlinear_bearings(shaft):
+                bending = _nonlinear_bending(model, shaft, meshes[shaft.id], bending,
+                                             applied_by_shaft[shaft.id])
+            bendings[shaft.id] = bending
         else:
             bendings.update(solve_coupled_group(model, group, meshes, applied_by_shaft))
+            if nonlinear and any(nonlinear_bearings(model.shaft(s_)) for s_ in group):
+                warnings.append("the nonlinear bearing stiffness is not applied to shafts "
+                                "joined by a bearing between them (" + ", ".join(
+                                    f"'{s_}'" for s_ in group) + "): their supports stay "
+                                "as typed")
     for shaft in model.shafts:
         sm = meshes[shaft.id]
         applied_all = applied_by_shaft[shaft.id]
@@ -191,9 +202,13 @@ def solve_model(model: Model) -> SolvedModel:
             cases.append(sol)
             for bid, ld in bl.items():
                 per_bearing[bid].append(ld)
-        shaft_results.append(ShaftResult(shaft, tuple(cases), bending.condition))
+        nl = bending.nonlinear if isinstance(bending, BendingSolution) else None
+        shaft_results.append(ShaftResult(shaft, tuple(cases), bending.condition,
+                                         nonlinear=None if nl is None else nl.info))
         for b in shaft.bearings:
-            bearing_results.append(BearingResult(shaft.id, b, tuple(per_bearing[b.id])))
+            state = None if nl is None else nl.states.get(b.id)
+            bearing_results.append(BearingResult(shaft.id, b, tuple(per_bearing[b.id]),
+                                                 interior_state=state))
     return SolvedModel(tuple(shaft_results), tuple(bearing_results),
                        tuple(dict.fromkeys(warnings)),
                        tuple(f for f in flows if f is not None))
@@ -231,10 +246,18 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
     for b in shaft.bearings:
         ry, rz, my, mz = bending.reaction(b.id, k)
         radial[b.id] = (ry, rz, my, mz)
-    # --- axial arrangement rule: axial force each bearing puts on the shaft
+    # --- axial arrangement rule (or, with nonlinear bearings, their displacement
+    # compatibility): axial force each bearing puts on the shaft
     Ka = float(fx.sum())
-    axial_on_shaft, induced = axial_reactions(shaft.bearings, Ka, {
-        bid: math.hypot(r[0], r[1]) for bid, r in radial.items()})
+    nl = getattr(bending, "nonlinear", None)
+    nl_axial = None if nl is None else nl.axial_on_shaft
+    if nl_axial is not None:
+        axial_on_shaft = {b.id: float(nl_axial[b.id][k]) if b.id in nl_axial else 0.0
+                          for b in shaft.bearings}
+        induced: dict[str, Any] = {}
+    else:
+        axial_on_shaft, induced = axial_reactions(shaft.bearings, Ka, {
+            bid: math.hypot(r[0], r[1]) for bid, r in radial.items()})
     for b in shaft.bearings:
         fx[sm.bearing_nodes[b.id]] += axial_on_shaft[b.id]
     # --- axial and torsion by integration (statically determinate bars)
@@ -243,6 +266,8 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
     ref_node = _axial_reference_node(shaft, sm, axial_on_shaft)
     ux = np.concatenate([[0.0], np.cumsum(N_node * mesh.L_mm / mesh.EA_N)])
     ux -= ux[ref_node]
+    if nl is not None and nl.ux is not None:   # the bearings' axial deflection included
+        ux = nl.ux[:, k].copy()
     torque_ref = _torsion_reference_node(sm, drive)
     rx = np.concatenate([[0.0], np.cumsum(T_elem * mesh.L_mm / mesh.GJ_Nmm2)])
     rx -= rx[torque_ref]
@@ -308,6 +333,26 @@ def _finish_case(model: Model, shaft: Shaft, sm: ShaftMesh, case: Case,
         T_Nmm=T_st, My_Nmm=My, Mz_Nmm=Mz, applied=tuple(applied), force_residual_N=f_res,
         moment_residual_Nmm=m_res, residual_relative=rel, nodal_residual_relative=nodal_rel)
     return sol, loads
+
+
+def _nonlinear_bending(model: Model, shaft: Shaft, sm: ShaftMesh, rigid: BendingSolution,
+                       applied_all: list[list[AppliedLoad]]) -> BendingSolution:
+    """The bending solution with the shaft's bearings of modelled interior as nonlinear
+    supports (:mod:`shaftsys.analysis.nonlinear`), from the rigid solution ``rigid``.
+    """
+    n = sm.mesh.n_nodes
+    fx = np.zeros((n, len(applied_all)))
+    for k, applied in enumerate(applied_all):
+        for a in applied:
+            fx[_node_of(sm, a), k] += a.force_N[0]
+    fx += rigid.axial_weight_nodal[:, None]
+    nls = solve_nonlinear(shaft, sm.mesh, sm.bearing_nodes, rigid, fx,
+                          [c.id for c in model.cases], model.solver.nonlinear_tolerance,
+                          model.solver.nonlinear_max_iterations)
+    return replace(rigid, u_xy=nls.u_xy, u_xz=nls.u_xz, _reactions_xy=nls.r_xy,
+                   _reactions_xz=nls.r_xz,
+                   nodal_residual=nls.nodal_residual,
+                   nonlinear=nls)
 
 
 def _node_of(sm: ShaftMesh, load: AppliedLoad) -> int:
@@ -392,6 +437,8 @@ class BendingSolution:
     nodal_residual: NDArray[np.float64]
     _reactions_xy: NDArray[np.float64] = field(repr=False, default=None)  # type: ignore
     _reactions_xz: NDArray[np.float64] = field(repr=False, default=None)  # type: ignore
+    #: the nonlinear bearing solve (``solver.bearing_stiffness: nonlinear``), else None
+    nonlinear: NonlinearSolution | None = None
 
     @property
     def v(self) -> NDArray[np.float64]:  # noqa: D102

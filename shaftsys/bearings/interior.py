@@ -29,6 +29,7 @@ method with the analytic Jacobian and a backtracking line search, vectorised ove
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass, replace
 
@@ -187,8 +188,11 @@ class Distribution:
     alpha_deg: FloatArray
 
 
+@functools.lru_cache(maxsize=64)
 def _angles(Z: int) -> FloatArray:
-    return np.asarray(2.0 * np.pi * np.arange(Z) / Z, dtype=np.float64)
+    out = np.asarray(2.0 * np.pi * np.arange(Z) / Z, dtype=np.float64)
+    out.setflags(write=False)
+    return out
 
 
 def distribution(g: RowGeometry, u: FloatArray) -> Distribution:
@@ -221,9 +225,9 @@ def distribution(g: RowGeometry, u: FloatArray) -> Distribution:
         ca, sa_ = sr / dist, sax / dist
         grad = ca[..., None] * dur + (side * sa_)[..., None] * dua          # (m, Z, 5)
         tang = (-sa_)[..., None] * dur + (side * ca)[..., None] * dua
-        f = np.einsum("mj,mjk->mk", Q, grad)
-        K = (np.einsum("mj,mjk,mjl->mkl", dQ, grad, grad)
-             + np.einsum("mj,mjk,mjl->mkl", Q / dist, tang, tang))
+        f = np.matmul(Q[:, None, :], grad)[:, 0]
+        K = (np.matmul(np.swapaxes(dQ[..., None] * grad, 1, 2), grad)
+             + np.matmul(np.swapaxes((Q / dist)[..., None] * tang, 1, 2), tang))
         alpha = np.degrees(np.arctan2(sax, sr))
         return Distribution(Q, delta, f, K, alpha)
     L = g.Lwe_mm if g.Lwe_mm is not None else g.Dw_mm
@@ -238,8 +242,10 @@ def distribution(g: RowGeometry, u: FloatArray) -> Distribution:
     dq = n * w * pos ** (n - 1.0)
     grad = (cl * (dur[:, None, :] + xk[None, :, None] * dkap[:, None, :])
             + side * sl * dua[:, None, :])                               # (Z, k, 5)
-    f = np.einsum("mjk,jkl->ml", q, grad)
-    K = np.einsum("mjk,jkl,jkp->mlp", dq, grad, grad)
+    nzk = g.Z * ROLLER_SLICES
+    f = q.reshape(m, nzk) @ grad.reshape(nzk, 5)
+    outer = (grad[..., :, None] * grad[..., None, :]).reshape(nzk, 25)
+    K = (dq.reshape(m, nzk) @ outer).reshape(m, 5, 5)
     Q = q.sum(axis=2)
     delta = d.max(axis=2)
     return Distribution(Q, delta, f, K, np.full((m, g.Z), g.alpha_deg))
@@ -248,7 +254,8 @@ def distribution(g: RowGeometry, u: FloatArray) -> Distribution:
 def solve_displacement(rows: list[RowGeometry], F: FloatArray,
                        fixed: NDArray[np.bool_] | None = None,
                        u_fixed: FloatArray | None = None, *, tol: float = 1e-10,
-                       max_iter: int = 100) -> tuple[FloatArray, int, float]:
+                       max_iter: int = 100, check: bool = True
+                       ) -> tuple[FloatArray, int, float]:
     """Displacement u (m, 5) at which the rows together carry the loads F (m, 5).
 
     ``fixed`` (5,): components whose displacement is given (``u_fixed``, e.g. the tilt
@@ -256,7 +263,8 @@ def solve_displacement(rows: list[RowGeometry], F: FloatArray,
     stiffness, a tiny diagonal where the rows give none (a direction the rows do not
     hold, e.g. the tilt of a deep-groove bearing, stays where its load keeps it), and
     a backtracking line search on the residual. Returns (u, iterations, largest
-    relative residual); NumericalError when it does not converge.
+    relative residual); NumericalError when it does not converge (``check=False``:
+    the last iterate is returned instead, e.g. as the start of a larger solve).
     """
     F = np.atleast_2d(np.asarray(F, dtype=np.float64))
     m = F.shape[0]
@@ -310,10 +318,33 @@ def solve_displacement(rows: list[RowGeometry], F: FloatArray,
         f, K = total(u)
         res = np.linalg.norm(((f - F) * scale)[:, free], axis=1) / ref
     worst = float(res.max()) if m else 0.0
-    if worst > max(tol, 1e-6):
+    if check and worst > max(tol, 1e-6):
         raise NumericalError(f"the rolling-element load distribution did not converge "
-                             f"in {it} Newton steps (residual {worst:.2g})")
+                             f"in {it} Newton steps (residual {worst:.2g})"
+                             + _thrust_hint(rows, F, res, tol))
     return u, it, worst
+
+
+def _thrust_hint(rows: list[RowGeometry], F: FloatArray, res: FloatArray, tol: float
+                 ) -> str:
+    """Why tapered rows taking thrust one way have no equilibrium: each roller's load
+    leans by the contact angle, so Fa = tan(alpha) sum Q cos(alpha) >= Fr tan(alpha)
+    whatever the tilt (the limit of a load zone shrinking to one roller).
+    """
+    one_way = [r for r in rows if r.alpha_deg > 0.0 and r.line]  # fixed contact angle
+    if not one_way or len({r.side for r in one_way}) > 1:
+        return ""
+    t = math.tan(math.radians(min(r.alpha_deg for r in one_way)))
+    k = int(np.argmax(res))
+    Fr = float(np.hypot(F[k, 0], F[k, 1]))
+    Fa = float(one_way[0].side * F[k, 2])
+    if Fr > 0.0 and Fa < Fr * t:
+        return (f": a row with contact angle {min(r.alpha_deg for r in one_way):.3g} deg "
+                f"cannot carry its radial load with less thrust than Fr tan(alpha) (here "
+                f"Fa/Fr = {Fa / Fr:.3g} < {t:.3g}); the thrust of its adjusted partner is "
+                "missing (solver: {bearing_stiffness: nonlinear} shares an adjusted pair's "
+                "thrust by displacement compatibility)")
+    return ""
 
 
 def load_zone_factor(g: RowGeometry, u: FloatArray) -> FloatArray:

@@ -454,10 +454,12 @@ def _check(args: argparse.Namespace) -> int:
             print(file=out)
             _emit(verdict_table(result), out)
             if result.internal:
-                from shaftsys.report.internal_table import internal_table
+                from shaftsys.report.internal_table import internal_table, nonlinear_solve_lines
 
                 print(file=out)
                 _emit(internal_table(result), out)
+                if any(s.nonlinear is not None for s in result.shafts):
+                    _emit(nonlinear_solve_lines(result), out)
             if result.thermal is not None:
                 from shaftsys.report.thermal_table import thermal_table
 

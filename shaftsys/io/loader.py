@@ -139,6 +139,7 @@ def _build_model(raw: LocatedDict, file: str | None, top: Where) -> Model:
     selection = _read_selection(top, raw.get("selection"))
     lubrication = _read_lubrication(top, raw.get("lubrication"))
     solver = _read_solver(top, raw.get("solver"))
+    _check_pair_preloads(Where(file, "shafts", shafts_raw), shafts_raw, shafts, solver)
     checks = (read_section(top, raw["checks"], S.CHECKS, "checks")
               if raw.get("checks") is not None else {"fatigue": "required"})
     check_settings = (_read_checks(top.child("checks", raw["checks"]), checks, shafts)
@@ -559,12 +560,12 @@ def _read_interior(here: Where, v: dict[str, Any], kind: BearingKind, axial: Axi
     if not kind.is_roller and g["Lwe"] is not None:
         raise iw.error("Lwe", "'Lwe' is the roller length of a roller bearing",
                        "remove 'Lwe' (a ball bearing gives 'fi', 'fo')")
-    if g["preload"] is not None and (v["arrangement"] not in {
+    if g["preload"] is not None and v["pair"] is None and (v["arrangement"] not in {
             "back_to_back", "face_to_face"} or v["rows"] < 2):
-        raise iw.error("preload", "an axial preload needs an adjusted pair at one seat "
-                       "(a pair at separate seats needs the shaft's axial compatibility, "
-                       "not modelled yet)", "rows: 2 and arrangement back_to_back or "
-                       "face_to_face; else remove 'preload'")
+        raise iw.error("preload", "an axial preload needs an adjusted pair: a matched set "
+                       "at one seat, or a 'pair' at separate seats (solved with "
+                       "solver: {bearing_stiffness: nonlinear})", "rows: 2 and arrangement "
+                       "back_to_back or face_to_face, or a 'pair'; else remove 'preload'")
     if g["preload"] is not None and g["clearance"] not in (None, 0.0):
         raise iw.error("clearance", "a preloaded pair has no clearance",
                        "either 'clearance' or 'preload'")
@@ -942,7 +943,8 @@ def _read_life(top: Where, raw: Any) -> LifeSettings:
                         reliability_method=v["reliability_method"],
                         application_factor=v["application_factor"],
                         min_speed_rpm=v["min_speed"], s0_min=v["s0_min"],
-                        use_modified_life=v["modified_life"])
+                        use_modified_life=v["modified_life"],
+                        from_element_loads=v["from_element_loads"])
 
 
 def _read_selection(top: Where, raw: Any) -> SelectionSettings:
@@ -976,6 +978,39 @@ def _read_lubrication(top: Where, raw: Any) -> Lubrication | None:
                        ep_additives=v["ep_additives"])
 
 
+def _check_pair_preloads(sw: Where, shafts_raw: Any, shafts: list[Shaft],
+                         solver: SolverSettings) -> None:
+    """A preload on a bearing of an adjusted pair at separate seats is the pair's
+    mounted axial force: it needs the nonlinear bearing solve (the shaft's axial
+    compatibility shares it) and an interior on both bearings, given once.
+    """
+    for i, (item, shaft) in enumerate(zip(shafts_raw, shafts, strict=True)):
+        by_id = {b.id: b for b in shaft.bearings}
+        braw = item.get("bearings") or []
+        bw = sw.child(i, item).child("bearings", braw)
+        for j, (b_raw, b) in enumerate(zip(braw, shaft.bearings, strict=False)):
+            if (b.pair is None or b.interior is None or b.interior.preload_N is None
+                    or b.rows >= 2):
+                continue
+            here = bw.child(j, b_raw).child("interior", b_raw.get("interior"))
+            partner = by_id.get(b.pair)
+            if solver.bearing_stiffness != "nonlinear":
+                raise here.error("preload", f"the preload of the adjusted pair '{b.id}', "
+                                 f"'{b.pair}' at separate seats is shared by the shaft's "
+                                 "axial compatibility, which the rigid-support solve "
+                                 "does not model", "solver: {bearing_stiffness: "
+                                 "nonlinear}, or remove 'preload'")
+            if partner is None or partner.interior is None:
+                raise here.error("preload", f"a preloaded pair needs the interior of both "
+                                 f"bearings; '{b.pair}' has none",
+                                 f"an 'interior' on bearing '{b.pair}' too")
+            if (partner.interior.preload_N is not None
+                    and partner.interior.preload_N != b.interior.preload_N):
+                raise here.error("preload", f"bearings '{b.id}' and '{b.pair}' give "
+                                 "different preloads of their pair",
+                                 "the preload on one bearing of the pair")
+
+
 def _read_solver(top: Where, raw: Any) -> SolverSettings:
     if raw is None:
         return SolverSettings()
@@ -983,7 +1018,10 @@ def _read_solver(top: Where, raw: Any) -> SolverSettings:
     return SolverSettings(shear_deformation=v["shear_deformation"],
                           max_element_mm=v["max_element"],
                           residual_tolerance=v["residual_tolerance"],
-                          include_shaft_weight=v["shaft_weight"])
+                          include_shaft_weight=v["shaft_weight"],
+                          bearing_stiffness=v["bearing_stiffness"],
+                          nonlinear_tolerance=v["nonlinear_tolerance"],
+                          nonlinear_max_iterations=v["nonlinear_max_iterations"])
 
 
 def _read_links(where: Where, raw: LocatedList | None, shafts: list[Shaft]) -> list[Link]:

@@ -118,6 +118,9 @@ def result_to_dict(result: Result) -> dict[str, Any]:
         from shaftsys.io.duty_cases import reduction_dict
 
         data["duty_reduction"] = reduction_dict(result.duty_reduction)
+    nonlinear = nonlinear_solve_dict(result)
+    if nonlinear is not None:
+        data["nonlinear_solve"] = nonlinear
     data["system"] = {"life_h": result.system_life_h,
                       "limiting_bearing": result.limiting_bearing,
                       **(result.system.to_dict() if result.system is not None else {})}
@@ -149,6 +152,28 @@ def _element_forces(s: ShaftResult) -> list[dict[str, Any]]:
         out.append({"id": el.id, "type": type(el).__name__, "x_mm": el.x_mm,
                     "cases": cases})
     return out
+def nonlinear_solve_dict(result: Result) -> dict[str, Any] | None:
+    """The ``nonlinear_solve`` object: how the shaft solve with nonlinear bearing
+    stiffness converged, per shaft and case (``None`` with rigid supports).
+    """
+    solver = result.model.solver
+    if solver.bearing_stiffness != "nonlinear":
+        return None
+    shafts = []
+    for s in result.shafts:
+        info = s.nonlinear
+        if info is None:
+            continue
+        shafts.append({
+            "shaft": s.shaft.id, "bearings": list(info.bearings), "axial": info.axial,
+            "cases": [{"case": c.case, "iterations": int(info.iterations[k]),
+                       "residual": float(info.residual[k]),
+                       "axial_passes": int(info.axial_passes[k]),
+                       "converged": bool(info.residual[k] <= info.tolerance)}
+                      for k, c in enumerate(s.cases)]})
+    return {"bearing_stiffness": solver.bearing_stiffness,
+            "tolerance": solver.nonlinear_tolerance,
+            "max_iterations": solver.nonlinear_max_iterations, "shafts": shafts}
 
 
 def finite_results(value: Any) -> Any:

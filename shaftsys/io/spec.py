@@ -484,6 +484,10 @@ LIFE = {
                    dim="speed", default=10.0, non_negative=True, maximum=MAX_SPEED_RPM),
     "s0_min": F("number", "required static safety for every bearing", positive=True),
     "modified_life": F("bool", "use Lnm when lubrication data is given", default=True),
+    "from_element_loads": F("bool", "the life verdict of a bearing with an interior uses "
+                            "its modified reference life from the rolling-element loads "
+                            "(a1 aISO times the ISO/TS 16281-style reference life) instead "
+                            "of the ISO 281 life", default=False),
 }
 
 SOLVER = {
@@ -494,6 +498,16 @@ SOLVER = {
     "residual_tolerance": F("number", "largest equilibrium residual", default=1e-9,
                             positive=True, maximum=1e-3),
     "shaft_weight": F("bool", "include the shaft's own weight", default=True),
+    "bearing_stiffness": F("choice", "rigid: supports as typed (rigid or linear springs); "
+                           "nonlinear: every bearing with an interior takes the tangent "
+                           "stiffness of its rolling-element loads, iterated per case until "
+                           "the reactions converge", default="rigid",
+                           choices=("rigid", "nonlinear")),
+    "nonlinear_tolerance": F("number", "convergence of the nonlinear bearing solve: largest "
+                             "out-of-balance force at the bearings / largest load",
+                             default=1e-8, positive=True, maximum=1e-2),
+    "nonlinear_max_iterations": F("int", "most Newton iterations of the nonlinear bearing "
+                                  "solve per case", default=60, minimum=1, maximum=10_000),
 }
 
 #: Largest slope limit a model file may set [rad] (about 29 deg: beyond it the beam

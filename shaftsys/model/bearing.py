@@ -212,6 +212,8 @@ class LifeSettings:
     min_speed_rpm: cases slower than this count for static checks only [rpm].
     s0_min: model-wide required static safety (``None`` = per-type common practice).
     use_modified_life: use Lnm when lubrication data exist (True) or always a1*L10.
+    from_element_loads: the life verdict of a bearing with an interior uses its modified
+        reference life from the element loads (``analysis.interior``) instead.
     """
 
     target_life_h: float = 20000.0
@@ -221,3 +223,4 @@ class LifeSettings:
     min_speed_rpm: float = 10.0
     s0_min: float | None = None
     use_modified_life: bool = True
+    from_element_loads: bool = False

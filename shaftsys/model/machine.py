@@ -22,12 +22,21 @@ class SolverSettings:
     max_element_mm: longest beam element [mm] (nodes are also put at every station).
     residual_tolerance: largest accepted equilibrium residual, relative to the load.
     include_shaft_weight: the shaft's own weight loads it (with gravity).
+    bearing_stiffness: ``"rigid"`` (default: the supports as typed, rigid or linear
+        springs) or ``"nonlinear"`` (every bearing with an interior takes the tangent
+        stiffness of its rolling-element loads; Newton iteration per case).
+    nonlinear_tolerance: convergence of the nonlinear solve: largest out-of-balance
+        force at the bearing degrees of freedom relative to the largest load.
+    nonlinear_max_iterations: most Newton iterations of the nonlinear solve per case.
     """
 
     shear_deformation: bool = True
     max_element_mm: float = 10.0
     residual_tolerance: float = 1e-9
     include_shaft_weight: bool = True
+    bearing_stiffness: str = "rigid"
+    nonlinear_tolerance: float = 1e-8
+    nonlinear_max_iterations: int = 60
 
 
 @dataclass(frozen=True, slots=True)

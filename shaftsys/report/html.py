@@ -594,9 +594,17 @@ def _internal(result: Result, ctx: _Render) -> str:
     if not result.internal:
         return ""
     from shaftsys.report.interior_plot import element_load_polar
-    from shaftsys.report.internal_table import HEADERS, TITLE, internal_rows
+    from shaftsys.report.internal_table import (
+        HEADERS,
+        TITLE,
+        internal_rows,
+        life_lines,
+        nonlinear_solve_lines,
+    )
 
     rows = [[_e(c) for c in r] for r in internal_rows(result)]
+    extra = [*life_lines(result), *nonlinear_solve_lines(result).splitlines()]
+    lines = "".join(f"<li>{_e(t)}</li>" for t in extra)
     figs = "".join(_figure(element_load_polar(bid, data), f"Rolling-element loads of "
                            f"{bid} in its most loaded case (outlines: the other cases)", ctx)
                    for bid, data in result.internal.items())
@@ -605,7 +613,8 @@ def _internal(result: Result, ctx: _Render) -> str:
             "internal geometry marked estimated follows a common-practice rule, not the "
             "maker's drawing. Use the maker's data for the bearing actually bought.")
     return (f'<section id="internal"><h2>{_e(TITLE)}</h2>'
-            f"{_table(HEADERS, rows, (0, 1))}{figs}<p class=note>{_e(note)}</p></section>")
+            f"{_table(HEADERS, rows, (0, 1))}" + (f"<ul>{lines}</ul>" if lines else "")
+            + f"{figs}<p class=note>{_e(note)}</p></section>")
 
 
 def _duty(result: Result, ctx: _Render) -> str:

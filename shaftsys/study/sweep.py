@@ -136,7 +136,9 @@ class Study:
                 # a chosen row's friction changes the heat balance that its life uses
                 and not (self.model.thermal is not None and self.model.open_seats)
                 and not any(getattr(e, "hubs_mm", ())  # a drum's hubs: loads off its station
-                            for e in self.model.shafts[0].elements))
+                            for e in self.model.shafts[0].elements)
+                # nonlinear bearing stiffness: the solve of analyse
+                and self.model.solver.bearing_stiffness != "nonlinear")
 
     def values_block(self, lo: int, hi: int) -> NDArray[np.float64]:
         """Values of variants ``lo..hi-1``, shape (hi - lo, n_quantities)."""
