@@ -450,3 +450,36 @@ def test_bundled_models_keep_their_verdicts() -> None:
     root = Path(__file__).resolve().parent.parent / "models"
     for name in ("fan_drive", "conveyor_head", "spindle_preload"):
         assert analyse(load_model(root / f"{name}.yaml")).ok, name
+
+
+@pytest.mark.parametrize("mode", ["required", "advisory"])
+def test_study_variants_carry_the_operating_verdicts_of_check(mode: str) -> None:
+    """A design study moves bearing A toward the load: its reaction (statics) rises from
+    F 130/260 = 1000 N below the minimum load 0.01 C = 1200 N (common practice, no
+    source) to above it. Every variant's ``A.min_load_ratio``, ``A.speed_ratio`` and
+    ``A.ok`` equal what ``analyse`` of the moved model gives its operating checks and
+    verdict, on the batched path and the one-analyse-per-variant path; an advisory
+    minimum load does not fail a variant."""
+    from shaftsys.study.paths import model_with
+    from shaftsys.study.sweep import make_study, sweep
+
+    checks = "" if mode == "required" else "checks: {min_load: advisory}\n"
+    model = load_model_text(model_text(checks, n_lim=2000.0))
+    study = make_study(model, [("bearing.A.at", "20:120:6")])
+    frames = [sweep(study, batched=b) for b in (True, False)]
+    seen_fail = False
+    for df in frames:
+        for i in range(study.n_variants):
+            variant, reason = model_with(model, study.quantities, study.values_block(i, i + 1)[0])
+            assert not reason
+            br = analyse(variant, with_shaft_checks=False).bearing("A")
+            oc = br.operating_check("minimum_load")
+            assert df["A.min_load_ratio"].iloc[i] == pytest.approx(oc.ratio, rel=1e-12)
+            assert df["A.speed_ratio"].iloc[i] == pytest.approx(
+                br.operating_check("limiting_speed").ratio, rel=1e-12)
+            assert bool(df["A.ok"].iloc[i]) == (br.verdict == "pass")
+            seen_fail |= oc.ratio < 1.0
+    assert seen_fail                                   # the study crosses the limit
+    ok_first = bool(frames[0]["A.ok"].iloc[0])
+    assert ok_first is (mode == "advisory")
+    assert frames[0]["A.min_load_ratio"].iloc[0] == pytest.approx(1000.0 / 1200.0, rel=1e-9)

@@ -88,8 +88,8 @@ def _check_against_single_run(model, study, df, i, rtol=1e-9):
             continue
         assert row[f"{bid}.Lnm_h"] == pytest.approx(b.life.Lnm_h, rel=rtol)
         assert row[f"{bid}.margin"] == pytest.approx(b.life.margin, rel=rtol)
-        assert bool(row[f"{bid}.ok"]) == b.life.ok
-        lives_ok &= b.life.ok
+        assert bool(row[f"{bid}.ok"]) == (b.verdict == "pass")   # life, statics, operating
+        lives_ok &= b.verdict == "pass"
         assert row[f"{bid}.temperature_max_C"] == pytest.approx(
             float(np.max(th.used_C[ev])), rel=rtol)
         assert row[f"{bid}.power_loss_W"] == pytest.approx(

@@ -19,6 +19,7 @@ of the settings or the lubricant (application factor, unknown method) reach ever
 from __future__ import annotations
 
 import logging
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -572,6 +573,8 @@ class RowPlan:
     Y0: float
     floor_at_Fr: bool
     s0_min: float
+    min_load_fraction: float = math.nan   # f of the minimum load f*C (common practice)
+    speed_ratio: float = math.nan         # largest running |n| / limiting speed
 
 
 @dataclass(frozen=True, eq=False)
@@ -580,7 +583,8 @@ class PlannedLife:
 
     ``fallback``: rows the plan does not cover (a load-dependent user error is possible,
     or C or a load is not a finite positive number): evaluate them with
-    :func:`evaluate`; their other numbers are not meaningful.
+    :func:`evaluate`; their other numbers are not meaningful. ``min_load_ratio``,
+    ``speed_ratio``: as :class:`LifeArrays` (the operating limits).
     """
 
     Lnm_h: FloatArray
@@ -591,6 +595,8 @@ class PlannedLife:
     static_ok: BoolArray
     ok: BoolArray
     fallback: BoolArray
+    min_load_ratio: FloatArray
+    speed_ratio: FloatArray
 
 
 def _as_slice(index: IntArray) -> IntArray | slice:
@@ -656,7 +662,10 @@ def plan_row(params: BearingArrays, duty: DutyCycle, settings: LifeSettings,
         n_m_rpm=n_m, modified=bool(use_mod), Cu_N=float(la.Cu_N[0]), ec=ec, terms=terms,
         ep_terms=ep_terms, ep_use=ep_use, X0=float(la.static_factors.X0[0]),
         Y0=float(la.static_factors.Y0[0]),
-        floor_at_Fr=bool(la.static_factors.floor_at_Fr[0]), s0_min=float(la.s0_min[0]))
+        floor_at_Fr=bool(la.static_factors.floor_at_Fr[0]), s0_min=float(la.s0_min[0]),
+        min_load_fraction=float(MIN_LOAD_FRACTION_ROLLER if params.roller[0]
+                                else MIN_LOAD_FRACTION_BALL),
+        speed_ratio=float(np.broadcast_to(la.speed_ratio, (1,))[0]))
 
 
 def evaluate_planned(plan: RowPlan, Fr_N: npt.ArrayLike, Fa_N: npt.ArrayLike,
@@ -759,11 +768,16 @@ def evaluate_planned(plan: RowPlan, Fr_N: npt.ArrayLike, Fa_N: npt.ArrayLike,
                 P0 = np.maximum(P0, Fr)
             P0max = P0.max(axis=1)
         s0 = np.where(P0max > 0.0, pl.C0_N / np.where(P0max > 0.0, P0max, 1.0), np.inf)
+        # operating limits of the running cases (as the general chain: P without af)
+        P_dyn = P[:, pl.idx]
+        min_load = (P_dyn.min(axis=1) / (pl.min_load_fraction * C) if P_dyn.size
+                    else np.full(b, np.nan))
     life_ok = Lnm_h >= pl.target_h
     static_ok = s0 >= pl.s0_min
     return PlannedLife(Lnm_h=Lnm_h, margin=margin, life_ratio=life_ratio, s0=s0,
                        life_ok=life_ok, static_ok=static_ok, ok=life_ok & static_ok,
-                       fallback=fall)
+                       fallback=fall, min_load_ratio=min_load,
+                       speed_ratio=np.full(b, pl.speed_ratio))
 
 
 def row_notes(params: BearingArrays, la: LifeArrays, i: int, speed_rpm: npt.ArrayLike

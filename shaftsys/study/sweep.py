@@ -268,6 +268,10 @@ def _evaluate_each(study: Study, values: NDArray[np.float64]) -> BatchArrays:
             out.life_ok[i, j] = life.life_ok
             out.static_ok[i, j] = life.static_ok
             out.ok[i, j] = life.ok
+            for oc in br.operating:
+                ratios = (out.speed_ratio if oc.check == "limiting_speed"
+                          else out.min_load_ratio)
+                ratios[i, j] = math.nan if oc.ratio is None else oc.ratio
         j = 0
         for sr in res.shafts:
             for el in sr.shaft.elements:
@@ -333,6 +337,9 @@ def results_frame(study: Study, index: NDArray[np.intp], values: NDArray[np.floa
     ``max_deflection_bearings_mm``, ``max_slope_bearings_rad``, ``limits_ok``,
     ``worst_limit_ratio`` (largest value/limit), ``ok``.
 
+    Per bearing also ``<id>.min_load_ratio`` and ``<id>.speed_ratio`` (the operating
+    limits; NaN: not judged); ``<id>.ok`` and ``ok`` include those the model's
+    ``checks:`` section makes required, as ``check`` does.
     With a heat balance (``model.thermal``) also, per bearing, ``<id>.temperature_max_C``
     (the hottest duty case's temperature the lives use: typed wins; one housing, so the
     same for every bearing), ``.power_loss_W`` (duration-weighted mean over the duty
@@ -359,12 +366,15 @@ def results_frame(study: Study, index: NDArray[np.intp], values: NDArray[np.floa
     cols["valid"] = valid
     cols["reason"] = a.reason.astype(str)
     cols["method"] = np.full(B, method)
+    operating_ok = _operating_ok(study.model, bearings, a)
     for j, bid in enumerate(bearings):
         cols[f"{bid}.Lnm_h"] = a.Lnm_h[:, j]
         cols[f"{bid}.margin"] = a.margin[:, j]
         cols[f"{bid}.life_ratio"] = a.life_ratio[:, j]
         cols[f"{bid}.s0"] = a.s0[:, j]
-        cols[f"{bid}.ok"] = a.ok[:, j] & valid
+        cols[f"{bid}.min_load_ratio"] = a.min_load_ratio[:, j]
+        cols[f"{bid}.speed_ratio"] = a.speed_ratio[:, j]
+        cols[f"{bid}.ok"] = a.ok[:, j] & operating_ok[:, j] & valid
         cols[f"{bid}.Fr_max_N"] = a.Fr_max_N[:, j]
         cols[f"{bid}.Fa_max_N"] = a.Fa_max_N[:, j]
         cols[f"{bid}.deflection_mm"] = a.deflection_mm[:, j]
@@ -415,8 +425,29 @@ def results_frame(study: Study, index: NDArray[np.intp], values: NDArray[np.floa
         thermal_ok = valid & th.ok
         cols["thermal_ok"] = thermal_ok
         cols["thermal_reason"] = np.where(valid, th.reason, "").astype(str)
-    cols["ok"] = valid & np.all(a.ok, axis=1) & (ratio <= 1.0) & thermal_ok
+    cols["ok"] = (valid & np.all(a.ok & operating_ok, axis=1) & (ratio <= 1.0)
+                  & thermal_ok)
     return pd.DataFrame(cols)
+
+
+def _operating_ok(model: Model, bearings: Sequence[str], a: BatchArrays
+                  ) -> NDArray[np.bool_]:
+    """(B, n_bearings): the limiting-speed and minimum-load checks pass where the model's
+    ``checks:`` section makes them required (as ``analysis.life.operating_checks``: speed
+    passes at n/n_lim <= 1, load at P/(f C) >= 1; a ratio that is NaN, no limiting speed
+    or no running case, is not judged).
+    """
+    out = np.ones(a.ok.shape, dtype=bool)
+    if a.speed_ratio.shape != a.ok.shape:
+        return out
+    for j, bid in enumerate(bearings):
+        if model.checks.mode("speed", bid) == "required":
+            r = a.speed_ratio[:, j]
+            out[:, j] &= ~(r > 1.0)
+        if model.checks.mode("min_load", bid) == "required":
+            r = a.min_load_ratio[:, j]
+            out[:, j] &= ~(r < 1.0)
+    return out
 
 
 def _rowmax(x: NDArray[np.float64]) -> NDArray[np.float64]:

@@ -283,6 +283,10 @@ class BatchArrays:
     chosen_mass_kg: Array = field(default_factory=lambda: np.zeros(0))
     chosen_price: Array = field(default_factory=lambda: np.zeros(0))
     thermal: VariantThermal | None = None   # the heat balance per variant, if any
+    #: per bearing (B, n_bearings): smallest running P/(f C) and largest running
+    #: |n| / limiting speed (NaN: not evaluated), as LifeArrays
+    min_load_ratio: Array = field(default_factory=lambda: np.zeros((0, 0)))
+    speed_ratio: Array = field(default_factory=lambda: np.zeros((0, 0)))
 
     @classmethod
     def empty(cls, B: int, nb: int, ne: int, n_open: int = 0) -> BatchArrays:
@@ -296,7 +300,8 @@ class BatchArrays:
         return cls(f(B, nb), f(B, nb), f(B, nb), f(B, nb), f(B, nb), f(B, nb), z(B, nb),
                    z(B, nb), z(B, nb), f(B, nb), f(B, nb), f(B, ne), f(B, ne), f(B),
                    np.full(B, -1, dtype=np.intp), np.full(B, "", dtype=object),
-                   np.full((B, n_open), -1, dtype=np.intp), f(B), f(B))
+                   np.full((B, n_open), -1, dtype=np.intp), f(B), f(B), None, f(B, nb),
+                   f(B, nb))
 
     def put(self, rows: NDArray[np.intp], other: BatchArrays) -> None:
         """Copy ``other`` (len(rows) variants) into ``rows``."""
@@ -618,6 +623,8 @@ def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp
         res.life_ok[rows, j] = pl.life_ok
         res.static_ok[rows, j] = pl.static_ok
         res.ok[rows, j] = pl.ok
+        res.min_load_ratio[rows, j] = pl.min_load_ratio
+        res.speed_ratio[rows, j] = pl.speed_ratio
         L90[:, j] = pl.Lnm_h
         a1[:, j] = plan.a1
     again = np.flatnonzero(fall)
@@ -686,6 +693,8 @@ def _evaluate_group(prep: Prepared, group: tuple[int, ...], Fr: Array, Fa: Array
     res.life_ok[at, cols] = la.life_ok.reshape(nv, g)
     res.static_ok[at, cols] = la.static_ok.reshape(nv, g)
     res.ok[at, cols] = la.ok.reshape(nv, g)
+    res.min_load_ratio[at, cols] = la.min_load_ratio.reshape(nv, g)
+    res.speed_ratio[at, cols] = np.broadcast_to(la.speed_ratio, (nv * g,)).reshape(nv, g)
     L90[sub[:, None], cols] = la.Lnm_h.reshape(nv, g)
     a1[sub[:, None], cols] = la.a1.reshape(nv, g)
 
