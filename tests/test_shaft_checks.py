@@ -441,3 +441,34 @@ def test_per_plane_slopes_at_the_bearings_follow_the_load_plane():
         assert c["slope_rad"] == pytest.approx(math.hypot(c["slope_xy_rad"],
                                                           c["slope_xz_rad"]), rel=1e-12)
         assert abs(c["deflection_y_mm"]) < 1e-9 and abs(c["deflection_z_mm"]) < 1e-9
+
+
+def test_a_two_node_mesh_is_checked_without_a_crash(tmp_path):
+    """A plain shaft on two end supports meshed with one element (max_element longer
+    than the shaft, no element between): the modal check still runs (its bending DOFs
+    are the two end rotations), the run ends in a verdict (exit 0 or 1, never a
+    traceback) and the classical estimates are undefined (no free lateral DOF)."""
+    from shaftsys.cli.main import main
+
+    text = """shaftsys: 1
+units: internal
+materials: {steel: {E: 210000, nu: 0.3, density: 7850, Su: 650, Sy: 430}}
+solver: {max_element: 1000}
+life: {target: 20000 h}
+shafts:
+  - id: s
+    material: steel
+    steps: [{length: 300, d: 40}]
+    bearings:
+      - {id: A, type: deep_groove_ball, at: 0, d: 40, D: 80, C: 30000, C0: 19000,
+         axial: both}
+      - {id: B, type: deep_groove_ball, at: 300, d: 40, D: 80, C: 30000, C0: 19000}
+cases:
+  - {id: c1, share: 1, speed: 1000 rpm}
+"""
+    path = tmp_path / "two.yaml"
+    path.write_text(text, encoding="utf-8")
+    out = tmp_path / "two.json"
+    assert main(["check", str(path), "--json", str(out), "-q"]) in (0, 1)
+    sc = json.loads(out.read_text())["shaft_checks"]["shafts"][0]
+    assert sc["modes"]["rayleigh_rpm"] is None and sc["modes"]["dunkerley_rpm"] is not None

@@ -99,7 +99,13 @@ def shaft_modes(shaft: Shaft, model: Model, *, max_element_mm: float | None = No
                         b.tilt_stiffness_Nmm_rad)
                 for b in shaft.bearings if b.kind is not BearingKind.THRUST_BALL]
     label = f"shaft '{shaft.id}', bending modes"
-    kept = min(n_modes + 2, 2 * n - 2 * len(supports))
+    # free DOFs: 2 per node less those the supports hold rigidly (deflection, tilt)
+    held = sum(int(math.isinf(sp.k_t_N_mm)) + int(sp.k_r_Nmm_rad is not None
+                                                  and math.isinf(sp.k_r_Nmm_rad))
+               for sp in supports)
+    kept = min(n_modes + 2, 2 * n - held)
+    if kept < 1:     # every bending DOF of the mesh is held: no bending mode
+        return _torsion_only(shaft, sm, polar, n_modes)
     bend = bending_modes(sm.mesh, supports, point_mass_kg=mass, point_inertia_kgm2=dia,
                          shear=model.solver.shear_deformation, rotary_inertia=rotary_inertia,
                          n_modes=kept, label=label)
@@ -120,6 +126,17 @@ def shaft_modes(shaft: Shaft, model: Model, *, max_element_mm: float | None = No
     return ShaftModes(shaft.id, tuple(float(v) for v in b_rpm[:n_modes]),
                       tuple(float(v) for v in t_rpm[:n_modes]), sm.mesh.x_mm.copy(),
                       shapes, _to_rpm(rayleigh), _to_rpm(dunkerley))
+
+
+def _torsion_only(shaft: Shaft, sm: Any, polar: NDArray[np.float64], n_modes: int
+                  ) -> ShaftModes:
+    """The modes of a shaft without a free bending DOF: torsion only."""
+    n = sm.mesh.n_nodes
+    tors = torsion_modes(sm.mesh, (), polar_inertia_kgm2=polar, n_modes=min(n_modes + 1, n),
+                         label=f"shaft '{shaft.id}', torsion modes")
+    t_rpm, _idx = _nonzero(tors.rpm)
+    return ShaftModes(shaft.id, (), tuple(float(v) for v in t_rpm[:n_modes]),
+                      sm.mesh.x_mm.copy(), np.zeros((0, n)), math.nan, math.nan)
 
 
 def _nonzero(rpm: NDArray[np.float64]) -> tuple[NDArray[np.float64], NDArray[np.intp]]:

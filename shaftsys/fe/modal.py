@@ -337,7 +337,9 @@ def classical_estimates(K: Array, M: Array, rigid: NDArray[np.bool_]) -> tuple[f
     a[free % 2 == 0] = 1.0          # lateral DOFs: u at even rows of the full vector
     f = Mr @ a
     y = scipy.linalg.cho_solve((c, True), f)
-    rayleigh = math.sqrt(float(a @ Mr @ y) / float(y @ Mr @ y))
+    yMy = float(y @ Mr @ y)
+    # no free lateral DOF (a mesh held at every node): no static shape, no estimate
+    rayleigh = math.sqrt(float(a @ Mr @ y) / yMy) if yMy > 0.0 else math.nan
     flex_m = scipy.linalg.cho_solve((c, True), Mr)
     dunkerley = 1.0 / math.sqrt(float(np.trace(flex_m)))
     return rayleigh, dunkerley
