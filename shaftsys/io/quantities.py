@@ -136,6 +136,8 @@ EXACT_FACTORS: dict[tuple[str, str], float] = {
                                      ("Hz", 60.0))},
     **{("power", u): f for u, f in (("W", 1.0), ("kW", 1000.0), ("MW", 1e6))},
     ("time", "h"): 1.0,
+    ("time", "min"): 1.0 / 60.0,
+    ("time", "s"): 1.0 / 3600.0,
     **{("viscosity", u): 1.0 for u in ("mm^2/s", "mm**2/s", "cSt")},
     ("temperature", "degC"): 1.0,
     **{("angle", u): 1.0 for u in ("deg", "degree")},

@@ -101,6 +101,9 @@ class SeriesSource:
     gaps: list[str] = field(default_factory=list)
     extras: tuple[str, ...] = ()
     _passes: int = 0
+    #: the raw columns of a recording that fits in one chunk, kept after the first read
+    #: (the reduction reads twice; a larger file is streamed again, memory stays bounded)
+    _single: dict[str, Any] | None = None
 
     @property
     def name(self) -> str:
@@ -119,6 +122,19 @@ class SeriesSource:
         return f"line {self.data_line + row}" if self.kind == "csv" else f"row {row + 1}"
 
     def _raw(self) -> Iterator[dict[str, Any]]:
+        if self._single is not None:
+            yield self._single
+            return
+        first: dict[str, Any] | None = None
+        count = 0
+        for raw in self._read():
+            count += 1
+            first = raw if count == 1 else None
+            yield raw
+        if count == 1:
+            self._single = first
+
+    def _read(self) -> Iterator[dict[str, Any]]:
         names = list(self.columns.values())
         if self.kind == "csv":
             import pandas as pd
