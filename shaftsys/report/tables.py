@@ -271,11 +271,14 @@ def shaft_checks_table(sc: ShaftChecks) -> str:
         ratio = s.first_critical_rpm / s.max_speed_rpm if s.max_speed_rpm > 0 else math.inf
         verdict = ("supercritical" if s.supercritical else "ok") if s.critical_speed_ok \
             else "TOO CLOSE"
-        rows.append([s.id, _fmt(s.first_critical_rpm, ".0f"), _fmt(s.first_torsional_rpm, ".0f"),
-                     f"{s.max_speed_rpm:.0f}", _fmt(ratio, ".2f"), verdict])
+        second = (s.modes.bending_rpm[1] if s.modes is not None
+                  and len(s.modes.bending_rpm) > 1 else math.inf)
+        rows.append([s.id, _fmt(s.first_critical_rpm, ".0f"), _fmt(second, ".0f"),
+                     _fmt(s.first_torsional_rpm, ".0f"), f"{s.max_speed_rpm:.0f}",
+                     _fmt(ratio, ".2f"), verdict])
     lines += ["", "Critical speeds (non-rotating shaft, no gyroscopic effects)",
-              format_table(["shaft", "bending rpm", "torsion rpm", "max rpm", "ratio",
-                            "verdict"], rows, "lrrrrl")]
+              format_table(["shaft", "bending rpm", "2nd bending rpm", "torsion rpm",
+                            "max rpm", "ratio", "verdict"], rows, "lrrrrrl")]
     rows = []
     empty: list[str] = []
     for s in sc.shafts:
