@@ -472,3 +472,86 @@ cases:
     assert main(["check", str(path), "--json", str(out), "-q"]) in (0, 1)
     sc = json.loads(out.read_text())["shaft_checks"]["shafts"][0]
     assert sc["modes"]["rayleigh_rpm"] is None and sc["modes"]["dunkerley_rpm"] is not None
+
+
+def _spring_beam_beta_l(kappa: float) -> float:
+    """First flexible root beta*L of a uniform Euler-Bernoulli beam on equal translational
+    springs k at both ends, no rotational restraint, kappa = k L^3 / (E I). Hand-derived:
+    y = A cosh + B sinh + C cos + D sin (beta x); y''(0) = y''(L) = 0 and the end shears
+    balance the springs, E I y'''(0) = -k y(0), E I y'''(L) = k y(L) (signs checked below:
+    kappa -> infinity gives the pinned-pinned pi, kappa -> 0 the free-free 4.730)."""
+    from scipy.optimize import brentq
+
+    def det(bl: float) -> float:
+        c, s, ch, sh = math.cos(bl), math.sin(bl), math.cosh(bl), math.sinh(bl)
+        b3 = bl**3
+        # unknowns (A, B, C, D); rows: y''(0), y''(L), shear at 0, shear at L (scaled L^3)
+        M = np.array([
+            [1.0, 0.0, -1.0, 0.0],
+            [ch, sh, -c, -s],
+            [kappa, b3, kappa, -b3],
+            [b3 * sh - kappa * ch, b3 * ch - kappa * sh, b3 * s - kappa * c,
+             -b3 * c - kappa * s],
+        ])
+        return float(np.linalg.det(M))
+
+    grid = np.linspace(0.5, 4.8, 4000)
+    vals = [det(x) for x in grid]
+    for a, b, fa, fb in zip(grid[:-1], grid[1:], vals[:-1], vals[1:], strict=True):
+        if fa == 0.0 or fa * fb < 0.0:
+            return float(brentq(det, a, b, xtol=1e-13))
+    raise AssertionError("no root")
+
+
+def test_critical_speed_with_the_nonlinear_bearings_tangent_stiffness():
+    """With solver.bearing_stiffness: nonlinear the modal check puts each such bearing's
+    tangent radial stiffness (fastest running case) under the shaft. A uniform 40 mm x
+    400 mm shaft on two equal deep groove ball bearings at its ends, centre load: the
+    first critical equals the spring-supported beam's closed form above with that k,
+    (on the translational springs alone), and lies below the rigid-support
+    (pinned-pinned) critical."""
+    assert _spring_beam_beta_l(1e12) == pytest.approx(math.pi, rel=1e-6)
+    assert _spring_beam_beta_l(1e-9) == pytest.approx(4.730040745, rel=1e-6)
+    text = """shaftsys: 1
+units: internal
+materials: {steel: {E: 210000, nu: 0.3, density: 7850, Su: 650, Sy: 430}}
+solver: {bearing_stiffness: nonlinear, shear_deformation: false, shaft_weight: false,
+         max_element: 5}
+gravity: [0, 0, 0]
+life: {target: 20000 h}
+shafts:
+  - id: s
+    material: steel
+    steps: [{length: 400, d: 40}]
+    bearings:
+      - {id: A, type: deep_groove_ball, at: 0, d: 40, D: 80, B: 18, C: 30000, C0: 19000,
+         axial: both, interior: {Dw: 12, Z: 9, clearance: 0}}
+      - {id: B, type: deep_groove_ball, at: 400, d: 40, D: 80, B: 18, C: 30000, C0: 19000,
+         interior: {Dw: 12, Z: 9, clearance: 0}}
+    elements:
+      - {id: L, type: load, at: 200}
+cases:
+  - {id: c1, share: 1, speed: 1500 rpm, loads: {L: {force: [0, -4000, 0]}}}
+"""
+    from shaftsys.analysis.modes import tangent_support_stiffness
+
+    model = load_model_text(text)
+    result = analyse(model, with_life=False)
+    springs = tangent_support_stiffness(model, result.bearings)
+    kA, kB = springs["A"][0], springs["B"][0]
+    assert kA == pytest.approx(kB, rel=1e-6) and kA > 1e4
+    EI = 210_000.0 * math.pi * 40.0**4 / 64.0
+    rhoA = 7850e-12 * math.pi * 40.0**2 / 4.0           # t/mm
+    bl = _spring_beam_beta_l(kA * 400.0**3 / EI)
+    w = (bl / 400.0) ** 2 * math.sqrt(EI / rhoA)
+    from shaftsys.analysis.modes import shaft_modes
+
+    # the FE modes on the translational springs alone meet the closed form
+    alone = shaft_modes(model.shafts[0], model, stiffness={"A": (kA, None), "B": (kB, None)})
+    assert alone.bending_rpm[0] == pytest.approx(_rpm(w), rel=1e-4)
+    # the check also keeps the bearings' small tilt stiffness: a little stiffer, and
+    # still below the rigid (pinned-pinned) supports
+    crit = result.checks.shafts[0].first_critical_rpm
+    assert alone.bending_rpm[0] <= crit <= 1.02 * alone.bending_rpm[0]
+    assert crit < 0.97 * _rpm((math.pi / 400.0) ** 2 * math.sqrt(EI / rhoA))
+    assert any("tangent stiffness" in n for n in result.checks.shafts[0].notes)

@@ -12,6 +12,7 @@ ends (its rigid-body mode dropped). Speeds are 60 f [rpm].
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from typing import Any
 
@@ -77,10 +78,14 @@ def _to_rpm(omega_rad_s: float) -> float:
 
 def shaft_modes(shaft: Shaft, model: Model, *, max_element_mm: float | None = None,
                 rotary_inertia: bool = False, n_modes: int = MODES_KEPT,
-                estimates: bool = True) -> ShaftModes:
+                estimates: bool = True,
+                stiffness: Mapping[str, tuple[float, float | None]] | None = None
+                ) -> ShaftModes:
     """The lowest ``n_modes`` bending and torsional modes of ``shaft`` with the classical
     estimates (mesh: ``max_element_mm`` or the model's solver setting, at most
     :data:`MODAL_MAX_ELEMENTS` elements; ``estimates=False`` leaves them ``nan``).
+    ``stiffness``: bearing id -> (radial [N/mm], tilt [N*mm/rad]) springs that replace
+    the typed support of those bearings (:func:`tangent_support_stiffness`).
     """
     h = max_element_mm or model.solver.max_element_mm
     h = max(h, shaft.length_mm / MODAL_MAX_ELEMENTS)
@@ -94,7 +99,9 @@ def shaft_modes(shaft: Shaft, model: Model, *, max_element_mm: float | None = No
         mass[k] += el.mass_kg
         dia[k] += el.diametral_inertia_kgm2
         polar[k] += el.polar_inertia_kgm2
-    supports = [Support(sm.bearing_nodes[b.id],
+    springs = stiffness or {}
+    supports = [Support(sm.bearing_nodes[b.id], *springs[b.id]) if b.id in springs else
+                Support(sm.bearing_nodes[b.id],
                         b.radial_stiffness_N_mm if b.radial_stiffness_N_mm else math.inf,
                         b.tilt_stiffness_Nmm_rad)
                 for b in shaft.bearings if b.kind is not BearingKind.THRUST_BALL]
@@ -148,9 +155,40 @@ def _nonzero(rpm: NDArray[np.float64]) -> tuple[NDArray[np.float64], NDArray[np.
     return rpm[idx], idx
 
 
+def tangent_support_stiffness(model: Model, bearings: Sequence[Any]
+                              ) -> dict[str, tuple[float, float | None]]:
+    """Bearing id -> (radial [N/mm], tilt [N*mm/rad]) support springs of the bearings
+    solved with nonlinear stiffness (``BearingResult.interior_state``): the tangent
+    stiffness of the bearing's rows (:func:`shaftsys.bearings.interior.distribution`) in
+    the running case with the largest |speed| (duty and peak cases; the speed a critical
+    is judged against), averaged over the two radial planes and the two tilt axes. Empty
+    for a model whose supports are rigid or typed.
+    """
+    from shaftsys.bearings.interior import distribution
+
+    kinds = {c.id: c.kind.value for c in model.cases}
+    out: dict[str, tuple[float, float | None]] = {}
+    for b in bearings:
+        state = getattr(b, "interior_state", None)
+        if state is None or not b.loads:
+            continue
+        speeds = [abs(ld.speed_rpm) if kinds.get(ld.case) in ("duty", "peak") else -1.0
+                  for ld in b.loads]
+        k = int(np.argmax(speeds))
+        u = np.asarray(state.u, dtype=float)[k:k + 1]
+        K = sum(distribution(row, u).K[0] for row in state.rows)
+        radial = 0.5 * (float(K[0, 0]) + float(K[1, 1]))
+        tilt = 0.5 * (float(K[3, 3]) + float(K[4, 4]))
+        if radial > 0.0 and math.isfinite(radial):
+            out[b.bearing.id] = (radial, tilt if tilt > 0.0 and math.isfinite(tilt)
+                                 else None)
+    return out
+
+
 def model_modes(model: Model) -> dict[str, ShaftModes]:
     """:func:`shaft_modes` of every shaft, by shaft id."""
     return {s.id: shaft_modes(s, model) for s in model.shafts}
 
 
-__all__ = ["MODES_KEPT", "ShaftModes", "model_modes", "shaft_modes"]
+__all__ = ["MODES_KEPT", "ShaftModes", "model_modes", "shaft_modes",
+           "tangent_support_stiffness"]

@@ -14,6 +14,7 @@ import numpy as np
 
 from shaftsys.analysis.interior import element_load_verdicts, internal_results
 from shaftsys.analysis.life import evaluate_lives
+from shaftsys.analysis.modes import tangent_support_stiffness
 from shaftsys.analysis.results import Result
 from shaftsys.analysis.selection import choose_bearings
 from shaftsys.analysis.shaft_checks import check_shaft_results
@@ -66,7 +67,11 @@ def analyse(model: Model, *, with_life: bool = True, with_shaft_checks: bool = T
         shaft_lives = lives.shaft_lives or {}
         shafts = tuple(s.with_system_life(*lives.shaft_system[s.shaft.id],
                                           shaft_lives.get(s.shaft.id)) for s in shafts)
-    checks = check_shaft_results(model, shafts) if with_shaft_checks else None
+    checks = None
+    if with_shaft_checks:
+        springs = (tangent_support_stiffness(model, bearings)
+                   if model.solver.bearing_stiffness == "nonlinear" else None)
+        checks = check_shaft_results(model, shafts, stiffness=springs)
     from_loads = model.life.from_element_loads
     internal = internal_results(bearings, from_loads) if with_life else None
     if internal and from_loads:

@@ -62,6 +62,7 @@ from __future__ import annotations
 
 import logging
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
 
 import numpy as np
@@ -169,9 +170,13 @@ def check_shafts(result: Result, settings: ShaftCheckSettings | None = None) -> 
 
 
 def check_shaft_results(model: Model, solved: tuple[ShaftResult, ...],
-                        settings: ShaftCheckSettings | None = None) -> ShaftChecks:
+                        settings: ShaftCheckSettings | None = None,
+                        stiffness: Mapping[str, tuple[float, float | None]] | None = None
+                        ) -> ShaftChecks:
     """:func:`check_shafts` of solved shafts (what the pipeline calls before the
-    :class:`~shaftsys.analysis.results.Result` exists).
+    :class:`~shaftsys.analysis.results.Result` exists). ``stiffness``: support springs
+    of bearings solved with nonlinear stiffness, for the modes
+    (:func:`shaftsys.analysis.modes.tangent_support_stiffness`).
     """
     st = settings or settings_from_model(model)
     known = {b.id for _, b in model.bearings()}
@@ -185,7 +190,7 @@ def check_shaft_results(model: Model, solved: tuple[ShaftResult, ...],
     for sr in solved:
         bearings.extend(_bearing_checks(sr, st))
         gears.extend(_gear_checks(sr, st))
-        shafts.append(_shaft_check(model, sr, st))
+        shafts.append(_shaft_check(model, sr, st, stiffness))
     return ShaftChecks(tuple(shafts), tuple(bearings), tuple(gears), st)
 
 
@@ -353,12 +358,20 @@ def _first(rpm: tuple[float, ...]) -> float:
     return rpm[0] if rpm else math.inf
 
 
-def _shaft_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings) -> ShaftCheck:
+def _shaft_check(model: Model, sr: ShaftResult, st: ShaftCheckSettings,
+                 stiffness: Mapping[str, tuple[float, float | None]] | None = None
+                 ) -> ShaftCheck:
     shaft = sr.shaft
+    springs = {k: v for k, v in (stiffness or {}).items()
+               if any(b.id == k for b in shaft.bearings)}
     notes: list[str] = ["critical speeds of the non-rotating shaft: gyroscopic effects and "
                         "speed-dependent bearing stiffness are left out"]
+    if springs:
+        notes.append("critical speeds with the tangent stiffness of the nonlinear bearings "
+                     "(" + ", ".join(f"{k}: {v[0]:.4g} N/mm" for k, v in springs.items())
+                     + ") in the fastest running case")
     modes = shaft_modes(shaft, model, max_element_mm=st.max_element_mm,
-                        rotary_inertia=st.rotary_inertia)
+                        rotary_inertia=st.rotary_inertia, stiffness=springs or None)
     f_bend, f_tors = _first(modes.bending_rpm), _first(modes.torsional_rpm)
     kinds = {c.id: c.kind for c in model.cases}
     speeds = [abs(cs.speed_rpm) for cs in sr.cases

@@ -753,7 +753,8 @@ def _critical_speed_section(result: Result, ctx: _Render | None = None) -> str:
             f"</ul>{modes_table}{figs}"
             '<p class="note">Bending criticals from the modal analysis of the beam model '
             "of the non-rotating shaft (bearings as rigid supports unless a radial "
-            "stiffness is given; no gyroscopic effects). Rayleigh's estimate uses the "
+            "stiffness is given, or on their tangent stiffness when the model solves "
+            "them with nonlinear stiffness; no gyroscopic effects). Rayleigh's estimate uses the "
             "static deflection under a uniform lateral acceleration (an upper bound of the "
             "first critical), Dunkerley's the sum over all modes (a lower bound).</p>"
             "</section>")
