@@ -139,13 +139,13 @@ def solve_banded_batch(Lb: Array, b: Array, *, overwrite_b: bool = False) -> Arr
     """
     p, n, _ = Lb.shape
     y = b if overwrite_b and b.dtype == np.float64 else np.array(b, dtype=float, copy=True)
-    for j in range(n):  # forward: L y = b
-        y[j] /= Lb[0, j]
-        k = min(p - 1, n - 1 - j)
-        if k:
-            y[j + 1 : j + 1 + k] -= Lb[1 : 1 + k, j][:, None, :] * y[j][None]
     acc = np.empty(y.shape[1:])
     term = np.empty(y.shape[1:])
+    for j in range(n):  # forward: L y = b (y[j + d] -= L[j + d, j] y[j], in place)
+        y[j] /= Lb[0, j]
+        for d in range(1, min(p - 1, n - 1 - j) + 1):
+            np.multiply(Lb[d, j][None, :], y[j], out=term)
+            y[j + d] -= term
     for j in range(n - 1, -1, -1):  # backward: L^T x = y
         k = min(p - 1, n - 1 - j)
         if k:   # sum over d = 1..k in that order (a sum over the first axis), no temporary

@@ -494,14 +494,10 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
                 out_[h] = 0.0
         return out_
 
-    ry = np.zeros((nb, m, b))
-    rz = np.zeros((nb, m, b))
-    block = np.empty((2 * m, b))
+    R = np.zeros((nb, 2 * m, b))     # both planes' reactions (0: no support, thrust)
     for s_i, (j, _, _) in enumerate(prep.supports):
-        combine(Rf[s_i], block)
-        ry[j] = block[:m]
-        rz[j] = block[m:]
-    Fr = np.hypot(ry, rz)                                # (nb, m, b)
+        combine(Rf[s_i], R[j])
+    Fr = np.hypot(R[:, :m], R[:, m:])                    # (nb, m, b)
     Ka = prep.fx_elements[:, None] + (mass_total * prep.gravity[0])[None, :]  # (m, b)
     Fa = _axial(shaft, Ka, Fr)                           # (nb, m, b)
     # --- deflections and slopes at the bearing and element nodes, largest over cases
@@ -509,7 +505,14 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
     defl = np.empty((nodes.size, b))                     # (nb + ne, b)
     slope = np.empty((nodes.size, b))
     hyp = np.empty((m, b))
-    for r, nd in enumerate(nodes):
+    block = np.empty((2 * m, b))
+    first: dict[int, int] = {}      # node -> its first row (elements may share a node)
+    for r, nd in enumerate(nodes.tolist()):
+        if nd in first:             # the same node: the same values, computed once
+            defl[r] = defl[first[nd]]
+            slope[r] = slope[first[nd]]
+            continue
+        first[nd] = r
         for dof, largest in ((2 * nd, defl), (2 * nd + 1, slope)):
             if rigid[dof]:          # a rigid support's DOF: u = 0 in every column
                 largest[r] = 0.0
@@ -535,9 +538,9 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
         ok_rows = ok_rows[(failed[ok_rows] == "") & ~res.thermal.runaway[ok_rows]]
     if ok_rows.size:
         C = geom.bearing_C_N[rows]
-        # (nb, b, m), C-contiguous: one bearing's spectra are rows of a (b, m) block
-        _lives(prep, np.ascontiguousarray(np.moveaxis(Fr, 2, 1)),
-               np.ascontiguousarray(np.moveaxis(Fa, 2, 1)), C, ok_rows, res, temps)
+        # (nb, b, m) views of the case-major (nb, m, b) blocks: one bearing's spectra
+        # are the rows of a (b, m) view (evaluate_planned takes any layout)
+        _lives(prep, np.moveaxis(Fr, 2, 1), np.moveaxis(Fa, 2, 1), C, ok_rows, res, temps)
     bad_rows = np.flatnonzero(res.reason != "")
     if bad_rows.size:
         for name in ("Fr_max_N", "Fa_max_N", "deflection_mm", "slope_rad",
