@@ -99,13 +99,17 @@ def cholesky_banded_batch(ab: Array) -> Array:
                 W[c, r] = W[r, c]
             elif r == c:
                 W[r, c] = 1.0  # padding beyond the matrix end
+    # the next window is written into a second buffer (no temporaries; the same
+    # operations on the same values, so the same bits)
+    W2 = np.empty_like(W)
+    outer = np.empty((u, u, B))
     with np.errstate(invalid="ignore", divide="ignore"):
         for j in range(n):
-            piv = np.sqrt(W[0, 0])
-            col = W[1:, 0] / piv
-            Lb[0, j] = piv
-            Lb[1:, j] = col
-            W[:u, :u] = W[1:, 1:] - col[:, None] * col[None, :]
+            piv = np.sqrt(W[0, 0], out=Lb[0, j])
+            col = np.divide(W[1:, 0], piv, out=Lb[1:, j])
+            np.multiply(col[:, None], col[None, :], out=outer)
+            np.subtract(W[1:, 1:], outer, out=W2[:u, :u])
+            W, W2 = W2, W
             nxt = j + p  # the DOF entering the window
             if nxt < n:
                 W[:, u] = ab[:, nxt]  # A[nxt - u + r, nxt] for r = 0..u

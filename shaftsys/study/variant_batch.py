@@ -303,6 +303,12 @@ class BatchArrays:
                    np.full((B, n_open), -1, dtype=np.intp), f(B), f(B), None, f(B, nb),
                    f(B, nb))
 
+    def window(self, lo: int, hi: int) -> BatchArrays:
+        """Variants ``lo:hi`` as views (writing to them writes here); no heat balance."""
+        return replace(self, thermal=None, **{
+            name: getattr(self, name)[lo:hi] for name in self.__dataclass_fields__
+            if name != "thermal"})
+
     def put(self, rows: NDArray[np.intp], other: BatchArrays) -> None:
         """Copy ``other`` (len(rows) variants) into ``rows``."""
         for name in self.__dataclass_fields__:
@@ -519,7 +525,11 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
                 continue
             combine(U[dof], block)
             _largest_hypot(block[:m], block[m:], largest[r], hyp)
-    res = BatchArrays.empty(b, nb, ne, len(prep.open_seats))
+    # consecutive variants without a heat balance: results written in place (the rows
+    # of ``out`` still hold the values of BatchArrays.empty), else copied by put
+    direct = prep.thermal is None and int(rows[-1]) - int(rows[0]) + 1 == b
+    res = (out.window(int(rows[0]), int(rows[0]) + b) if direct
+           else BatchArrays.empty(b, nb, ne, len(prep.open_seats)))
     res.reason[:] = reason
     res.deflection_mm[:] = defl[:nb].T
     res.slope_rad[:] = slope[:nb].T
@@ -546,7 +556,8 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
         for name in ("Fr_max_N", "Fa_max_N", "deflection_mm", "slope_rad",
                      "el_deflection_mm", "el_slope_rad"):
             getattr(res, name)[bad_rows] = np.nan
-    out.put(rows, res)
+    if not direct:
+        out.put(rows, res)
 
 
 #: Squared norms within this relative distance of the largest count as a tie.
@@ -564,11 +575,15 @@ def _largest_hypot(a: Array, b: Array, out: Array, work: Array) -> None:
     """
     np.multiply(a, a, out=work)
     work += b * b
-    k = np.argmax(work, axis=0)
-    cols = np.arange(a.shape[1])
-    top = work[k, cols]
-    single = (work >= top * (1.0 - _TIE)).sum(axis=0) == 1
+    # max over the outer axis (fast; NaN propagates as at argmax's pick) and the first
+    # case near it: in a column with a single such case that is argmax's case (others
+    # go to the full pass below, whatever case k names there)
+    top = work.max(axis=0)
+    near = work >= top * (1.0 - _TIE)
+    single = np.count_nonzero(near, axis=0) == 1
     single &= top >= 1e-280                     # normal numbers: the error bound holds
+    k = np.argmax(near, axis=0)
+    cols = np.arange(a.shape[1])
     np.hypot(a[k, cols], b[k, cols], out=out)
     rest = np.flatnonzero(~single)
     if rest.size:
