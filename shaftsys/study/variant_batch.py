@@ -436,16 +436,17 @@ def _evaluate_topology(prep: Prepared, geom: Geometry, rows: NDArray[np.intp], p
     sup_nodes = np.array([int(bnode[j]) for j, _, _ in prep.supports], dtype=np.intp)
     Rf = np.zeros((len(prep.supports), nc, b))
     Rm = np.zeros((len(prep.supports), nc, b))
+    kterm = np.empty((nc, b))
     for s_i, (_, kt, kr) in enumerate(prep.supports):
         for dof, kk, dest in ((2 * sup_nodes[s_i], kt, Rf), (2 * sup_nodes[s_i] + 1, kr, Rm)):
-            if math.isinf(kk):
-                ku = ab[3, dof][None, :] * U[dof]
+            if math.isinf(kk):      # sum in place, term by term in the same order
+                ku = np.multiply(ab[3, dof][None, :], U[dof], out=dest[s_i])
                 for d in range(1, 4):
                     if dof - d >= 0:
-                        ku = ku + ab[3 - d, dof][None, :] * U[dof - d]
+                        ku += np.multiply(ab[3 - d, dof][None, :], U[dof - d], out=kterm)
                     if dof + d < ndof:
-                        ku = ku + ab[3 - d, dof + d][None, :] * U[dof + d]
-                dest[s_i] = ku - Fu[dof]
+                        ku += np.multiply(ab[3 - d, dof + d][None, :], U[dof + d], out=kterm)
+                ku -= Fu[dof]
             else:
                 dest[s_i] = -kk * U[dof]
     # --- global balance of every unit column (force, moment about x = 0): the nodal
