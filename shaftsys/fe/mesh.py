@@ -361,9 +361,13 @@ def snap_stations_batch(
     for i in range(P):
         col = order[:, i]
         x = st[rows, col]
-        dist = np.subtract(places[: n_e + i], x, out=work[: n_e + i])
+        k = n_e + i
+        dist = np.subtract(places[:k], x, out=work[:k])
         np.abs(dist, out=dist)
-        nearest = places[np.argmax(dist == dist.min(axis=0), axis=0), rows]
+        at_min = dist == dist.min(axis=0)
+        nearest = places[k - 1].copy()
+        for r in range(k - 2, -1, -1):     # the first place at the minimum wins
+            np.copyto(nearest, places[r], where=at_min[r])
         snap = np.abs(nearest - x) <= tol_mm
         out[rows, col] = np.where(snap, nearest, x)
         places[n_e + i] = np.where(snap, np.inf, x)

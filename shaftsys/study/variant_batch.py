@@ -339,8 +339,9 @@ def evaluate_geometry(prep: Prepared, geom: Geometry) -> BatchArrays:
     pts = np.concatenate([edges, geom.bearing_x_mm + offsets, geom.element_x_mm], axis=1)
     # the mesh rule of the single run: stations snapped (fe.mesh.snap_stations_batch),
     # then clustered as build_mesh does (fe.mesh.node_order / cluster_nodes)
-    pts[valid, ns + 1 :] = snap_stations_batch(pts[valid, ns + 1 :], edges[valid])
-    order, newc = node_order(pts[valid])
+    sel = slice(None) if valid.size == B else valid     # every variant: views, no copies
+    pts[sel, ns + 1 :] = snap_stations_batch(pts[sel, ns + 1 :], edges[sel])
+    order, newc = node_order(pts[sel])
     sig = np.concatenate([order, newc.astype(order.dtype)], axis=1)
     inverse = np.zeros(valid.size, dtype=np.intp)
     other = np.flatnonzero(np.any(sig != sig[0], axis=1))  # most share the first topology
