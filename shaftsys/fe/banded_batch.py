@@ -143,21 +143,26 @@ def solve_banded_batch(Lb: Array, b: Array, *, overwrite_b: bool = False) -> Arr
     """
     p, n, _ = Lb.shape
     y = b if overwrite_b and b.dtype == np.float64 else np.array(b, dtype=float, copy=True)
+    u = p - 1
+    term = np.empty((u, *y.shape[1:]))   # L[j + d, j] times a row, d = 1..k
     acc = np.empty(y.shape[1:])
-    term = np.empty(y.shape[1:])
     for j in range(n):  # forward: L y = b (y[j + d] -= L[j + d, j] y[j], in place)
         y[j] /= Lb[0, j]
-        for d in range(1, min(p - 1, n - 1 - j) + 1):
-            np.multiply(Lb[d, j][None, :], y[j], out=term)
-            y[j + d] -= term
+        k = min(u, n - 1 - j)
+        if k:
+            t = np.multiply(Lb[1 : 1 + k, j][:, None, :], y[j][None], out=term[:k])
+            y[j + 1 : j + 1 + k] -= t
     for j in range(n - 1, -1, -1):  # backward: L^T x = y
-        k = min(p - 1, n - 1 - j)
-        if k:   # sum over d = 1..k in that order (a sum over the first axis), no temporary
-            np.multiply(Lb[1, j][None, :], y[j + 1], out=acc)
-            for d in range(2, k + 1):
-                np.multiply(Lb[d, j][None, :], y[j + d], out=term)
-                acc += term
-            y[j] -= acc
+        k = min(u, n - 1 - j)
+        if k:   # sum over d = 1..k in that order, the products in one pass
+            t = np.multiply(Lb[1 : 1 + k, j][:, None, :], y[j + 1 : j + 1 + k], out=term[:k])
+            if k == 1:
+                y[j] -= t[0]
+            else:
+                np.add(t[0], t[1], out=acc)
+                for d in range(2, k):
+                    acc += t[d]
+                y[j] -= acc
         y[j] /= Lb[0, j]
     return y
 
