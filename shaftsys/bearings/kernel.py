@@ -684,9 +684,13 @@ def evaluate_planned(plan: RowPlan, Fr_N: npt.ArrayLike, Fa_N: npt.ArrayLike,
     C_N:
         Basic dynamic load rating of each row [N], shape (b,).
     """
-    # C-contiguous (b, m): the sums over the cases then run in the general chain's order
-    Fr = np.ascontiguousarray(Fr_N, dtype=np.float64)
-    Fa = np.abs(np.ascontiguousarray(Fa_N, dtype=np.float64))
+    # any memory layout: every operation on the loads is elementwise or a max/min (exact
+    # in any order); the two sums over the cases run over fresh C-contiguous (b, m)
+    # arrays, the general chain's order. A (b, m) view of case-major (m, b) data (the
+    # study's layout) is not copied, and its max/min over the cases are the fast
+    # reductions over the outer axis (several times faster than over a short inner one)
+    Fr = np.asarray(Fr_N, dtype=np.float64)
+    Fa = np.abs(np.asarray(Fa_N, dtype=np.float64))
     C = np.asarray(C_N, dtype=np.float64)
     pl = plan
     with np.errstate(all="ignore"):

@@ -102,10 +102,12 @@ def planar_balance(x_mm: ArrayLike, Fy_N: ArrayLike, Mz_Nmm: ArrayLike) -> Array
     if mz.shape != fy.shape:
         raise ValueError(f"Fy_N and Mz_Nmm must have the same shape, got {fy.shape} and "
                          f"{mz.shape}")
-    x = np.broadcast_to(np.asarray(x_mm, dtype=float), fy.shape)
+    x0 = np.asarray(x_mm, dtype=float)
+    x = np.broadcast_to(x0, fy.shape)
     if fy.shape[-1] == 0:
         return np.zeros(fy.shape[:-1])
-    arm = np.abs(x).max(axis=-1)
+    # the largest |x| of the positions before broadcasting (the same set of values)
+    arm = np.broadcast_to(np.abs(x0).max(axis=-1), fy.shape[:-1])
     arm = np.where(arm == 0.0, 1.0, arm)
     sum_fy = fy.sum(axis=-1)
     sum_mz = mz.sum(axis=-1) + (x * fy).sum(axis=-1)

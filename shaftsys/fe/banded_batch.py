@@ -99,13 +99,17 @@ def cholesky_banded_batch(ab: Array) -> Array:
                 W[c, r] = W[r, c]
             elif r == c:
                 W[r, c] = 1.0  # padding beyond the matrix end
+    # the next window is written into a second buffer (no temporaries; the same
+    # operations on the same values, so the same bits)
+    W2 = np.empty_like(W)
+    outer = np.empty((u, u, B))
     with np.errstate(invalid="ignore", divide="ignore"):
         for j in range(n):
-            piv = np.sqrt(W[0, 0])
-            col = W[1:, 0] / piv
-            Lb[0, j] = piv
-            Lb[1:, j] = col
-            W[:u, :u] = W[1:, 1:] - col[:, None] * col[None, :]
+            piv = np.sqrt(W[0, 0], out=Lb[0, j])
+            col = np.divide(W[1:, 0], piv, out=Lb[1:, j])
+            np.multiply(col[:, None], col[None, :], out=outer)
+            np.subtract(W[1:, 1:], outer, out=W2[:u, :u])
+            W, W2 = W2, W
             nxt = j + p  # the DOF entering the window
             if nxt < n:
                 W[:, u] = ab[:, nxt]  # A[nxt - u + r, nxt] for r = 0..u
@@ -139,21 +143,26 @@ def solve_banded_batch(Lb: Array, b: Array, *, overwrite_b: bool = False) -> Arr
     """
     p, n, _ = Lb.shape
     y = b if overwrite_b and b.dtype == np.float64 else np.array(b, dtype=float, copy=True)
-    for j in range(n):  # forward: L y = b
-        y[j] /= Lb[0, j]
-        k = min(p - 1, n - 1 - j)
-        if k:
-            y[j + 1 : j + 1 + k] -= Lb[1 : 1 + k, j][:, None, :] * y[j][None]
+    u = p - 1
+    term = np.empty((u, *y.shape[1:]))   # L[j + d, j] times a row, d = 1..k
     acc = np.empty(y.shape[1:])
-    term = np.empty(y.shape[1:])
+    for j in range(n):  # forward: L y = b (y[j + d] -= L[j + d, j] y[j], in place)
+        y[j] /= Lb[0, j]
+        k = min(u, n - 1 - j)
+        if k:
+            t = np.multiply(Lb[1 : 1 + k, j][:, None, :], y[j][None], out=term[:k])
+            y[j + 1 : j + 1 + k] -= t
     for j in range(n - 1, -1, -1):  # backward: L^T x = y
-        k = min(p - 1, n - 1 - j)
-        if k:   # sum over d = 1..k in that order (a sum over the first axis), no temporary
-            np.multiply(Lb[1, j][None, :], y[j + 1], out=acc)
-            for d in range(2, k + 1):
-                np.multiply(Lb[d, j][None, :], y[j + d], out=term)
-                acc += term
-            y[j] -= acc
+        k = min(u, n - 1 - j)
+        if k:   # sum over d = 1..k in that order, the products in one pass
+            t = np.multiply(Lb[1 : 1 + k, j][:, None, :], y[j + 1 : j + 1 + k], out=term[:k])
+            if k == 1:
+                y[j] -= t[0]
+            else:
+                np.add(t[0], t[1], out=acc)
+                for d in range(2, k):
+                    acc += t[d]
+                y[j] -= acc
         y[j] /= Lb[0, j]
     return y
 

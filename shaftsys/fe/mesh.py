@@ -351,16 +351,26 @@ def snap_stations_batch(
     if P == 0:
         return out
     order = np.argsort(st, axis=1, kind="stable")
-    places = np.full((B, n_e + P), np.inf)  # edges, then the stations placed so far
-    places[:, :n_e] = ed
+    # place-major (place, variant): edges, then the stations placed so far; the first
+    # place at the smallest distance is the first where the distance equals its minimum
+    # over the places (argmin's pick; min over the outer axis is the fast reduction)
+    places = np.full((n_e + P, B), np.inf)
+    places[:n_e] = ed.T
     rows = np.arange(B)
+    work = np.empty_like(places)
     for i in range(P):
         col = order[:, i]
         x = st[rows, col]
-        nearest = places[rows, np.argmin(np.abs(places[:, : n_e + i] - x[:, None]), axis=1)]
+        k = n_e + i
+        dist = np.subtract(places[:k], x, out=work[:k])
+        np.abs(dist, out=dist)
+        at_min = dist == dist.min(axis=0)
+        nearest = places[k - 1].copy()
+        for r in range(k - 2, -1, -1):     # the first place at the minimum wins
+            np.copyto(nearest, places[r], where=at_min[r])
         snap = np.abs(nearest - x) <= tol_mm
         out[rows, col] = np.where(snap, nearest, x)
-        places[:, n_e + i] = np.where(snap, np.inf, x)
+        places[n_e + i] = np.where(snap, np.inf, x)
     return out
 
 

@@ -67,9 +67,12 @@ def seat_fit(edges_mm: Array, d_mm: Array, x_mm: Array, half_width_mm: float,
         fits = under & ~misfit
         bad = ~fits.any(axis=1)
         wrong = under & misfit
-    first = np.argmax(wrong, axis=1)
-    diameter = np.where(bad, d[np.arange(d.shape[0]), first], np.nan)
-    return np.asarray(bad, dtype=bool), np.asarray(diameter, dtype=float)
+    diameter = np.full(bad.shape, np.nan)
+    rows = np.flatnonzero(bad)     # usually few: the first misfit step of those only
+    if rows.size:
+        dd = np.broadcast_to(d, wrong.shape)
+        diameter[rows] = dd[rows, np.argmax(wrong[rows], axis=1)]
+    return np.asarray(bad, dtype=bool), diameter
 
 
 def widths_overlap(c1_mm: Array, w1_mm: float, c2_mm: Array, w2_mm: float
