@@ -281,3 +281,27 @@ def test_recording_section_equals_options(tmp_path: Path) -> None:
     p3 = subprocess.run([sys.executable, "-m", "shaftsys", "check", str(bad)],
                         capture_output=True, text=True, cwd=ROOT)
     assert p3.returncode == 2 and "bad.yaml:" in p3.stderr and "recording.bins" in p3.stderr
+
+
+def test_small_csv_read_by_numpy_equals_the_streamed_read(tmp_path: Path) -> None:
+    """A recording that fits in one chunk is read by numpy in one piece; the same file
+    streamed through pandas in small chunks gives the same samples (equivalence of two
+    readers, common practice, no source), and a blank line still takes the pandas path
+    with its located error."""
+    rec = tmp_path / "rec.csv"
+    subprocess.run([sys.executable, str(ROOT / "models" / "make_demo_recording.py"),
+                    str(rec), "--hours", "0.05"], check=True, capture_output=True)
+    one = open_series(rec)
+    assert one._plain_csv(list(one.columns.values())) is not None
+    many = open_series(rec, chunk_rows=500)
+    assert many._plain_csv(list(many.columns.values())) is None
+    a = [np.concatenate(x) for x in zip(*one.chunks(), strict=True)]
+    b = [np.concatenate(x) for x in zip(*many.chunks(), strict=True)]
+    for x, y in zip(a, b, strict=True):
+        np.testing.assert_array_equal(x, y)
+    lines = rec.read_text().splitlines()
+    rec.write_text("\n".join([*lines[:5], "", *lines[5:]]) + "\n")
+    from shaftsys.errors import ModelError
+
+    with pytest.raises(ModelError, match=r"rec\.csv:6: column 'time \[s\]': an empty cell"):
+        list(open_series(rec).chunks())
