@@ -22,8 +22,8 @@ from numpy.typing import NDArray
 from shaftsys.analysis.solve import mesh_shaft
 from shaftsys.fe.modal import (
     bending_matrices,
-    bending_modes,
     classical_estimates,
+    solve_modes,
     torsion_modes,
 )
 from shaftsys.fe.solve import Support
@@ -106,44 +106,31 @@ def shaft_modes(shaft: Shaft, model: Model, *, max_element_mm: float | None = No
                         b.tilt_stiffness_Nmm_rad)
                 for b in shaft.bearings if b.kind is not BearingKind.THRUST_BALL]
     label = f"shaft '{shaft.id}', bending modes"
+    tors = torsion_modes(sm.mesh, (), polar_inertia_kgm2=polar, n_modes=min(n_modes + 1, n),
+                         label=f"shaft '{shaft.id}', torsion modes")
+    t_rpm = tuple(float(v) for v in _nonzero(tors.rpm)[0][:n_modes])
     # free DOFs: 2 per node less those the supports hold rigidly (deflection, tilt)
     held = sum(int(math.isinf(sp.k_t_N_mm)) + int(sp.k_r_Nmm_rad is not None
                                                   and math.isinf(sp.k_r_Nmm_rad))
                for sp in supports)
     kept = min(n_modes + 2, 2 * n - held)
     if kept < 1:     # every bending DOF of the mesh is held: no bending mode
-        return _torsion_only(shaft, sm, polar, n_modes)
-    bend = bending_modes(sm.mesh, supports, point_mass_kg=mass, point_inertia_kgm2=dia,
-                         shear=model.solver.shear_deformation, rotary_inertia=rotary_inertia,
-                         n_modes=kept, label=label)
-    tors = torsion_modes(sm.mesh, (), polar_inertia_kgm2=polar, n_modes=min(n_modes + 1, n),
-                         label=f"shaft '{shaft.id}', torsion modes")
+        return ShaftModes(shaft.id, (), t_rpm, sm.mesh.x_mm.copy(), np.zeros((0, n)),
+                          math.nan, math.nan)
+    # one assembly serves the eigen-solution and the classical estimates
+    K, M, rigid = bending_matrices(sm.mesh, supports, point_mass_kg=mass,
+                                   point_inertia_kgm2=dia,
+                                   shear=model.solver.shear_deformation,
+                                   rotary_inertia=rotary_inertia, label=label)
+    bend = solve_modes(K, M, rigid, kept, label)
     b_rpm, b_idx = _nonzero(bend.rpm)
-    t_rpm, _ = _nonzero(tors.rpm)
     shapes = bend.shapes[0::2, b_idx[:n_modes]].T
     peak = np.take_along_axis(shapes, np.argmax(np.abs(shapes), axis=1)[:, None], axis=1)
     shapes = shapes / np.where(peak == 0.0, 1.0, peak)
-    rayleigh, dunkerley = math.nan, math.nan
-    if estimates and supports:
-        K, M, rigid = bending_matrices(sm.mesh, supports, point_mass_kg=mass,
-                                       point_inertia_kgm2=dia,
-                                       shear=model.solver.shear_deformation,
-                                       rotary_inertia=rotary_inertia, label=label)
-        rayleigh, dunkerley = classical_estimates(K, M, rigid)
-    return ShaftModes(shaft.id, tuple(float(v) for v in b_rpm[:n_modes]),
-                      tuple(float(v) for v in t_rpm[:n_modes]), sm.mesh.x_mm.copy(),
-                      shapes, _to_rpm(rayleigh), _to_rpm(dunkerley))
-
-
-def _torsion_only(shaft: Shaft, sm: Any, polar: NDArray[np.float64], n_modes: int
-                  ) -> ShaftModes:
-    """The modes of a shaft without a free bending DOF: torsion only."""
-    n = sm.mesh.n_nodes
-    tors = torsion_modes(sm.mesh, (), polar_inertia_kgm2=polar, n_modes=min(n_modes + 1, n),
-                         label=f"shaft '{shaft.id}', torsion modes")
-    t_rpm, _idx = _nonzero(tors.rpm)
-    return ShaftModes(shaft.id, (), tuple(float(v) for v in t_rpm[:n_modes]),
-                      sm.mesh.x_mm.copy(), np.zeros((0, n)), math.nan, math.nan)
+    rayleigh, dunkerley = (classical_estimates(K, M, rigid) if estimates and supports
+                           else (math.nan, math.nan))
+    return ShaftModes(shaft.id, tuple(float(v) for v in b_rpm[:n_modes]), t_rpm,
+                      sm.mesh.x_mm.copy(), shapes, _to_rpm(rayleigh), _to_rpm(dunkerley))
 
 
 def _nonzero(rpm: NDArray[np.float64]) -> tuple[NDArray[np.float64], NDArray[np.intp]]:

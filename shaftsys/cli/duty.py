@@ -155,9 +155,7 @@ def run_duty(args: argparse.Namespace) -> int:
 
     model = load_model(args.model)
     if args.series is None:
-        from shaftsys.io.recording import model_recording
-
-        rec = model_recording(args.model)
+        rec = model.recording
         if rec is None:
             raise ModelError(f"{args.model} names no recording", file=args.model,
                              field="recording", expected="a series file argument, or a "

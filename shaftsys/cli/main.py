@@ -307,9 +307,7 @@ def _solve(args: argparse.Namespace, bar: Any) -> Any:
         model = replace(model, selection=replace(model.selection,
                                                  objective=Objective(args.objective)))
     bar.advance()
-    from shaftsys.io.recording import model_recording
-
-    spec = model_recording(args.model)
+    spec = model.recording
     if spec is None:
         bar.status("solving")
         result = analyse(model)
@@ -344,12 +342,11 @@ def _verdict_code(result: Any) -> int:
 # ------------------------------------------------------------------------ commands
 def _validate(args: argparse.Namespace) -> int:
     from shaftsys.io.loader import load_model
-    from shaftsys.io.recording import model_recording, require_series_file
+    from shaftsys.io.recording import require_series_file
 
     model = load_model(args.model)
-    spec = model_recording(args.model)
-    if spec is not None:
-        require_series_file(spec)
+    if model.recording is not None:
+        require_series_file(model.recording)
     if not args.quiet:
         nb = sum(len(s.bearings) for s in model.shafts)
         seats = (f", {len(model.open_seats)} of them to choose from a catalogue"

@@ -146,13 +146,13 @@ def run_optimise(args: argparse.Namespace) -> int:
     from shaftsys.io.loader import load_model
     from shaftsys.io.model_duty import load_model_with_duty
     from shaftsys.io.output import json_ready, write_figure, write_json
-    from shaftsys.io.recording import analyse_recorded, model_recording
+    from shaftsys.io.recording import analyse_recorded
     from shaftsys.study.optimise import optimise
     from shaftsys.study.section import optimise_from_section, read_study_section
     from shaftsys.study.sweep import make_study
 
     logging.getLogger("shaftsys.bearings").setLevel(logging.ERROR)
-    model, reduction = load_model_with_duty(args.model, analyse_model=False)
+    model, _ = load_model_with_duty(args.model, analyse_model=False)
     section, name = read_study_section(args.model)
     spec = optimise_from_section(model, section, name)
     try:
@@ -176,10 +176,9 @@ def run_optimise(args: argparse.Namespace) -> int:
     out_dir.mkdir(parents=True, exist_ok=True)
     write_moved_model(args.model, stations, model_out, note=note)
     moved = load_model(str(model_out))
-    spec_rec = model_recording(args.model) if reduction is not None else None
     # the recorded cases of the optimum come from the same recording as the input's
-    result = (analyse(moved) if spec_rec is None else
-              analyse_recorded(moved, spec_rec))
+    result = (analyse(moved) if model.recording is None else
+              analyse_recorded(moved, model.recording))
     limit_ok = all(v <= 1.0 + TOLERANCE for v in opt.limit_values.values())
     margin_ok = opt.worst_margin >= spec.min_life_margin * (1.0 - TOLERANCE)
     data = {**opt.to_dict(), "bounds": {p: list(b) for p, b in spec.bounds.items()},

@@ -56,6 +56,7 @@ __all__ = [
     "bending_matrices",
     "bending_modes",
     "classical_estimates",
+    "solve_modes",
     "torsion_modes",
 ]
 
@@ -207,9 +208,13 @@ def _nodal(values: ArrayLike | None, n: int, what: str) -> Array:
     return v
 
 
-def _solve_eig(
+def solve_modes(
     K: Array, M: Array, rigid: NDArray[np.bool_], n_modes: int | None, label: str
 ) -> Modes:
+    """The lowest ``n_modes`` (all: ``None``) modes of the dense system (K, M) with the
+    ``rigid`` DOFs held (e.g. from :func:`bending_matrices`); NumericalError for a
+    mass matrix that is not positive definite or a negative eigenvalue.
+    """
     free = np.flatnonzero(~rigid)
     nf = free.size
     if nf == 0:
@@ -282,7 +287,7 @@ def bending_modes(
     K, M, rigid = bending_matrices(mesh, supports, point_mass_kg=point_mass_kg,
                                    point_inertia_kgm2=point_inertia_kgm2, shear=shear,
                                    rotary_inertia=rotary_inertia, label=label)
-    return _solve_eig(K, M, rigid, n_modes, label)
+    return solve_modes(K, M, rigid, n_modes, label)
 
 
 def bending_matrices(
@@ -388,4 +393,4 @@ def torsion_modes(
     M[np.arange(n), np.arange(n)] += (
         _nodal(polar_inertia_kgm2, n, "polar_inertia_kgm2") * KG_M2_TO_T_MM2
     )
-    return _solve_eig(K, M, rigid, n_modes, label)
+    return solve_modes(K, M, rigid, n_modes, label)

@@ -56,6 +56,7 @@ from shaftsys.model import (
 from shaftsys.model.catalogue import Catalogue
 from shaftsys.model.checks import BearingCheckOverride, CheckSettings, GearCheckOverride
 from shaftsys.model.interior_rules import INTERIOR_KINDS, estimate_interior, interior_problems
+from shaftsys.model.recording import RecordingSpec
 from shaftsys.model.selection import Objective, OpenSeat, SelectionSettings
 
 _AXIAL_FREE_TYPES = {BearingKind.NEEDLE_ROLLER}
@@ -121,6 +122,15 @@ def build_model(raw: Any, file: str | None = None) -> Model:
     return replace(model, warnings=tuple(notes))
 
 
+def _read_recording(top: Where, raw: Any, file: str | None) -> RecordingSpec | None:
+    """The ``recording:`` section, checked here so that every command names its errors."""
+    if raw is None:
+        return None
+    from shaftsys.io.recording import read_recording
+
+    return read_recording(top, raw, file)
+
+
 def _build_model(raw: LocatedDict, file: str | None, top: Where) -> Model:
     values = read_section(top, raw, S.MODEL)
     materials = _read_materials(top, raw.get("materials"))
@@ -168,11 +178,8 @@ def _build_model(raw: LocatedDict, file: str | None, top: Where) -> Model:
         checks=check_settings,
         thermal=read_thermal(top, raw.get("thermal"), lubrication,
                              {b.id for s in shafts for b in s.bearings}),
+        recording=_read_recording(top, raw.get("recording"), file),
     )
-    if raw.get("recording") is not None:   # checked here so check/report name its errors
-        from shaftsys.io.recording import read_recording
-
-        read_recording(top, raw["recording"], file)
     if links:
         from shaftsys.machine.geometry import check_machine
 

@@ -8,7 +8,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from shaftsys.io.loader import load_model
-from shaftsys.io.recording import model_recording, reduce_recording
+from shaftsys.io.recording import reduce_recording
 
 if TYPE_CHECKING:
     from shaftsys.analysis.duty import DutyReduction
@@ -23,10 +23,9 @@ def load_model_with_duty(path: str | Path, *, analyse_model: bool = True
     ``analyse_model``).
     """
     model = load_model(path)
-    spec = model_recording(path)
-    if spec is None:
+    if model.recording is None:
         return model, None
-    red = reduce_recording(model, spec, analyse_model=analyse_model)
+    red = reduce_recording(model, model.recording, analyse_model=analyse_model)
     return red.model, red
 
 

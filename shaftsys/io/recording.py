@@ -1,9 +1,10 @@
 """The ``recording`` section of a model file: a recorded series that becomes the duty.
 
 ``read_recording(top, raw, file)`` checks the section (located errors, exit 2) and
-returns a :class:`RecordingSpec`; ``model_recording(path)`` reads it from a model file
-(``None`` when the model names no recording). ``reduce_recording(model, spec)`` reads the
-series and reduces it to the model's duty cases (``analysis.duty.reduce_duty``);
+returns a :class:`~shaftsys.model.recording.RecordingSpec` (the loader keeps it as
+``Model.recording``, ``None`` when the model names no recording).
+``reduce_recording(model, spec)`` reads the series and reduces it to the model's duty
+cases (``analysis.duty.reduce_duty``);
 ``analyse_recorded(model, spec)`` analyses the model with those cases (what ``check``,
 ``report`` and ``plot`` do); ``io.model_duty.load_model_with_duty`` gives the study
 commands the model with the recorded cases.
@@ -12,50 +13,18 @@ commands the model with the recorded cases.
 from __future__ import annotations
 
 import itertools
-from dataclasses import dataclass
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from shaftsys.io import spec as S
 from shaftsys.io.spec import Where, read_section, require_mapping
+from shaftsys.model.recording import RecordingSpec
 
 if TYPE_CHECKING:
     from shaftsys.analysis.duty import DutyReduction
     from shaftsys.analysis.duty_reduction import BinSettings
     from shaftsys.analysis.results import Result
     from shaftsys.model import Model
-
-
-@dataclass(frozen=True, slots=True)
-class RecordingSpec:
-    """A recording named in a model file.
-
-    path: the series file (made absolute against the model file's folder); time ..
-    temperature: column names (``None``: the default names); loads: (column, element,
-    component index 0..2 for Fx, Fy, Fz); bins, speed_bins: bin counts; edges_Nmm: torque
-    bin edges [N*mm] or ``None``; exponent: p or ``None`` (from the bearing types);
-    peak_above_Nmm [N*mm] or ``None``; tolerance_pct [%] or ``None``; template: case id or
-    ``None``; prefix: case-id prefix; line: line of the section, model_file: the model
-    file (messages).
-    """
-
-    path: Path
-    time: str | None
-    torque: str | None
-    power: str | None
-    speed: str | None
-    temperature: str | None
-    loads: tuple[tuple[str, str, int], ...]
-    bins: int
-    speed_bins: int
-    edges_Nmm: tuple[float, ...] | None
-    exponent: float | None
-    peak_above_Nmm: float | None
-    tolerance_pct: float | None
-    template: str | None
-    prefix: str
-    line: int | None = None
-    model_file: str | None = None
 
 
 def read_recording(top: Where, raw: Any, file: str | None) -> RecordingSpec | None:
@@ -93,19 +62,6 @@ def read_recording(top: Where, raw: Any, file: str | None) -> RecordingSpec | No
         exponent=v["exponent"], peak_above_Nmm=v["peak_above"],
         tolerance_pct=v["tolerance"], template=v["template"], prefix=v["prefix"],
         line=rw.line_of("file"), model_file=file)
-
-
-def model_recording(path: str | Path) -> RecordingSpec | None:
-    """The recording named by the model file at ``path`` (``None``: it names none)."""
-    from shaftsys.io.yamlsource import LocatedDict, parse_yaml, read_text_file
-
-    name = str(path)
-    raw = parse_yaml(read_text_file(path, "model file"), name)
-    if not isinstance(raw, LocatedDict) or raw.get("recording") is None:
-        return None
-    top = Where(name, "", raw)
-    with S.declared_units(S.read_units(top, raw.get("units"))):
-        return read_recording(top, raw["recording"], name)
 
 
 def require_series_file(spec: RecordingSpec) -> None:
@@ -164,5 +120,5 @@ def analyse_recorded(model: Model, spec: RecordingSpec) -> Result:
     return replace(red.result, duty_reduction=red)
 
 
-__all__ = ["RecordingSpec", "analyse_recorded", "bin_settings", "model_recording",
-           "read_recording", "reduce_recording", "require_series_file"]
+__all__ = ["RecordingSpec", "analyse_recorded", "bin_settings", "read_recording",
+           "reduce_recording", "require_series_file"]

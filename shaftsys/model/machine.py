@@ -7,6 +7,7 @@ from dataclasses import dataclass, field
 from shaftsys.model.bearing import Bearing, LifeSettings, Lubrication
 from shaftsys.model.case import Case
 from shaftsys.model.checks import CheckSettings
+from shaftsys.model.recording import RecordingSpec
 from shaftsys.model.selection import OpenSeat, SelectionSettings
 from shaftsys.model.shaft import Shaft
 from shaftsys.model.thermal import HeatBalance
@@ -91,6 +92,8 @@ class Model:
     thermal: heat-balance data of the housing (friction and operating temperature per
         case), or ``None``.
     checks: limits and targets of the checks (the model file's ``checks:`` section).
+    recording: the recorded series whose reduction gives the duty cases (``recording:``),
+        or ``None``.
     warnings: what the loader found plausible but suspicious (a value that looks like a
         unit slip), each naming file, line, field and the value as read.
     """
@@ -112,6 +115,7 @@ class Model:
     thermal: HeatBalance | None = None
     warnings: tuple[str, ...] = ()
     checks: CheckSettings = field(default_factory=CheckSettings)
+    recording: RecordingSpec | None = None
 
     def shaft(self, shaft_id: str) -> Shaft:
         """The shaft with this id."""

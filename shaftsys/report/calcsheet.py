@@ -592,8 +592,6 @@ def explain_system(result: Result) -> str:
     sum (L/L_i)^e_i = ln R / ln 0.9, that sum recomputed at the reported life, and the
     target with its verdict (information only without a target). Units: h.
     """
-    import math as _m
-
     out = ["SYSTEM LIFE (all supports of a group surviving together)",
            "  S_sys(L) = prod_i 0.9^((L/L_i)^e_i), L_i = Lnm_i/a1 (90 % life on the "
            "verdict basis); L at reliability R solves sum_i (L/L_i)^e_i = ln R/ln 0.9"]
@@ -617,7 +615,7 @@ def explain_system(result: Result) -> str:
             Li = b.life.Lnm_h / b.life.a1
             e = (sysl.weibull_slope_roller if b.bearing.kind.is_roller
                  else sysl.weibull_slope_ball)
-            term = (L / Li) ** e if L is not None and _m.isfinite(L) and Li > 0 else 0.0
+            term = (L / Li) ** e if L is not None and math.isfinite(L) and Li > 0 else 0.0
             total += term
             out.append(f"  {b.bearing.id}: L_i = {format_value(b.life.Lnm_h)} / "
                        f"{format_value(b.life.a1)} = {format_value(Li)} h, e = "
@@ -625,7 +623,7 @@ def explain_system(result: Result) -> str:
         if L is None:
             out.append("  system life not evaluated (a bearing was not)")
             continue
-        want = _m.log(sysl.reliability) / _m.log(0.9)
+        want = math.log(sysl.reliability) / math.log(0.9)
         out.append(f"  L = {format_value(L)} h: sum = {format_value(total)} against "
                    f"ln R/ln 0.9 = {format_value(want)}; limiting bearing "
                    f"{sysl.limiting_bearing}")

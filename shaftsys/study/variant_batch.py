@@ -603,6 +603,12 @@ def _axial(shaft: Shaft, Ka: Array, Fr: Array) -> Array:
 
 
 # ------------------------------------------------------------------------------ lives
+#: per-(variant, bearing) results the life chains give and the study keeps (the names of
+#: LifeArrays / PlannedLife and of BatchArrays agree)
+_LIFE_FIELDS = ("Lnm_h", "margin", "life_ratio", "s0", "life_ok", "static_ok", "ok",
+                "min_load_ratio")
+
+
 def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp],
            res: BatchArrays, temps: Array | None = None) -> None:
     """Life verdict of every bearing by the life chain of :mod:`shaftsys.bearings.kernel`.
@@ -638,15 +644,8 @@ def _lives(prep: Prepared, Fr: Array, Fa: Array, C: Array, rows: NDArray[np.intp
         pl = evaluate_planned(plan, Fr[j] if every else Fr[j][rows],
                               Fa[j] if every else Fa[j][rows], C[rows, j])
         fall |= pl.fallback
-        res.Lnm_h[rows, j] = pl.Lnm_h
-        res.margin[rows, j] = pl.margin
-        res.life_ratio[rows, j] = pl.life_ratio
-        res.s0[rows, j] = pl.s0
-        res.life_ok[rows, j] = pl.life_ok
-        res.static_ok[rows, j] = pl.static_ok
-        res.ok[rows, j] = pl.ok
-        res.min_load_ratio[rows, j] = pl.min_load_ratio
-        res.speed_ratio[rows, j] = pl.speed_ratio
+        for name in (*_LIFE_FIELDS, "speed_ratio"):
+            getattr(res, name)[rows, j] = getattr(pl, name)
         L90[:, j] = pl.Lnm_h
         a1[:, j] = plan.a1
     again = np.flatnonzero(fall)
@@ -708,14 +707,8 @@ def _evaluate_group(prep: Prepared, group: tuple[int, ...], Fr: Array, Fa: Array
         errors[(int(sub[int(r) // g]), int(group[int(r) % g]))] = la.errors[int(r)]
     bad[sub[:, None], cols] = failed.reshape(nv, g)
     at = at_chunk[:, None]
-    res.Lnm_h[at, cols] = la.Lnm_h.reshape(nv, g)
-    res.margin[at, cols] = la.margin.reshape(nv, g)
-    res.life_ratio[at, cols] = la.life_ratio.reshape(nv, g)
-    res.s0[at, cols] = la.s0.reshape(nv, g)
-    res.life_ok[at, cols] = la.life_ok.reshape(nv, g)
-    res.static_ok[at, cols] = la.static_ok.reshape(nv, g)
-    res.ok[at, cols] = la.ok.reshape(nv, g)
-    res.min_load_ratio[at, cols] = la.min_load_ratio.reshape(nv, g)
+    for name in _LIFE_FIELDS:
+        getattr(res, name)[at, cols] = getattr(la, name).reshape(nv, g)
     res.speed_ratio[at, cols] = np.broadcast_to(la.speed_ratio, (nv * g,)).reshape(nv, g)
     L90[sub[:, None], cols] = la.Lnm_h.reshape(nv, g)
     a1[sub[:, None], cols] = la.a1.reshape(nv, g)
